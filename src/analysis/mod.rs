@@ -1,0 +1,450 @@
+//! Everything derived from a pathway and a scenario: per-step dG'° and dG',
+//! classes, the cumulative profile, shares of the drop, coupled groups, the
+//! net balance, control verdicts with reasons, uncertainty and the reverse
+//! route's needs. `analyze` is pure and cheap enough to run on every keystroke.
+
+pub mod control;
+mod route;
+
+pub use control::{Verdict, VerdictKind};
+pub use route::{build, prepare, Direction, Prepared, Role, Route, RouteStep};
+
+use crate::model::{Pathway, Problem};
+use crate::scenario::State;
+use crate::thermo;
+
+/// How far a step sits from equilibrium.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Class {
+    /// dG' at or below the `far` threshold.
+    Far,
+    /// Q within `near_factor` of K'.
+    Near,
+    /// dG' above RT ln near_factor: cannot carry forward flux alone.
+    Uphill,
+    /// Between near and far.
+    Moderate,
+}
+
+impl Class {
+    /// Name used in JSON and tables.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Class::Far => "far",
+            Class::Near => "near",
+            Class::Uphill => "uphill",
+            Class::Moderate => "moderate",
+        }
+    }
+    /// Classifies a dG' (J/mol) with the file's thresholds at RT (J/mol).
+    pub fn of(dg: f64, far: f64, near_factor: f64, rt: f64) -> Class {
+        let near = rt * near_factor.ln();
+        if dg <= far {
+            Class::Far
+        } else if dg.abs() <= near {
+            Class::Near
+        } else if dg > near {
+            Class::Uphill
+        } else {
+            Class::Moderate
+        }
+    }
+}
+
+/// One compound's part in a step's RT ln Q.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Contribution {
+    /// Compound index.
+    pub compound: usize,
+    /// Signed coefficient as the step runs.
+    pub nu: f64,
+    /// ν RT ln(c / 1 M), J/mol.
+    pub energy: f64,
+}
+
+/// Results for one step as it runs on the route (or a side step as written).
+#[derive(Debug, Clone, PartialEq)]
+pub struct StepResult {
+    /// Index into `Pathway::steps`.
+    pub step: usize,
+    /// +1 as written, −1 reversed.
+    pub sign: f64,
+    /// Turns per pass (1 for side steps).
+    pub times: f64,
+    /// For a bypass: the forward step it replaces.
+    pub replaces: Option<usize>,
+    /// dG'° at the scenario's conditions, as run, J/mol.
+    pub dg0: f64,
+    /// dG' per turn, J/mol.
+    pub dg: f64,
+    /// Standard deviation of dG', J/mol, when any uncertainty is given.
+    pub dg_sd: Option<f64>,
+    /// The largest part of the variance: None for dg0, Some(compound) for a concentration.
+    pub sd_main: Option<Option<usize>>,
+    /// ln Q.
+    pub ln_q: f64,
+    /// ln K' at the conditions.
+    pub ln_k: f64,
+    /// Class.
+    pub class: Class,
+    /// The class holds across the 95 % interval of dG'.
+    pub class_sure: bool,
+    /// Classes at the two ends of the 95 % interval (low dG', high dG').
+    pub class_range: (Class, Class),
+    /// Cumulative weighted dG' after this step (route steps), J/mol.
+    pub cumulative: f64,
+    /// Cumulative weighted dG'° after this step, J/mol.
+    pub cumulative_dg0: f64,
+    /// Part of the route's total drop (0 for steps that go up).
+    pub share: f64,
+    /// Each compound's part of RT ln Q.
+    pub contributions: Vec<Contribution>,
+    /// The standard energy was kept at the reference temperature (no dh0).
+    pub kept_reference_dg0: bool,
+    /// Index into `Analysis::control` when this step has a verdict.
+    pub verdict: Option<usize>,
+}
+
+impl StepResult {
+    /// Q (mass-action ratio).
+    pub fn q(&self) -> f64 {
+        self.ln_q.exp()
+    }
+    /// K' at the conditions.
+    pub fn keq(&self) -> f64 {
+        self.ln_k.exp()
+    }
+    /// J+/J− = exp(−dG'/RT).
+    pub fn flux_ratio(&self, rt: f64) -> f64 {
+        (-self.dg / rt).exp()
+    }
+    /// Share of forward flux undone by the reverse flux, e^{dG'/RT}.
+    pub fn reverse_share(&self, rt: f64) -> f64 {
+        (self.dg / rt).exp()
+    }
+    /// Enzyme needed relative to an irreversible step, 1/(1 − e^{dG'/RT}); None unless dG' < 0.
+    pub fn enzyme_factor(&self, rt: f64) -> Option<f64> {
+        (self.dg < 0.0).then(|| 1.0 / (1.0 - (self.dg / rt).exp()))
+    }
+    /// times × dG'.
+    pub fn weighted(&self) -> f64 {
+        self.times * self.dg
+    }
+}
+
+/// A chain of coupled steps read together.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Group {
+    /// Positions in `Analysis::steps`.
+    pub members: Vec<usize>,
+    /// Sum of the members' per-turn dG', J/mol.
+    pub dg: f64,
+    /// Its standard deviation, when known.
+    pub dg_sd: Option<f64>,
+}
+
+/// A reversed step that is uphill in reverse and has no bypass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NeedsBypass {
+    /// Position in `Analysis::steps`.
+    pub position: usize,
+    /// The energy it lacks (its dG' per turn, > 0), J/mol.
+    pub lacks: f64,
+}
+
+/// Everything derived from one pathway and one scenario.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Analysis {
+    /// Direction analysed.
+    pub direction: Direction,
+    /// RT at the scenario temperature, J/mol.
+    pub rt: f64,
+    /// Route steps in order.
+    pub steps: Vec<StepResult>,
+    /// Side steps (as written).
+    pub side: Vec<StepResult>,
+    /// Coupled groups.
+    pub groups: Vec<Group>,
+    /// Σ times × dG'° (J/mol).
+    pub total_dg0: f64,
+    /// Σ times × dG' (J/mol).
+    pub total_dg: f64,
+    /// sd of the total, when known.
+    pub total_sd: Option<f64>,
+    /// Net change per pass of inputs, outputs and currencies: (compound, amount).
+    pub net: Vec<(usize, f64)>,
+    /// Position in `steps` of the largest weighted drop.
+    pub largest_drop: Option<usize>,
+    /// Verdicts for far route steps, in route order.
+    pub control: Vec<Verdict>,
+    /// Role of each compound on this route.
+    pub roles: Vec<Role>,
+    /// Branch-point flag of each compound.
+    pub branch: Vec<bool>,
+    /// Reverse route: reversed steps that are uphill with no bypass.
+    pub needs_bypass: Vec<NeedsBypass>,
+    /// Reverse route: the bypass standing in for the forward prime step.
+    pub counterpart: Option<usize>,
+    /// Notes and warnings for the reader, one line each.
+    pub notes: Vec<String>,
+}
+
+/// z for a two-sided 95 % interval.
+pub const Z95: f64 = 1.959964;
+
+/// Analyses the pathway under a scenario state.
+pub fn analyze(prep: &Prepared, state: &State) -> Result<Analysis, Problem> {
+    let route = prep.route(state.direction).map_err(Clone::clone)?;
+    let mut a = analyze_route(&prep.pathway, route, state);
+    if state.direction == Direction::Reverse {
+        let fwd_state = State { direction: Direction::Forward, ..state.clone() };
+        let fwd = analyze_route(&prep.pathway, &prep.forward, &fwd_state);
+        let prime = fwd.control.iter().find(|v| v.kind == VerdictKind::Prime).map(|v| fwd.steps[v.position].step);
+        a.counterpart = prime.and_then(|ps| a.steps.iter().position(|s| s.replaces == Some(ps)));
+        for (k, s) in a.steps.iter().enumerate() {
+            if s.sign < 0.0 && s.class == Class::Uphill {
+                a.needs_bypass.push(NeedsBypass { position: k, lacks: s.dg });
+            }
+        }
+    }
+    Ok(a)
+}
+
+fn step_result(p: &Pathway, step: usize, sign: f64, times: f64, replaces: Option<usize>, state: &State) -> StepResult {
+    let st = &p.steps[step];
+    let t = state.conditions.temperature;
+    let rt = thermo::rt(t);
+    let (g0, corr) = thermo::dg0_at(st, &p.compounds, &p.reference, &state.conditions);
+    let dg0 = sign * g0;
+    let mut ln_q = 0.0;
+    let mut contributions = Vec::with_capacity(st.stoich.len());
+    let mut var_c = 0.0;
+    let mut main: Option<(f64, Option<usize>)> = st.dg0_sd.map(|s| (s * s, None));
+    let mut any_unc = st.dg0_sd.is_some();
+    for &(c, nu0) in &st.stoich {
+        let comp = &p.compounds[c];
+        if comp.is_solvent() {
+            continue;
+        }
+        let nu = nu0 * sign;
+        let l = state.conc[c].ln();
+        ln_q += nu * l;
+        contributions.push(Contribution { compound: c, nu, energy: nu * rt * l });
+        if let Some(cv) = comp.cv {
+            any_unc = true;
+            let v = (rt * nu * thermo::ln_sd_from_cv(cv)).powi(2);
+            var_c += v;
+            if main.is_none_or(|(m, _)| v > m) {
+                main = Some((v, Some(c)));
+            }
+        }
+    }
+    let dg = dg0 + rt * ln_q;
+    let dg_sd = any_unc.then(|| (st.dg0_sd.map_or(0.0, |s| s * s) + var_c).sqrt());
+    let s = &p.settings;
+    let class = Class::of(dg, s.far, s.near_factor, rt);
+    let class_range = match dg_sd {
+        Some(sd) => (Class::of(dg - Z95 * sd, s.far, s.near_factor, rt), Class::of(dg + Z95 * sd, s.far, s.near_factor, rt)),
+        None => (class, class),
+    };
+    StepResult {
+        step,
+        sign,
+        times,
+        replaces,
+        dg0,
+        dg,
+        dg_sd,
+        sd_main: main.map(|m| m.1),
+        ln_q,
+        ln_k: -dg0 / rt,
+        class,
+        class_sure: class_range.0 == class && class_range.1 == class,
+        class_range,
+        cumulative: 0.0,
+        cumulative_dg0: 0.0,
+        share: 0.0,
+        contributions,
+        kept_reference_dg0: corr.kept_reference_dg0,
+        verdict: None,
+    }
+}
+
+/// Variance of Σ w_k dG'_k over route positions, counting shared compounds.
+fn weighted_sd(p: &Pathway, steps: &[StepResult], members: &[(usize, f64)], rt: f64) -> Option<f64> {
+    let mut any = false;
+    let mut var = 0.0;
+    let mut per_compound: Vec<f64> = vec![0.0; p.compounds.len()];
+    for &(k, w) in members {
+        let s = &steps[k];
+        if let Some(sd0) = p.steps[s.step].dg0_sd {
+            any = true;
+            var += (w * sd0).powi(2);
+        }
+        for c in &s.contributions {
+            per_compound[c.compound] += w * c.nu;
+        }
+    }
+    for (c, &coef) in per_compound.iter().enumerate() {
+        if let Some(cv) = p.compounds[c].cv {
+            let used = members.iter().any(|&(k, _)| steps[k].contributions.iter().any(|x| x.compound == c));
+            if used {
+                any = true;
+                var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
+            }
+        }
+    }
+    any.then(|| var.sqrt())
+}
+
+fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
+    let rt = thermo::rt(state.conditions.temperature);
+    let mut steps: Vec<StepResult> =
+        route.steps.iter().map(|r| step_result(p, r.step, r.sign, r.times, r.replaces, state)).collect();
+    let side: Vec<StepResult> = route.side.iter().map(|&s| step_result(p, s, 1.0, 1.0, None, state)).collect();
+    let (mut cum, mut cum0, mut drop) = (0.0, 0.0, 0.0);
+    for s in &steps {
+        if s.weighted() < 0.0 {
+            drop += s.weighted();
+        }
+    }
+    let mut largest: Option<(usize, f64)> = None;
+    for (k, s) in steps.iter_mut().enumerate() {
+        cum += s.weighted();
+        cum0 += s.times * s.dg0;
+        s.cumulative = cum;
+        s.cumulative_dg0 = cum0;
+        s.share = if s.weighted() < 0.0 && drop < 0.0 { s.weighted() / drop } else { 0.0 };
+        if s.weighted() < 0.0 && largest.is_none_or(|(_, w)| s.weighted() < w) {
+            largest = Some((k, s.weighted()));
+        }
+    }
+    let groups = route
+        .groups
+        .iter()
+        .map(|g| Group {
+            members: g.clone(),
+            dg: g.iter().map(|&k| steps[k].dg).sum(),
+            dg_sd: weighted_sd(p, &steps, &g.iter().map(|&k| (k, 1.0)).collect::<Vec<_>>(), rt),
+        })
+        .collect();
+    let all: Vec<(usize, f64)> = steps.iter().enumerate().map(|(k, s)| (k, s.times)).collect();
+    let total_sd = weighted_sd(p, &steps, &all, rt);
+    let mut net = Vec::new();
+    for (c, role) in route.roles.iter().enumerate() {
+        if matches!(role, Role::Input | Role::Output | Role::Currency) {
+            let mut v = 0.0;
+            let mut used = false;
+            for rs in &route.steps {
+                for &(cc, nu) in &p.steps[rs.step].stoich {
+                    if cc == c {
+                        v += nu * rs.sign * rs.times;
+                        used = true;
+                    }
+                }
+            }
+            if used {
+                net.push((c, if v.abs() < 1e-9 { 0.0 } else { v }));
+            }
+        }
+    }
+    let mut a = Analysis {
+        direction: state.direction,
+        rt,
+        total_dg0: steps.iter().map(|s| s.times * s.dg0).sum(),
+        total_dg: steps.iter().map(|s| s.weighted()).sum(),
+        total_sd,
+        steps,
+        side,
+        groups,
+        net,
+        largest_drop: largest.map(|l| l.0),
+        control: Vec::new(),
+        roles: route.roles.clone(),
+        branch: route.branch.clone(),
+        needs_bypass: Vec::new(),
+        counterpart: None,
+        notes: Vec::new(),
+    };
+    a.control = control::verdicts(p, &a);
+    for (i, v) in a.control.iter().enumerate() {
+        a.steps[v.position].verdict = Some(i);
+    }
+    a.notes = notes(p, &a, state);
+    a
+}
+
+fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
+    let mut out = Vec::new();
+    let c = &state.conditions;
+    let r = &p.reference;
+    let all: Vec<&StepResult> = a.steps.iter().chain(a.side.iter()).collect();
+    if (c.temperature - r.temperature).abs() > 1e-9 {
+        let kept: Vec<&str> = all.iter().filter(|s| s.kept_reference_dg0).map(|s| p.steps[s.step].id.as_str()).collect();
+        if kept.is_empty() {
+            out.push(format!(
+                "dG'° moved from {:.2} °C to {:.2} °C with Gibbs–Helmholtz (dh0 of every step).",
+                r.temperature - 273.15,
+                c.temperature - 273.15
+            ));
+        } else {
+            out.push(format!(
+                "dG'° kept at its {:.2} °C value for {} (no dh0; assumes dS'° = 0); RT at {:.2} °C is used in RT ln Q.",
+                r.temperature - 273.15,
+                list(&kept),
+                c.temperature - 273.15
+            ));
+        }
+    }
+    if (c.ionic_strength - r.ionic_strength).abs() > 1e-12 {
+        let mut lacking: Vec<&str> = Vec::new();
+        for s in &all {
+            for &(ci, _) in &p.steps[s.step].stoich {
+                let comp = &p.compounds[ci];
+                if !comp.is_solvent() && (comp.charge.is_none() || comp.hydrogens.is_none()) && !lacking.contains(&comp.id.as_str()) {
+                    lacking.push(&comp.id);
+                }
+            }
+        }
+        if !lacking.is_empty() {
+            out.push(format!(
+                "ionic strength {} M differs from the reference {} M, but {} lack charge and hydrogens, so their part is not corrected.",
+                c.ionic_strength,
+                r.ionic_strength,
+                list(&lacking)
+            ));
+        }
+        if !(0.05..=0.25).contains(&c.ionic_strength) {
+            out.push(format!(
+                "ionic strength {} M is outside 0.05–0.25 M, where the extended Debye–Hückel correction is reliable.",
+                c.ionic_strength
+            ));
+        }
+    }
+    for s in &a.steps {
+        if s.class == Class::Uphill {
+            let id = &p.steps[s.step].id;
+            let grp = a.groups.iter().find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
+            match grp {
+                Some(g) if g.dg < 0.0 => out.push(format!(
+                    "{id} is uphill (dG' = {:+.1} kJ/mol) but its coupled group runs downhill ({:+.1} kJ/mol).",
+                    s.dg / 1e3,
+                    g.dg / 1e3
+                )),
+                _ => out.push(format!(
+                    "{id} is uphill (dG' = {:+.1} kJ/mol): it cannot carry forward flux alone; check its concentrations and dG'°, or couple it to the next step.",
+                    s.dg / 1e3
+                )),
+            }
+        }
+    }
+    out
+}
+
+fn list(ids: &[&str]) -> String {
+    if ids.len() > 6 {
+        format!("{} and {} more", ids[..6].join(", "), ids.len() - 6)
+    } else {
+        ids.join(", ")
+    }
+}

@@ -1,0 +1,470 @@
+//! The route as it runs in one direction: which steps, in what order, how
+//! many turns each makes per pass (from the mass balance of intermediates),
+//! each compound's role, branch points and coupled groups. None of this
+//! depends on concentrations, so it is built once per file.
+
+use crate::model::{LoadError, Pathway, Problem};
+
+/// Which way the route runs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub enum Direction {
+    /// As written.
+    #[default]
+    Forward,
+    /// Backward, with bypasses in place of the steps they replace.
+    Reverse,
+}
+
+impl Direction {
+    /// "forward" or "reverse".
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Direction::Forward => "forward",
+            Direction::Reverse => "reverse",
+        }
+    }
+    /// The other direction.
+    pub fn flipped(self) -> Self {
+        match self {
+            Direction::Forward => Direction::Reverse,
+            Direction::Reverse => Direction::Forward,
+        }
+    }
+}
+
+/// A compound's role on one route.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Role {
+    /// Consumed on the route, never produced.
+    Input,
+    /// Produced on the route, never consumed.
+    Output,
+    /// Both produced and consumed: mass-balanced.
+    Intermediate,
+    /// Stated carrier (ATP, NADH, ...).
+    Currency,
+    /// Stated solvent (water).
+    Solvent,
+    /// Not used by any route step (only by side steps, or by none).
+    OffRoute,
+}
+
+impl Role {
+    /// Lower-case name for reports.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Role::Input => "input",
+            Role::Output => "output",
+            Role::Intermediate => "intermediate",
+            Role::Currency => "currency",
+            Role::Solvent => "solvent",
+            Role::OffRoute => "off-route",
+        }
+    }
+}
+
+/// One step's place on a route.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct RouteStep {
+    /// Index into `Pathway::steps`.
+    pub step: usize,
+    /// +1 when it runs as written, −1 when reversed.
+    pub sign: f64,
+    /// Turns per pass.
+    pub times: f64,
+    /// For a bypass in the reverse route: the forward step it replaces.
+    pub replaces: Option<usize>,
+}
+
+/// A route in one direction.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Route {
+    /// Direction it runs.
+    pub direction: Direction,
+    /// Steps in order.
+    pub steps: Vec<RouteStep>,
+    /// Role of each compound (indexed like `Pathway::compounds`).
+    pub roles: Vec<Role>,
+    /// Branch point flag of each compound.
+    pub branch: Vec<bool>,
+    /// Coupled groups as positions in `steps`, in route order.
+    pub groups: Vec<Vec<usize>>,
+    /// Side steps (indices into `Pathway::steps`).
+    pub side: Vec<usize>,
+    /// Reversed steps that have no bypass (reverse route only).
+    pub unbypassed: Vec<usize>,
+}
+
+impl Route {
+    /// Position of a pathway step on this route.
+    pub fn position(&self, step: usize) -> Option<usize> {
+        self.steps.iter().position(|r| r.step == step)
+    }
+}
+
+/// A pathway with both of its routes built.
+#[derive(Debug, Clone)]
+pub struct Prepared {
+    /// The checked file.
+    pub pathway: Pathway,
+    /// The route as written.
+    pub forward: Route,
+    /// The reverse route, or why it cannot be built.
+    pub reverse: Result<Route, Problem>,
+}
+
+impl Prepared {
+    /// The route for a direction.
+    pub fn route(&self, d: Direction) -> Result<&Route, &Problem> {
+        match d {
+            Direction::Forward => Ok(&self.forward),
+            Direction::Reverse => self.reverse.as_ref(),
+        }
+    }
+}
+
+/// Builds both routes; errors only for the forward route.
+pub fn prepare(pathway: Pathway) -> Result<Prepared, LoadError> {
+    let forward = build(&pathway, Direction::Forward).map_err(|p| LoadError { problems: vec![p] })?;
+    let reverse = build(&pathway, Direction::Reverse);
+    Ok(Prepared { pathway, forward, reverse })
+}
+
+fn problem(p: &Pathway, line: Option<usize>, message: String) -> Problem {
+    Problem { file: p.file.clone(), line, column: None, message }
+}
+
+/// Builds the route in one direction.
+pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
+    let mut steps: Vec<RouteStep> = Vec::new();
+    let mut unbypassed = Vec::new();
+    match direction {
+        Direction::Forward => {
+            for &s in &p.route {
+                steps.push(RouteStep { step: s, sign: 1.0, times: 1.0, replaces: None });
+            }
+        }
+        Direction::Reverse => {
+            for &f in p.route.iter().rev() {
+                let bypasses: Vec<usize> = (0..p.steps.len()).filter(|&b| p.steps[b].bypass_of == Some(f)).collect();
+                if bypasses.is_empty() {
+                    steps.push(RouteStep { step: f, sign: -1.0, times: 1.0, replaces: None });
+                    unbypassed.push(f);
+                } else {
+                    for b in bypasses {
+                        steps.push(RouteStep { step: b, sign: 1.0, times: 1.0, replaces: Some(f) });
+                    }
+                }
+            }
+        }
+    }
+    let nc = p.compounds.len();
+    let mut produced = vec![false; nc];
+    let mut consumed = vec![false; nc];
+    for rs in &steps {
+        for &(c, nu) in &p.steps[rs.step].stoich {
+            if nu * rs.sign > 0.0 {
+                produced[c] = true;
+            } else if nu * rs.sign < 0.0 {
+                consumed[c] = true;
+            }
+        }
+    }
+    let roles: Vec<Role> = (0..nc)
+        .map(|c| {
+            let comp = &p.compounds[c];
+            if comp.is_solvent() {
+                Role::Solvent
+            } else if comp.is_currency() {
+                Role::Currency
+            } else {
+                match (consumed[c], produced[c]) {
+                    (true, true) => Role::Intermediate,
+                    (true, false) => Role::Input,
+                    (false, true) => Role::Output,
+                    (false, false) => Role::OffRoute,
+                }
+            }
+        })
+        .collect();
+    let side: Vec<usize> = (0..p.steps.len()).filter(|&s| p.steps[s].side).collect();
+    let mut branch: Vec<bool> = p.compounds.iter().map(|c| c.branch).collect();
+    for &s in &side {
+        for &(c, _) in &p.steps[s].stoich {
+            let comp = &p.compounds[c];
+            if !comp.is_currency() && !comp.is_solvent() {
+                branch[c] = true;
+            }
+        }
+    }
+    balance(p, &mut steps, &roles, direction)?;
+    if direction == Direction::Reverse {
+        let first = p.route[0];
+        let stand_in = steps
+            .iter()
+            .position(|r| r.replaces == Some(first))
+            .or_else(|| steps.iter().position(|r| r.step == first));
+        let any_explicit = steps.iter().any(|r| p.steps[r.step].times.is_some());
+        let fwd_first = build_forward_first_times(p)?;
+        if let (Some(k), false) = (stand_in, any_explicit) {
+            let f = fwd_first / steps[k].times;
+            for r in steps.iter_mut() {
+                r.times *= f;
+            }
+        }
+    }
+    // Coupled groups.
+    let mut groups: Vec<Vec<usize>> = Vec::new();
+    let mut in_group = vec![false; steps.len()];
+    for k in 0..steps.len() {
+        if in_group[k] {
+            continue;
+        }
+        let mut chain = vec![k];
+        let mut cur = k;
+        loop {
+            // Forward: cur couples to the next; reverse: the next couples to cur.
+            let next = (cur + 1..steps.len()).find(|&m| match direction {
+                Direction::Forward => p.steps[steps[cur].step].couple == Some(steps[m].step),
+                Direction::Reverse => p.steps[steps[m].step].couple == Some(steps[cur].step),
+            });
+            match next {
+                Some(m) if !in_group[m] => {
+                    chain.push(m);
+                    cur = m;
+                }
+                _ => break,
+            }
+        }
+        if chain.len() > 1 {
+            for &m in &chain {
+                in_group[m] = true;
+            }
+            let t0 = steps[chain[0]].times;
+            if let Some(&bad) = chain.iter().find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0)) {
+                let a = &p.steps[steps[chain[0]].step];
+                let b = &p.steps[steps[bad].step];
+                return Err(problem(
+                    p,
+                    Some(a.line),
+                    format!(
+                        "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
+                        a.id, b.id, fmt_t(t0), fmt_t(steps[bad].times)
+                    ),
+                ));
+            }
+            groups.push(chain);
+        }
+    }
+    if direction == Direction::Forward {
+        for &s in &p.route {
+            if let Some(c) = p.steps[s].couple {
+                let (ps, pc) = (p.route.iter().position(|&x| x == s), p.route.iter().position(|&x| x == c));
+                if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
+                    return Err(problem(
+                        p,
+                        Some(p.steps[s].line),
+                        format!(
+                            "step '{}' couples to '{}', which is not a later step of the main route; couple names a following step",
+                            p.steps[s].id, p.steps[c].id
+                        ),
+                    ));
+                }
+            }
+        }
+    }
+    Ok(Route { direction, steps, roles, branch, groups, side, unbypassed })
+}
+
+fn build_forward_first_times(p: &Pathway) -> Result<f64, Problem> {
+    let mut steps: Vec<RouteStep> =
+        p.route.iter().map(|&s| RouteStep { step: s, sign: 1.0, times: 1.0, replaces: None }).collect();
+    let roles = build_roles_quick(p, &steps);
+    balance(p, &mut steps, &roles, Direction::Forward)?;
+    Ok(steps[0].times)
+}
+
+fn build_roles_quick(p: &Pathway, steps: &[RouteStep]) -> Vec<Role> {
+    let nc = p.compounds.len();
+    let mut prod = vec![false; nc];
+    let mut cons = vec![false; nc];
+    for rs in steps {
+        for &(c, nu) in &p.steps[rs.step].stoich {
+            if nu * rs.sign > 0.0 {
+                prod[c] = true
+            } else {
+                cons[c] = true
+            }
+        }
+    }
+    (0..nc)
+        .map(|c| {
+            let comp = &p.compounds[c];
+            if comp.is_solvent() || comp.is_currency() || !(prod[c] && cons[c]) {
+                Role::OffRoute
+            } else {
+                Role::Intermediate
+            }
+        })
+        .collect()
+}
+
+fn fmt_t(t: f64) -> String {
+    let s = format!("{t:.3}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
+/// Solves the mass balance of intermediates for the turns of each route step.
+/// Stated `times` are held; the earliest undetermined step of each connected
+/// part makes one turn.
+fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Direction) -> Result<(), Problem> {
+    let n = steps.len();
+    let inter: Vec<usize> = (0..roles.len()).filter(|&c| roles[c] == Role::Intermediate).collect();
+    // Unknown columns, latest step first, so that pivots fall on later steps
+    // and the free (anchor) columns are the earliest ones.
+    let unknown: Vec<usize> = (0..n).rev().filter(|&k| p.steps[steps[k].step].times.is_none()).collect();
+    let col_of: Vec<Option<usize>> = {
+        let mut v = vec![None; n];
+        for (j, &k) in unknown.iter().enumerate() {
+            v[k] = Some(j);
+        }
+        v
+    };
+    let m = unknown.len();
+    let mut rows: Vec<Vec<f64>> = Vec::with_capacity(inter.len());
+    let mut rhs: Vec<f64> = Vec::with_capacity(inter.len());
+    let mut label: Vec<usize> = Vec::with_capacity(inter.len());
+    let cidx: std::collections::HashMap<usize, usize> = inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
+    for _ in &inter {
+        rows.push(vec![0.0; m]);
+        rhs.push(0.0);
+    }
+    label.extend(inter.iter().copied());
+    for (k, rs) in steps.iter().enumerate() {
+        let st = &p.steps[rs.step];
+        for &(c, nu) in &st.stoich {
+            if let Some(&r) = cidx.get(&c) {
+                let a = nu * rs.sign;
+                match (col_of[k], st.times) {
+                    (Some(j), _) => rows[r][j] += a,
+                    (None, Some(t)) => rhs[r] -= a * t,
+                    (None, None) => {}
+                }
+            }
+        }
+    }
+    // Reduced row echelon form with partial pivoting; zero entries are skipped,
+    // so sparse routes (chains, trees) stay fast.
+    let eps = 1e-9;
+    let mut pivots: Vec<(usize, usize)> = Vec::new(); // (row, col)
+    let mut r0 = 0;
+    for j in 0..m {
+        if r0 >= rows.len() {
+            break;
+        }
+        let (mut best, mut bv) = (r0, rows[r0][j].abs());
+        for (r, row) in rows.iter().enumerate().skip(r0 + 1) {
+            if row[j].abs() > bv {
+                best = r;
+                bv = row[j].abs();
+            }
+        }
+        if bv < eps {
+            continue;
+        }
+        rows.swap(r0, best);
+        rhs.swap(r0, best);
+        label.swap(r0, best);
+        let piv = rows[r0][j];
+        let nz: Vec<usize> = (j..m).filter(|&q| rows[r0][q] != 0.0).collect();
+        for &q in &nz {
+            rows[r0][q] /= piv;
+        }
+        rhs[r0] /= piv;
+        let prow: Vec<(usize, f64)> = nz.iter().map(|&q| (q, rows[r0][q])).collect();
+        let prhs = rhs[r0];
+        for r in 0..rows.len() {
+            if r == r0 {
+                continue;
+            }
+            let f = rows[r][j];
+            if f == 0.0 {
+                continue;
+            }
+            for &(q, v) in &prow {
+                rows[r][q] -= f * v;
+                if rows[r][q].abs() < 1e-13 {
+                    rows[r][q] = 0.0;
+                }
+            }
+            rhs[r] -= f * prhs;
+        }
+        pivots.push((r0, j));
+        r0 += 1;
+    }
+    let unbalanced = |c: usize, why: String| {
+        let comp = &p.compounds[c];
+        problem(
+            p,
+            Some(comp.line),
+            format!(
+                "compound '{}' cannot be balanced on the {} route: {why}; if it is a carrier (ATP, NADH, CoA ...), mark it role = \"currency\", otherwise check the reactions or the stated times",
+                comp.id,
+                direction.as_str()
+            ),
+        )
+    };
+    let free: Vec<bool> = {
+        let mut f = vec![true; m];
+        for &(_, j) in &pivots {
+            f[j] = false;
+        }
+        f
+    };
+    let mut x = vec![0.0; m];
+    for j in 0..m {
+        if free[j] {
+            x[j] = 1.0;
+        }
+    }
+    for &(r, j) in &pivots {
+        let mut v = rhs[r];
+        for q in 0..m {
+            if q != j && free[q] && rows[r][q] != 0.0 {
+                v -= rows[r][q] * x[q];
+            }
+        }
+        x[j] = v;
+    }
+    for k in 0..n {
+        steps[k].times = match col_of[k] {
+            Some(j) => x[j],
+            None => p.steps[steps[k].step].times.unwrap_or(1.0),
+        };
+    }
+    // Check every intermediate balances (catches inconsistent systems).
+    for &c in &inter {
+        let mut sum = 0.0;
+        let mut scale = 0.0f64;
+        for rs in steps.iter() {
+            for &(cc, nu) in &p.steps[rs.step].stoich {
+                if cc == c {
+                    sum += nu * rs.sign * rs.times;
+                    scale = scale.max((nu * rs.times).abs());
+                }
+            }
+        }
+        if sum.abs() > 1e-7 * scale.max(1.0) {
+            let _ = &label;
+            return Err(unbalanced(c, format!("what the route makes and uses of it differs by {} per pass", fmt_t(sum))));
+        }
+    }
+    for rs in steps.iter() {
+        if !(rs.times > 1e-9) || !rs.times.is_finite() {
+            let st = &p.steps[rs.step];
+            let c = st.stoich.iter().map(|&(c, _)| c).find(|c| roles[*c] == Role::Intermediate).unwrap_or(st.stoich[0].0);
+            return Err(unbalanced(c, format!("step '{}' would have to make {} turns per pass", st.id, fmt_t(rs.times))));
+        }
+    }
+    Ok(())
+}

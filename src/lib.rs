@@ -1,0 +1,20 @@
+//! dgpath: Gibbs energies of metabolic pathway steps at a cell's own
+//! temperature, pH, ionic strength and concentrations, with the judgements a
+//! practitioner makes from them (near or far from equilibrium, where the drop
+//! is, where flux is controlled, whether the route can run at all).
+//!
+//! Module map (arrows point at what a module may use):
+//! `cli -> {tui, report, plot} -> analysis -> thermo -> model`;
+//! `scenario` holds the editable state.
+#![forbid(unsafe_code)]
+
+pub mod analysis;
+pub mod model;
+pub mod report;
+pub mod scenario;
+pub mod thermo;
+
+/// The bundled demo pathway (an invented fermenter scenario).
+pub const DEMO: &str = include_str!("../pathways/fermenter.toml");
+/// File name shown for the bundled demo.
+pub const DEMO_NAME: &str = "pathways/fermenter.toml";

@@ -1,0 +1,21 @@
+//! The `dgpath` binary: parse arguments, run, map errors to exit codes
+//! (0 ok, 1 bad input, 2 usage).
+
+mod cli;
+
+use clap::Parser;
+
+fn main() {
+    let cli = match cli::Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            std::process::exit(code);
+        }
+    };
+    if let Err(e) = cli::run(cli) {
+        eprintln!("error: {e:#}");
+        std::process::exit(1);
+    }
+}

@@ -1,0 +1,191 @@
+//! The reaction-equation parser: `[coef] id + [coef] id -> [coef] id + ...`.
+//! It knows only text; checking ids against the compound table is done by the
+//! loader, which has the line numbers.
+
+/// One side's term: a coefficient and a compound id as written.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Term {
+    /// Positive stoichiometric coefficient.
+    pub coef: f64,
+    /// Compound id as written.
+    pub id: String,
+}
+
+/// A parsed equation: substrates and products in the written direction.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Equation {
+    /// Left-hand side.
+    pub left: Vec<Term>,
+    /// Right-hand side.
+    pub right: Vec<Term>,
+}
+
+const ARROWS: [&str; 5] = ["<=>", "<->", "->", "=>", "="];
+
+/// True for ids of the form `[A-Za-z][A-Za-z0-9_]*`.
+pub fn valid_id(id: &str) -> bool {
+    let mut c = id.chars();
+    matches!(c.next(), Some(f) if f.is_ascii_alphabetic())
+        && c.all(|ch| ch.is_ascii_alphanumeric() || ch == '_')
+}
+
+/// Parses an equation; the error says what is wrong and what to write instead.
+pub fn parse(text: &str) -> Result<Equation, String> {
+    let mut found: Option<(usize, &str)> = None;
+    for arrow in ARROWS {
+        if let Some(pos) = text.find(arrow) {
+            found = Some((pos, arrow));
+            break;
+        }
+    }
+    let Some((pos, arrow)) = found else {
+        return Err(format!(
+            "reaction '{text}' has no arrow; write it as \"a + b -> c\" (-> => <-> <=> or = all work)"
+        ));
+    };
+    let (l, r) = (&text[..pos], &text[pos + arrow.len()..]);
+    if ARROWS.iter().any(|a| r.contains(a)) {
+        return Err(format!("reaction '{text}' has more than one arrow; write exactly one"));
+    }
+    let left = side(l, text)?;
+    let right = side(r, text)?;
+    if left.is_empty() || right.is_empty() {
+        return Err(format!(
+            "reaction '{text}' needs compounds on both sides of the arrow"
+        ));
+    }
+    Ok(Equation { left, right })
+}
+
+fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
+    let s = s.trim();
+    if s.is_empty() {
+        return Ok(Vec::new());
+    }
+    let mut out = Vec::new();
+    for raw in s.split(" + ").flat_map(|p| split_plus(p)) {
+        let part = raw.trim();
+        if part.is_empty() {
+            return Err(format!("reaction '{whole}' has an empty term (a stray '+'?)"));
+        }
+        let mut words = part.split_whitespace();
+        let first = words.next().unwrap_or("");
+        let (coef, id) = match words.next() {
+            Some(second) => {
+                if words.next().is_some() {
+                    return Err(format!(
+                        "'{part}' in reaction '{whole}' is not 'coefficient id'; separate compounds with ' + '"
+                    ));
+                }
+                let c: f64 = first.parse().map_err(|_| {
+                    format!("'{first}' in reaction '{whole}' is not a number; write e.g. \"2 {second}\"")
+                })?;
+                (c, second)
+            }
+            None => split_glued(first),
+        };
+        if !coef.is_finite() || coef <= 0.0 {
+            return Err(format!(
+                "coefficient {coef} of '{id}' in reaction '{whole}' must be a positive number; put the compound on the other side instead of using a negative or zero coefficient"
+            ));
+        }
+        if id == "H+" || id == "h+" || id.eq_ignore_ascii_case("h") || id == "H" || id == "proton" {
+            return Err(format!(
+                "reaction '{whole}' contains H+; dG'° values are transformed at fixed pH, so leave H+ out and state it with protons = N (net H+ released)"
+            ));
+        }
+        if !valid_id(id) {
+            return Err(format!(
+                "'{id}' in reaction '{whole}' is not a valid compound id; ids start with a letter and contain letters, digits and '_'"
+            ));
+        }
+        out.push(Term { coef, id: id.to_string() });
+    }
+    Ok(out)
+}
+
+/// Splits on '+' signs that separate terms, keeping a '+' inside "H+" for the H+ check.
+fn split_plus(p: &str) -> Vec<&str> {
+    let mut out = Vec::new();
+    let mut start = 0;
+    let b = p.as_bytes();
+    for i in 0..b.len() {
+        if b[i] == b'+' {
+            let prev_alnum = i > 0 && (b[i - 1] as char).is_ascii_alphanumeric();
+            let next_end = i + 1 >= b.len() || b[i + 1] == b' ';
+            if prev_alnum && next_end && i > 0 && (b[i - 1] == b'H' || b[i - 1] == b'h') {
+                // "H+" as a token: keep it whole.
+                continue;
+            }
+            out.push(&p[start..i]);
+            start = i + 1;
+        }
+    }
+    out.push(&p[start..]);
+    out
+}
+
+/// "2atp" -> (2, "atp"); "atp" -> (1, "atp").
+fn split_glued(word: &str) -> (f64, &str) {
+    let n = word
+        .char_indices()
+        .find(|(_, c)| !(c.is_ascii_digit() || *c == '.'))
+        .map(|(i, _)| i)
+        .unwrap_or(word.len());
+    if n == 0 || n == word.len() {
+        return (1.0, word);
+    }
+    match word[..n].parse::<f64>() {
+        Ok(c) => (c, &word[n..]),
+        Err(_) => (1.0, word),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn ids(terms: &[Term]) -> Vec<(f64, &str)> {
+        terms.iter().map(|t| (t.coef, t.id.as_str())).collect()
+    }
+
+    #[test]
+    fn parses_every_arrow() {
+        for arrow in ["->", "=>", "<->", "<=>", "="] {
+            let e = parse(&format!("glc + atp {arrow} g6p + adp")).unwrap();
+            assert_eq!(ids(&e.left), vec![(1.0, "glc"), (1.0, "atp")]);
+            assert_eq!(ids(&e.right), vec![(1.0, "g6p"), (1.0, "adp")]);
+        }
+    }
+
+    #[test]
+    fn coefficients_spaced_or_glued() {
+        let e = parse("2 nad + 0.5 o2 -> 2nadh + h2o").unwrap();
+        assert_eq!(ids(&e.left), vec![(2.0, "nad"), (0.5, "o2")]);
+        assert_eq!(ids(&e.right), vec![(2.0, "nadh"), (1.0, "h2o")]);
+    }
+
+    #[test]
+    fn rejects_h_plus_with_advice() {
+        let e = parse("nadh + H+ + o2 -> nad + h2o").unwrap_err();
+        assert!(e.contains("protons"), "{e}");
+        let e = parse("a -> b + H+").unwrap_err();
+        assert!(e.contains("H+"), "{e}");
+    }
+
+    #[test]
+    fn rejects_bad_coefficients_and_shapes() {
+        assert!(parse("0 a -> b").unwrap_err().contains("positive"));
+        assert!(parse("-1 a -> b").unwrap_err().contains("positive"));
+        assert!(parse("a b").unwrap_err().contains("no arrow"));
+        assert!(parse("a -> ").unwrap_err().contains("both sides"));
+        assert!(parse("a -> b -> c").unwrap_err().contains("more than one arrow"));
+        assert!(parse("a + + b -> c").unwrap_err().contains("empty term"));
+        assert!(parse("2x a -> b").unwrap_err().contains("not a number"));
+    }
+
+    #[test]
+    fn id_rule() {
+        assert!(valid_id("g6p") && valid_id("Fru_16bp") && !valid_id("6pg") && !valid_id("a-b"));
+    }
+}

@@ -1,0 +1,138 @@
+//! Step thermodynamics: constants, standard energies moved to the scenario's
+//! temperature, pH and ionic strength, and dG' from the mass-action ratio.
+//! Formulas and their sources are in shared/design/science.md §1–4.
+
+use crate::model::{Compound, Conditions, Standard, Step};
+
+/// Gas constant, J/(mol K); exact in the 2019 SI (CODATA 2018).
+pub const R: f64 = 8.314462618;
+/// Faraday constant, C/mol; exact in the 2019 SI (CODATA 2018).
+pub const F: f64 = 96485.33212;
+/// B in the extended Debye–Hückel term, kg^1/2 mol^-1/2 (Alberty 2003).
+pub const DEBYE_B: f64 = 1.6;
+
+/// RT in J/mol at temperature `t` (K).
+pub fn rt(t: f64) -> f64 {
+    R * t
+}
+
+/// dG'° (J/mol) from an apparent equilibrium constant at temperature `t`.
+pub fn dg0_from_keq(keq: f64, t: f64) -> f64 {
+    -rt(t) * keq.ln()
+}
+
+/// K' from dG'° (J/mol) at temperature `t`.
+pub fn keq_from_dg0(dg0: f64, t: f64) -> f64 {
+    (-dg0 / rt(t)).exp()
+}
+
+/// dG'° for a redox pair: −n F ΔE'° (J/mol), ΔE'° = E'°(acceptor) − E'°(donor) in V.
+pub fn dg0_from_potentials(n: f64, e_acceptor: f64, e_donor: f64) -> f64 {
+    -n * F * (e_acceptor - e_donor)
+}
+
+/// Gibbs–Helmholtz with constant dH'°: dG'° moved from `t1` to `t2`.
+pub fn gibbs_helmholtz(dg0_t1: f64, dh0: f64, t1: f64, t2: f64) -> f64 {
+    dg0_t1 * t2 / t1 + dh0 * (1.0 - t2 / t1)
+}
+
+/// Debye–Hückel α(T) from the quadratic fit of science.md §4 (T in K).
+pub fn alpha(t: f64) -> f64 {
+    1.10708 - 1.54508e-3 * t + 5.95584e-6 * t * t
+}
+
+/// RTα in J/mol at temperature `t`.
+pub fn rt_alpha(t: f64) -> f64 {
+    rt(t) * alpha(t)
+}
+
+/// The ionic-strength term of one species' formation energy (J/mol):
+/// −RTα (z² − N_H) √I / (1 + B √I).
+pub fn species_ionic_term(charge: f64, hydrogens: f64, i: f64, t: f64) -> f64 {
+    let s = i.max(0.0).sqrt();
+    -rt_alpha(t) * (charge * charge - hydrogens) * s / (1.0 + DEBYE_B * s)
+}
+
+/// What was done to move a step's standard energy to the scenario's conditions.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Corrections {
+    /// The temperature differs and no dh0 was given: the reference value was kept.
+    pub kept_reference_dg0: bool,
+    /// Compounds in the step lacked charge/hydrogens while ionic strength differs.
+    pub missing_ionic_data: bool,
+}
+
+/// The standard energy (J/mol) at the reference conditions, from dg0 or keq.
+pub fn reference_dg0(step: &Step, reference: &Conditions) -> f64 {
+    match step.standard {
+        Standard::Dg0(v) => v,
+        Standard::Keq(k) => dg0_from_keq(k, reference.temperature),
+    }
+}
+
+/// dG'° (J/mol) of a step as written, at `at`: temperature first, then pH
+/// (RT at the new temperature), then ionic strength.
+pub fn dg0_at(step: &Step, compounds: &[Compound], reference: &Conditions, at: &Conditions) -> (f64, Corrections) {
+    let mut c = Corrections::default();
+    let mut g = reference_dg0(step, reference);
+    if (at.temperature - reference.temperature).abs() > 1e-9 {
+        match step.dh0 {
+            Some(h) => g = gibbs_helmholtz(g, h, reference.temperature, at.temperature),
+            None => c.kept_reference_dg0 = true,
+        }
+    }
+    g -= step.protons * rt(at.temperature) * std::f64::consts::LN_10 * (at.ph - reference.ph);
+    if (at.ionic_strength - reference.ionic_strength).abs() > 1e-12 {
+        for &(ci, nu) in &step.stoich {
+            let comp = &compounds[ci];
+            if comp.is_solvent() {
+                continue;
+            }
+            match (comp.charge, comp.hydrogens) {
+                (Some(z), Some(h)) => {
+                    g += nu
+                        * (species_ionic_term(z, h, at.ionic_strength, at.temperature)
+                            - species_ionic_term(z, h, reference.ionic_strength, at.temperature));
+                }
+                _ => c.missing_ionic_data = true,
+            }
+        }
+    }
+    (g, c)
+}
+
+/// ln Q of signed stoichiometry with concentrations in mol/L (solvents left out).
+pub fn ln_q(stoich: &[(usize, f64)], compounds: &[Compound], conc: &[f64]) -> f64 {
+    stoich
+        .iter()
+        .filter(|(ci, _)| !compounds[*ci].is_solvent())
+        .map(|&(ci, nu)| nu * conc[ci].ln())
+        .sum()
+}
+
+/// dG' = dG'° + RT ln Q (J/mol).
+pub fn dg(dg0: f64, ln_q: f64, t: f64) -> f64 {
+    dg0 + rt(t) * ln_q
+}
+
+/// sd of ln c for a log-normal spread with coefficient of variation `cv`.
+pub fn ln_sd_from_cv(cv: f64) -> f64 {
+    (1.0 + cv * cv).ln().sqrt()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn alpha_fit_matches_its_quoted_value() {
+        // science.md §4 [S, Alberty 2003]: α = 1.17582 at 298.15 K; the fit residual is < 7e-5.
+        assert!((alpha(298.15) - 1.17582).abs() < 7e-5);
+    }
+
+    #[test]
+    fn ionic_term_sign() {
+        // A species with z² = N_H needs no correction.
+        assert_eq!(species_ionic_term(-2.0, 4.0, 0.25, 298.15), 0.0);
+    }
+}
