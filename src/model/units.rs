@@ -51,7 +51,10 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         }
         let head = &t[..end];
         // Do not let "1e" or "inf"/"nan" count as numbers.
-        if head.chars().any(|c| c.is_ascii_alphabetic() && c != 'e' && c != 'E') {
+        if head
+            .chars()
+            .any(|c| c.is_ascii_alphabetic() && c != 'e' && c != 'E')
+        {
             break;
         }
         if let Ok(v) = head.parse::<f64>() {
@@ -75,10 +78,10 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
             "J/mol" | "j/mol" | "J" => v,
             _ => return Err(unknown_unit(unit, kind)),
         },
-        Kind::Concentration => v * conc_factor(&unit_l).ok_or_else(|| unknown_unit(unit, kind))?,
+        Kind::Concentration => v / conc_divisor(&unit_l).ok_or_else(|| unknown_unit(unit, kind))?,
         Kind::IonicStrength => match unit_l.as_str() {
             "" | "M" => v,
-            "mM" => v * 1e-3,
+            "mM" => v / 1e3,
             _ => return Err(unknown_unit(unit, kind)),
         },
         Kind::Temperature => match unit_l.as_str() {
@@ -96,14 +99,15 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
     Ok(si)
 }
 
-/// Factor from a concentration unit to mol/L; the empty unit is mM.
-pub fn conc_factor(unit: &str) -> Option<f64> {
+/// How many of a concentration unit make 1 mol/L (the empty unit is mM).
+/// Dividing by an exact power of ten keeps "80 uM" exactly 8e-5.
+pub fn conc_divisor(unit: &str) -> Option<f64> {
     Some(match unit {
         "M" => 1.0,
-        "" | "mM" => 1e-3,
-        "uM" | "µM" | "μM" => 1e-6,
-        "nM" => 1e-9,
-        "pM" => 1e-12,
+        "" | "mM" => 1e3,
+        "uM" | "µM" | "μM" => 1e6,
+        "nM" => 1e9,
+        "pM" => 1e12,
         _ => return None,
     })
 }
@@ -112,7 +116,7 @@ pub fn conc_factor(unit: &str) -> Option<f64> {
 pub fn from_number(v: f64, kind: Kind) -> Result<f64, String> {
     match kind {
         Kind::Energy => Ok(v * 1e3),
-        Kind::Concentration => Ok(v * 1e-3),
+        Kind::Concentration => Ok(v / 1e3),
         Kind::IonicStrength => Ok(v),
         Kind::Temperature => Err(format!(
             "a temperature needs a unit: write \"{} C\" or \"{} K\"",
