@@ -1,7 +1,7 @@
 //! Uncertainty of dG': the analytic standard deviation against a seeded
 //! Monte-Carlo estimate, and correlations through shared compounds.
 
-use dgpath::analysis::{analyze, prepare, Class};
+use dgpath::analysis::{Class, analyze, prepare};
 use dgpath::model::load_str;
 use dgpath::scenario::State;
 use rand::{Rng, SeedableRng};
@@ -64,10 +64,16 @@ fn analytic_sd_matches_a_seeded_monte_carlo_estimate() {
     }
     let nf = n as f64;
     let mc = (sum2 / nf - (sum / nf).powi(2)).sqrt();
-    assert!((mc - sd).abs() / sd < 0.02, "analytic {sd} vs Monte-Carlo {mc}");
+    assert!(
+        (mc - sd).abs() / sd < 0.02,
+        "analytic {sd} vs Monte-Carlo {mc}"
+    );
     let tmc = (tsum2 / nf - (tsum / nf).powi(2)).sqrt();
     let tsd = a.total_sd.unwrap();
-    assert!((tmc - tsd).abs() / tsd < 0.02, "total: analytic {tsd} vs Monte-Carlo {tmc}");
+    assert!(
+        (tmc - tsd).abs() / tsd < 0.02,
+        "total: analytic {tsd} vs Monte-Carlo {tmc}"
+    );
 }
 
 #[test]
@@ -87,12 +93,18 @@ fn a_compound_shared_by_two_steps_cancels_in_the_total() {
     let s2 = a.steps[1].dg_sd.unwrap() / 1e3;
     assert!((s2 - rt * sb).abs() < 1e-9);
     let independent = (s1 * s1 + s2 * s2).sqrt();
-    assert!(total < independent - 0.4, "{total} should be well below {independent}");
+    assert!(
+        total < independent - 0.4,
+        "{total} should be well below {independent}"
+    );
 }
 
 #[test]
 fn no_uncertainty_given_means_no_sd_and_sure_classes() {
-    let text = TWO_STEPS.replace(", cv = 0.2", "").replace(", cv = 0.4", "").replace("dg0_sd = \"1.5 kJ/mol\"\n", "");
+    let text = TWO_STEPS
+        .replace(", cv = 0.2", "")
+        .replace(", cv = 0.4", "")
+        .replace("dg0_sd = \"1.5 kJ/mol\"\n", "");
     let prep = prepared(&text);
     let a = analyze(&prep, &State::from_pathway(&prep.pathway)).unwrap();
     assert!(a.steps.iter().all(|s| s.dg_sd.is_none() && s.class_sure));

@@ -68,6 +68,15 @@ pub fn clean(x: f64) -> f64 {
     if r == 0.0 { 0.0 } else { r }
 }
 
+/// A ratio that may span many decades: kept as is (only -0 becomes 0).
+fn ratio(x: f64) -> Value {
+    if x.is_finite() {
+        json!(if x == 0.0 { 0.0 } else { x })
+    } else {
+        Value::Null
+    }
+}
+
 fn num(x: f64) -> Value {
     if x.is_finite() {
         json!(clean(x))
@@ -123,19 +132,19 @@ fn step_json(
         "dg_sd".into(),
         s.dg_sd.map_or(Value::Null, |v| num(u.of(v))),
     );
-    m.insert("keq".into(), num(s.keq()));
-    m.insert("q".into(), num(s.q()));
-    m.insert("flux_ratio".into(), num(s.flux_ratio(a.rt)));
+    m.insert("keq".into(), ratio(s.keq()));
+    m.insert("q".into(), ratio(s.q()));
+    m.insert("flux_ratio".into(), ratio(s.flux_ratio(a.rt)));
     m.insert("class".into(), json!(s.class.as_str()));
     m.insert("class_sure".into(), json!(s.class_sure));
     if on_route {
         m.insert("cumulative".into(), num(u.of(s.cumulative)));
         m.insert("share".into(), num(s.share));
     }
-    m.insert("reverse_share".into(), num(s.reverse_share(a.rt)));
+    m.insert("reverse_share".into(), ratio(s.reverse_share(a.rt)));
     m.insert(
         "enzyme_factor".into(),
-        s.enzyme_factor(a.rt).map_or(Value::Null, num),
+        s.enzyme_factor(a.rt).map_or(Value::Null, ratio),
     );
     m.insert("side".into(), json!(!on_route));
     m.insert("reversed".into(), json!(s.sign < 0.0));
@@ -283,6 +292,15 @@ pub fn sci(x: f64) -> String {
     }
 }
 
+/// Share of forward flux undone by the reverse, as a percentage (only for downhill steps).
+fn undone(s: &StepResult, rt: f64) -> String {
+    if s.dg < 0.0 {
+        format!("{:.1} %", s.reverse_share(rt) * 100.0)
+    } else {
+        "-".into()
+    }
+}
+
 /// The aligned table with verdicts, notes and the closing caution.
 pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> String {
     let p = &prep.pathway;
@@ -308,6 +326,8 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         "Q".to_string(),
         "K'".to_string(),
         "J+/J-".to_string(),
+        "undone".to_string(),
+        "enzyme x".to_string(),
         "class".to_string(),
         "share".to_string(),
         format!("cumul. [{ul}]"),
@@ -343,6 +363,10 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
                 sci(s.q()),
                 sci(s.keq()),
                 sci(s.flux_ratio(a.rt)),
+                undone(s, a.rt),
+                s.enzyme_factor(a.rt)
+                    .map(|f| format!("{f:.3}"))
+                    .unwrap_or_else(|| "-".into()),
                 format!(
                     "{} {}{}",
                     class_symbol(s.class, o.ascii),
@@ -375,6 +399,10 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
                 sci(s.q()),
                 sci(s.keq()),
                 sci(s.flux_ratio(a.rt)),
+                undone(s, a.rt),
+                s.enzyme_factor(a.rt)
+                    .map(|f| format!("{f:.3}"))
+                    .unwrap_or_else(|| "-".into()),
                 format!("{} {}", class_symbol(s.class, o.ascii), s.class.as_str()),
                 String::new(),
                 String::new(),
@@ -394,8 +422,10 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         }
     }
     let numeric = [
-        false, false, true, true, true, true, true, true, true, false, true, true, false,
+        false, false, true, true, true, true, true, true, true, true, true, false, true, true,
+        false,
     ];
+    let class_col = 11;
     let fmt_row = |cells: &[String]| -> Vec<String> {
         cells
             .iter()
@@ -417,7 +447,7 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
     for (r, cls) in &rows {
         let mut cells = fmt_row(r);
         if let Some(cl) = cls {
-            cells[9] = paint(&cells[9], class_color(*cl), o.color);
+            cells[class_col] = paint(&cells[class_col], class_color(*cl), o.color);
         }
         out.push_str(cells.join("  ").trim_end());
         out.push('\n');
@@ -505,7 +535,10 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
             out.push_str(&format!("note: {n}\n"));
         }
     }
-    out.push_str(&format!("\n{}\n", control::CAUTION));
+    out.push_str(&format!(
+        "\nundone: share of forward flux undone by the reverse flux, e^(dG'/RT); enzyme x: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT)).\n{}\n",
+        control::CAUTION
+    ));
     out
 }
 
@@ -523,6 +556,8 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
         "keq",
         "q",
         "flux_ratio",
+        "reverse_share",
+        "enzyme_factor",
         "class",
         "cumulative",
         "share",
@@ -548,6 +583,10 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
             format!("{}", s.keq()),
             format!("{}", s.q()),
             format!("{}", s.flux_ratio(a.rt)),
+            format!("{}", s.reverse_share(a.rt)),
+            s.enzyme_factor(a.rt)
+                .map(|f| format!("{f}"))
+                .unwrap_or_default(),
             s.class.as_str().to_string(),
             if side {
                 String::new()
