@@ -531,20 +531,20 @@ fn balance(
     for rs in steps.iter() {
         if !(rs.times > 1e-9) || !rs.times.is_finite() {
             let st = &p.steps[rs.step];
-            let c = st
+            let why = format!(
+                "step '{}' would have to make {} turns per pass",
+                st.id,
+                fmt_t(rs.times)
+            );
+            let culprit = st
                 .stoich
                 .iter()
                 .map(|&(c, _)| c)
-                .find(|c| roles[*c] == Role::Intermediate)
-                .unwrap_or(st.stoich[0].0);
-            return Err(unbalanced(
-                c,
-                format!(
-                    "step '{}' would have to make {} turns per pass",
-                    st.id,
-                    fmt_t(rs.times)
-                ),
-            ));
+                .find(|c| roles[*c] == Role::Intermediate);
+            return Err(match culprit {
+                Some(c) => unbalanced(c, why),
+                None => problem(p, Some(st.line), why),
+            });
         }
     }
     Ok(())
