@@ -113,7 +113,10 @@ pub enum MdfError {
     Route(Problem),
     /// A held compound lies outside its own bounds.
     #[error(
-        "{file}:{line}: compound '{id}' is fixed at {conc}, outside its bounds {lo} to {hi}; change its conc (or --set {id}=...) to a value inside the bounds, widen its bounds, or remove fixed = true"
+        "{file}:{line}: compound '{id}' is fixed at {}, outside its bounds {} to {}; change its conc (or --set {id}=...) to a value inside the bounds, widen its bounds, or remove fixed = true",
+        fmt_conc(*.conc),
+        fmt_conc(*.lo),
+        fmt_conc(*.hi)
     )]
     FixedOutsideBounds {
         /// File name.
@@ -122,12 +125,12 @@ pub enum MdfError {
         line: usize,
         /// Compound id.
         id: String,
-        /// The concentration it is held at, formatted.
-        conc: String,
-        /// Lower bound, formatted.
-        lo: String,
-        /// Upper bound, formatted.
-        hi: String,
+        /// The concentration it is held at, mol/L.
+        conc: f64,
+        /// Lower bound, mol/L.
+        lo: f64,
+        /// Upper bound, mol/L.
+        hi: f64,
     },
     /// A standard energy is not a finite number at the scenario's conditions.
     #[error(
@@ -252,9 +255,9 @@ fn setup(prep: &Prepared, state: &State) -> Result<Setup, MdfError> {
                     file: p.file.clone(),
                     line: comp.line,
                     id: comp.id.clone(),
-                    conc: fmt_conc(x),
-                    lo: fmt_conc(lo),
-                    hi: fmt_conc(hi),
+                    conc: x,
+                    lo,
+                    hi,
                 });
             }
             parts[c] = Part::Held;
