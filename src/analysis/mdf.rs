@@ -496,7 +496,22 @@ fn solve_inner(prep: &Prepared, state: &State, want_ranges: bool) -> Result<Mdf,
         }
     }
     let ranges = if want_ranges {
-        Some(ranges(&lp, b, &x, &conc, file)?)
+        let pinned: Vec<Option<f64>> = lp
+            .vars
+            .iter()
+            .enumerate()
+            .map(|(v, &c)| {
+                if duals.lower[c] > PRICE_TOL {
+                    Some(lp.ln_lo[v])
+                } else if duals.upper[c] > PRICE_TOL {
+                    Some(lp.ln_hi[v])
+                } else {
+                    None
+                }
+            })
+            .collect();
+        let ln = ranges(&lp, b, &x, &pinned, file)?;
+        Some(to_conc_ranges(&lp, &x, &ln, &conc))
     } else {
         None
     };
@@ -519,17 +534,127 @@ fn solve_inner(prep: &Prepared, state: &State, want_ranges: bool) -> Result<Mdf,
     })
 }
 
-/// Min and max of each ln c with B held at its optimum: one programme built
-/// once, its objective swapped for each compound and direction.
+/// Min and max of each ln c with B held at its optimum, as (ln lo, ln hi)
+/// per variable. When every step row is a difference constraint (x_p − x_s ≤ w,
+/// after held compounds are moved to the right-hand side) the ranges are
+/// shortest paths in the constraint graph; otherwise one programme per end.
 fn ranges(
     lp: &Lp,
     b: f64,
     x: &[f64],
-    conc: &[f64],
+    pinned: &[Option<f64>],
+    file: &str,
+) -> Result<Vec<(f64, f64)>, MdfError> {
+    match ranges_by_paths(lp, b, x) {
+        Some(r) => Ok(r),
+        None => ranges_by_lp(lp, b, x, pinned, file),
+    }
+}
+
+/// Converts per-variable ln ranges to per-compound concentration ranges.
+fn to_conc_ranges(lp: &Lp, x: &[f64], ln_ranges: &[(f64, f64)], conc: &[f64]) -> Vec<(f64, f64)> {
+    let mut out: Vec<(f64, f64)> = conc.iter().map(|&c| (c, c)).collect();
+    for (v, &c) in lp.vars.iter().enumerate() {
+        let lo = ln_ranges[v].0.max(lp.ln_lo[v]).min(x[v]);
+        let hi = ln_ranges[v].1.min(lp.ln_hi[v]).max(x[v]);
+        let snap = |e: f64| if (e - x[v]).abs() < 1e-6 { x[v] } else { e };
+        out[c] = (snap(lo).exp(), snap(hi).exp());
+    }
+    out
+}
+
+/// Shortest-path ranges for systems of difference constraints. Node 0 is
+/// the origin (x = 0), node v + 1 is variable v; x_v − x_u ≤ w is an edge
+/// u → v of weight w, so max x_v = dist(0, v) and min x_v = −dist(v, 0).
+/// Dijkstra runs on weights reduced by the optimum x (w + x_u − x_v ≥ 0).
+/// None when some row is not a difference constraint.
+fn ranges_by_paths(lp: &Lp, b: f64, x: &[f64]) -> Option<Vec<(f64, f64)>> {
+    let n = lp.vars.len();
+    let pot = |node: usize| if node == 0 { 0.0 } else { x[node - 1] };
+    let mut edges: Vec<(usize, usize, f64)> = Vec::with_capacity(lp.rows.len() + 2 * n);
+    for (j, row) in lp.rows.iter().enumerate() {
+        let w = lp.rhs[j] - b;
+        let terms: Vec<&(usize, f64)> = row.iter().filter(|e| e.1 != 0.0).collect();
+        let (from, to) = match terms.as_slice() {
+            [] => continue,
+            [(v, nu)] if *nu == 1.0 => (0, v + 1),
+            [(v, nu)] if *nu == -1.0 => (v + 1, 0),
+            [(v1, n1), (v2, n2)] if *n1 == 1.0 && *n2 == -1.0 => (v2 + 1, v1 + 1),
+            [(v1, n1), (v2, n2)] if *n1 == -1.0 && *n2 == 1.0 => (v1 + 1, v2 + 1),
+            _ => return None,
+        };
+        edges.push((from, to, w));
+    }
+    for v in 0..n {
+        edges.push((0, v + 1, lp.ln_hi[v]));
+        edges.push((v + 1, 0, -lp.ln_lo[v]));
+    }
+    let mut fwd: Vec<Vec<(usize, f64)>> = vec![Vec::new(); n + 1];
+    let mut rev: Vec<Vec<(usize, f64)>> = vec![Vec::new(); n + 1];
+    for &(u, v, w) in &edges {
+        // Reduced weight; the solver's optimum may miss a constraint by ~1e-10.
+        let r = (w + pot(u) - pot(v)).max(0.0);
+        fwd[u].push((v, r));
+        rev[v].push((u, r));
+    }
+    let up = dijkstra(&fwd);
+    let down = dijkstra(&rev);
+    Some(
+        (0..n)
+            .map(|v| (x[v] - down[v + 1], x[v] + up[v + 1]))
+            .collect(),
+    )
+}
+
+/// Distances from node 0 with non-negative weights (infinite when unreachable).
+fn dijkstra(adj: &[Vec<(usize, f64)>]) -> Vec<f64> {
+    use std::cmp::Reverse;
+    use std::collections::BinaryHeap;
+    #[derive(PartialEq)]
+    struct D(f64);
+    impl Eq for D {}
+    impl PartialOrd for D {
+        fn partial_cmp(&self, o: &Self) -> Option<std::cmp::Ordering> {
+            Some(self.cmp(o))
+        }
+    }
+    impl Ord for D {
+        fn cmp(&self, o: &Self) -> std::cmp::Ordering {
+            self.0.total_cmp(&o.0)
+        }
+    }
+    let mut dist = vec![f64::INFINITY; adj.len()];
+    let mut heap = BinaryHeap::new();
+    dist[0] = 0.0;
+    heap.push(Reverse((D(0.0), 0usize)));
+    while let Some(Reverse((D(d), u))) = heap.pop() {
+        if d > dist[u] {
+            continue;
+        }
+        for &(v, w) in &adj[u] {
+            let nd = d + w;
+            if nd < dist[v] {
+                dist[v] = nd;
+                heap.push(Reverse((D(nd), v)));
+            }
+        }
+    }
+    dist
+}
+
+/// Ranges by linear programmes: one programme built once, its objective
+/// swapped for each variable and direction. A variable whose bound carries a
+/// positive dual sits at that bound in every optimum (complementary
+/// slackness), so it needs no programme.
+fn ranges_by_lp(
+    lp: &Lp,
+    b: f64,
+    x: &[f64],
+    pinned: &[Option<f64>],
     file: &str,
 ) -> Result<Vec<(f64, f64)>, MdfError> {
     let n = lp.vars.len();
-    let mut out: Vec<(f64, f64)> = conc.iter().map(|&c| (c, c)).collect();
+    let mut out: Vec<(f64, f64)> = x.iter().map(|&v| (v, v)).collect();
     if n == 0 {
         return Ok(out);
     }
@@ -549,34 +674,30 @@ fn ranges(
     h.extend(lp.ln_lo.iter().map(|v| -v));
     let pm = CscMatrix::<f64>::zeros((n, n));
     let mut q = vec![0.0; n];
-    q[0] = 1.0;
     let cones = [NonnegativeConeT(m + 2 * n)];
+    let err = |e: String| MdfError::Solver {
+        file: file.to_string(),
+        status: e,
+    };
     let mut solver =
-        DefaultSolver::new(&pm, &q, &a, &h, &cones, settings()).map_err(|e| MdfError::Solver {
-            file: file.to_string(),
-            status: e.to_string(),
-        })?;
-    for (v, &c) in lp.vars.iter().enumerate() {
+        DefaultSolver::new(&pm, &q, &a, &h, &cones, settings()).map_err(|e| err(e.to_string()))?;
+    for v in 0..n {
+        if let Some(at) = pinned[v] {
+            out[v] = (at, at);
+            continue;
+        }
         let mut ends = [0.0; 2];
         for (k, dir) in [1.0, -1.0].into_iter().enumerate() {
-            if v > 0 || k > 0 {
-                q.iter_mut().for_each(|e| *e = 0.0);
-                q[v] = dir;
-                solver.update_q(&q).map_err(|e| MdfError::Solver {
-                    file: file.to_string(),
-                    status: e.to_string(),
-                })?;
-            }
+            q.iter_mut().for_each(|e| *e = 0.0);
+            q[v] = dir;
+            solver.update_q(&q).map_err(|e| err(e.to_string()))?;
             solver.solve();
             if !status_ok(solver.solution.status) {
                 return Err(solver_error(file, solver.solution.status));
             }
             ends[k] = solver.solution.x[v];
         }
-        let lo = ends[0].max(lp.ln_lo[v]).min(x[v]);
-        let hi = ends[1].min(lp.ln_hi[v]).max(x[v]);
-        let snap = |e: f64| if (e - x[v]).abs() < 1e-6 { x[v] } else { e };
-        out[c] = (snap(lo).exp(), snap(hi).exp());
+        out[v] = (ends[0], ends[1]);
     }
     Ok(out)
 }
@@ -844,6 +965,61 @@ mod tests {
         assert_optimal(&prep, &state, &m);
     }
 
+    /// Both range methods on one solved chain: (shortest paths, programmes), ln c per variable.
+    fn both_ranges(dg0: &[f64], bounds: &[(f64, f64)]) -> (Vec<(f64, f64)>, Vec<(f64, f64)>) {
+        let prep = prepared(&chain(dg0, bounds, "25 C"));
+        let state = State::from_pathway(&prep.pathway);
+        let m = solve(&prep, &state).expect("solves");
+        let s = setup(&prep, &state).expect("sets up");
+        let x: Vec<f64> = s.lp.vars.iter().map(|&c| m.conc[c].ln()).collect();
+        let b = m.value / m.rt;
+        let paths = ranges_by_paths(&s.lp, b, &x)
+            .expect("a 1:1 chain is a system of difference constraints");
+        let none = vec![None; x.len()];
+        let lps = ranges_by_lp(&s.lp, b, &x, &none, "chain.toml").expect("programmes solve");
+        let clamp = |r: Vec<(f64, f64)>| -> Vec<(f64, f64)> {
+            r.iter()
+                .enumerate()
+                .map(|(v, e)| (e.0.max(s.lp.ln_lo[v]), e.1.min(s.lp.ln_hi[v])))
+                .collect()
+        };
+        (clamp(paths), clamp(lps))
+    }
+
+    #[test]
+    fn worked_chain_ranges_agree() {
+        let (paths, lps) = both_ranges(&WORKED, &DEFAULT_BOUNDS);
+        for (p, l) in paths.iter().zip(&lps) {
+            assert!(
+                (p.0 - l.0).abs() < 1e-5 && (p.1 - l.1).abs() < 1e-5,
+                "{paths:?} vs {lps:?}"
+            );
+        }
+        // S1 is unique [C, science.md §5] and S0 sits at its upper bound.
+        assert!((paths[1].1 - paths[1].0).abs() < 1e-9);
+        assert!((paths[0].0 - 1e-2f64.ln()).abs() < 1e-9);
+    }
+
+    #[test]
+    fn ranges_need_programmes_for_two_substrate_steps() {
+        let text = "format = 1\n[pathway]\nname = \"split\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
+            a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\n\
+            [[steps]]\nid = \"r1\"\nreaction = \"a -> b + c\"\ndg0 = \"20 kJ/mol\"\n";
+        let prep = prepared(text);
+        let state = State::from_pathway(&prep.pathway);
+        let s = setup(&prep, &state).expect("sets up");
+        let m = solve_with_ranges(&prep, &state).expect("solves");
+        let x: Vec<f64> = s.lp.vars.iter().map(|&c| m.conc[c].ln()).collect();
+        assert!(ranges_by_paths(&s.lp, m.value / m.rt, &x).is_none());
+        // One step, a at its upper bound and b, c at their lower bounds: every
+        // concentration is pinned, MDF = −20 + RT ln(1e-2 / 1e-12) [C].
+        let want = -20e3 + m.rt * (1e-2f64 / 1e-12).ln();
+        assert!((m.value - want).abs() < 1e-3, "{} vs {want}", m.value);
+        for r in m.ranges.as_ref().expect("ranges").iter() {
+            assert!((r.1 / r.0 - 1.0).abs() < 1e-6, "{r:?}");
+        }
+    }
+
     proptest! {
         #![proptest_config(ProptestConfig::with_cases(256))]
         #[test]
@@ -862,6 +1038,20 @@ mod tests {
             prop_assert!((m.value - want).abs() < 1e-3, "LP {} closed form {}", m.value, want);
             let c = certificate(&prep, &state, &m).expect("certificate");
             prop_assert!(c.primal < 1e-6 && c.dual < 1e-6 && c.gap < 1e-6 && c.complementary < 1e-6, "{:?}", c);
+        }
+
+        #[test]
+        fn path_ranges_match_programmes(
+            dg0 in prop::collection::vec(-20e3..20e3f64, 1..6),
+            lows in prop::collection::vec(-8.0..-3.0f64, 7),
+            widths in prop::collection::vec(0.5..4.0f64, 7),
+        ) {
+            let n = dg0.len();
+            let bounds: Vec<(f64, f64)> = (0..=n).map(|i| (10f64.powf(lows[i]), 10f64.powf(lows[i] + widths[i]))).collect();
+            let (paths, lps) = both_ranges(&dg0, &bounds);
+            for (p, l) in paths.iter().zip(&lps) {
+                prop_assert!((p.0 - l.0).abs() < 1e-4 && (p.1 - l.1).abs() < 1e-4, "{:?} vs {:?}", paths, lps);
+            }
         }
     }
 }
