@@ -965,8 +965,10 @@ mod tests {
         assert_optimal(&prep, &state, &m);
     }
 
+    type LnRanges = Vec<(f64, f64)>;
+
     /// Both range methods on one solved chain: (shortest paths, programmes), ln c per variable.
-    fn both_ranges(dg0: &[f64], bounds: &[(f64, f64)]) -> (Vec<(f64, f64)>, Vec<(f64, f64)>) {
+    fn both_ranges(dg0: &[f64], bounds: &[(f64, f64)]) -> (LnRanges, LnRanges) {
         let prep = prepared(&chain(dg0, bounds, "25 C"));
         let state = State::from_pathway(&prep.pathway);
         let m = solve(&prep, &state).expect("solves");
