@@ -233,6 +233,9 @@ pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
     if common.samples.is_some() {
         bail!("--samples is not available for mdf; run mdf once per sample with --set");
     }
+    if matches!(format, Format::Csv | Format::Md) {
+        bail!("mdf writes --format table or --format json");
+    }
     let state = state_from(prep, common)?;
     let m = analysis::mdf::solve_with_ranges(prep, &state).map_err(|e| anyhow!("{e}"))?;
     for w in &m.warnings {
@@ -246,7 +249,7 @@ pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
             s
         }
         Format::Table => report::mdf::mdf_table(prep, &state, &m, TextOptions { unit: u, color: colour_ok(), ascii: false }),
-        Format::Csv | Format::Md => bail!("mdf writes --format table or json"),
+        Format::Csv | Format::Md => bail!("mdf writes --format table or --format json"),
     };
     emit(&text)
 }

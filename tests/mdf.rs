@@ -261,3 +261,15 @@ fn mdf_demo_runs() {
     // Fixed currency compounds stay at their file values.
     assert_eq!(num(&j["concentrations_m"]["atp"]), 0.0026);
 }
+
+#[test]
+fn mdf_rejects_csv_before_solving() {
+    let path = data("mdf_conc_outside.toml");
+    let (code, out, err) = run(&["mdf", path.to_str().unwrap(), "--format", "csv"]);
+    assert_eq!(code, 1);
+    assert!(out.is_empty());
+    assert!(
+        err.contains("--format table or --format json") && !err.contains("warning"),
+        "{err}"
+    );
+}

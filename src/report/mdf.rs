@@ -3,8 +3,8 @@
 //! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
 //! beyond unit conversion.
 
-use crate::analysis::Prepared;
 use crate::analysis::mdf::{Bound, Mdf, Part};
+use crate::analysis::{Direction, Prepared};
 use crate::model::units;
 use crate::report::{EnergyUnit, TextOptions, clean};
 use crate::scenario::State;
@@ -132,6 +132,12 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value
     Value::Object(doc)
 }
 
+/// Two decimals with no negative zero ("-0.00").
+fn two(x: f64) -> String {
+    let r = (clean(x) * 100.0).round() / 100.0;
+    format!("{:.2}", if r == 0.0 { 0.0 } else { r })
+}
+
 fn conc_text(c: f64, ascii: bool) -> String {
     units::format_conc(conc_value(c), ascii)
 }
@@ -184,14 +190,18 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
         c.ph,
         c.ionic_strength
     );
-    let v = clean(u.of(m.value));
+    let v = two(u.of(m.value));
+    let way = match m.direction {
+        Direction::Forward => "forward",
+        Direction::Reverse => "in reverse",
+    };
     if m.feasible() {
         out.push_str(&format!(
-            "max-min driving force: {v:.2} {ul} — within the bounds, every route step can drop by at least this much\n\n"
+            "max-min driving force: {v} {ul} — within the bounds, every route step can drop by at least this much\n\n"
         ));
     } else {
         out.push_str(&format!(
-            "max-min driving force: {v:.2} {ul} — no concentrations within the bounds let the whole route run forward;\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
+            "max-min driving force: {v} {ul} — no concentrations within the bounds let the whole route run {way};\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
         ));
     }
     let mark = if o.ascii { "<" } else { "◀" };
@@ -217,8 +227,8 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 st.id.clone()
             },
             st.enzyme.clone().unwrap_or_default(),
-            format!("{:.2}", clean(u.of(m.dg0[k]))),
-            format!("{:.2}", clean(u.of(m.driving_forces[k]))),
+            two(u.of(m.dg0[k])),
+            two(u.of(m.driving_forces[k])),
             if m.prices[k] > 0.0 {
                 format!("{:.3}", clean(m.prices[k]))
             } else {
