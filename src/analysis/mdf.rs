@@ -928,7 +928,9 @@ mod tests {
             &[(3, "conc = \"100 mM\"")],
         );
         let prep = prepared(&text);
-        let m = solve(&prep, &State::from_pathway(&prep.pathway)).expect("solves");
+        let state = State::from_pathway(&prep.pathway);
+        let m = solve(&prep, &state).expect("solves");
+        assert_optimal(&prep, &state, &m);
         assert_eq!(m.warnings.len(), 1, "{:?}", m.warnings);
         assert!(
             m.warnings[0].contains("'s3'") && m.warnings[0].contains("0.1 M"),
@@ -945,7 +947,9 @@ mod tests {
     fn uphill_route_gives_negative_mdf() {
         // One step +40 kJ/mol between 1 µM and 10 mM: at best −40 + RT ln 1e4 < 0.
         let prep = prepared(&chain(&[40e3], &DEFAULT_BOUNDS[..2], "25 C"));
-        let m = solve(&prep, &State::from_pathway(&prep.pathway)).expect("solves");
+        let state = State::from_pathway(&prep.pathway);
+        let m = solve(&prep, &state).expect("solves");
+        assert_optimal(&prep, &state, &m);
         let want = -40e3 + m.rt * (1e-2f64 / 1e-6).ln();
         assert!((m.value - want).abs() < 1e-3 && !m.feasible());
         assert_eq!(m.bottlenecks, vec![0]);
@@ -1011,6 +1015,7 @@ mod tests {
         let state = State::from_pathway(&prep.pathway);
         let s = setup(&prep, &state).expect("sets up");
         let m = solve_with_ranges(&prep, &state).expect("solves");
+        assert_optimal(&prep, &state, &m);
         let x: Vec<f64> = s.lp.vars.iter().map(|&c| m.conc[c].ln()).collect();
         assert!(ranges_by_paths(&s.lp, m.value / m.rt, &x).is_none());
         // One step, a at its upper bound and b, c at their lower bounds: every
