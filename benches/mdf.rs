@@ -28,6 +28,20 @@ fn chain(n: usize) -> String {
     t
 }
 
+/// As `chain`, with a free carrier pair (x + s_i -> s_{i+1} + y) on every
+/// second step, so the ranges need one programme per end.
+fn chain_with_carrier(n: usize) -> String {
+    let mut t = chain(n);
+    t = t.replace("[compounds]\n", "[compounds]\nx = { conc = \"1 mM\", role = \"currency\" }\ny = { conc = \"1 mM\", role = \"currency\" }\n");
+    for i in (0..n).step_by(2) {
+        t = t.replace(
+            &format!("reaction = \"s{i} -> s{}\"", i + 1),
+            &format!("reaction = \"x + s{i} -> s{} + y\"", i + 1),
+        );
+    }
+    t
+}
+
 fn median(mut v: Vec<Duration>) -> Duration {
     v.sort();
     v[v.len() / 2]
@@ -75,6 +89,24 @@ fn main() {
         3,
         &long,
         &long_state,
+        true,
+    );
+
+    let mixed = prepare(load_str(&chain_with_carrier(100), "chain100.toml").expect("chain loads"))
+        .expect("chain prepares");
+    let mixed_state = State::from_pathway(&mixed.pathway);
+    time(
+        "100-step chain, free carrier: solve",
+        20,
+        &mixed,
+        &mixed_state,
+        false,
+    );
+    time(
+        "100-step chain, free carrier: with ranges",
+        3,
+        &mixed,
+        &mixed_state,
         true,
     );
 }
