@@ -242,6 +242,41 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()
     emit(&text)
 }
 
+/// Runs the driving-force optimisation (with concentration ranges) and prints it.
+pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
+    if common.samples.is_some() {
+        bail!("--samples is not available for mdf; run mdf once per sample with --set");
+    }
+    if matches!(format, Format::Csv | Format::Md) {
+        bail!("mdf writes --format table or --format json");
+    }
+    let state = state_from(prep, common)?;
+    let m = analysis::mdf::solve_with_ranges(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    for w in &m.warnings {
+        eprintln!("warning: {w}");
+    }
+    let u = common.unit();
+    let text = match format {
+        Format::Json => {
+            let mut s = serde_json::to_string_pretty(&report::mdf::mdf_json(prep, &state, &m, u))?;
+            s.push('\n');
+            s
+        }
+        Format::Table => report::mdf::mdf_table(
+            prep,
+            &state,
+            &m,
+            TextOptions {
+                unit: u,
+                color: colour_ok(),
+                ascii: false,
+            },
+        ),
+        Format::Csv | Format::Md => bail!("mdf writes --format table or --format json"),
+    };
+    emit(&text)
+}
+
 /// Entry point after parsing.
 pub fn run(cli: Cli) -> Result<()> {
     match cli.command {
@@ -280,8 +315,15 @@ pub fn run(cli: Cli) -> Result<()> {
             let prep = load(&file)?;
             run_report(&prep, &common, format)
         }
+        Some(Command::Mdf {
+            file,
+            common,
+            format,
+        }) => {
+            let prep = load(&file)?;
+            run_mdf(&prep, &common, format)
+        }
         Some(Command::Explore { .. })
-        | Some(Command::Mdf { .. })
         | Some(Command::Plot { .. })
         | Some(Command::Screenshot { .. }) => {
             bail!("this command is not available in this version of dgpath yet")

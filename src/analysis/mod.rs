@@ -4,6 +4,7 @@
 //! route's needs. `analyze` is pure and cheap enough to run on every keystroke.
 
 pub mod control;
+pub mod mdf;
 mod route;
 
 pub use control::{Verdict, VerdictKind};

@@ -1,0 +1,323 @@
+//! Renderings of a driving-force optimisation result: the JSON document of
+//! cli.md (`mdf --format json`, a contract) and an aligned table for people.
+//! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
+//! beyond unit conversion.
+
+use crate::analysis::mdf::{Bound, Mdf, Part};
+use crate::analysis::{Direction, Prepared};
+use crate::model::units;
+use crate::report::{EnergyUnit, TextOptions, clean};
+use crate::scenario::State;
+use serde_json::{Map, Value, json};
+
+/// What the reader should keep in mind beside the bottlenecks (science.md §9 [C]).
+pub const BOTTLENECK_CAUTION: &str = "A bottleneck here is costly in enzyme (little driving force to spare), not necessarily the step that controls the flux.";
+
+fn energy(x: f64) -> Value {
+    if x.is_finite() {
+        json!(clean(x))
+    } else {
+        Value::Null
+    }
+}
+
+/// A concentration (mol/L) rounded to 7 significant figures, for printing.
+pub fn conc_value(c: f64) -> f64 {
+    if !c.is_finite() || c == 0.0 {
+        return c;
+    }
+    format!("{c:.6e}").parse().unwrap_or(c)
+}
+
+fn conc(c: f64) -> Value {
+    if c.is_finite() {
+        json!(conc_value(c))
+    } else {
+        Value::Null
+    }
+}
+
+/// MDF gain (J/mol) per 10-fold widening of a bound whose dual is `price`.
+pub fn gain_per_decade(m: &Mdf, price: f64) -> f64 {
+    m.rt * std::f64::consts::LN_10 * price
+}
+
+fn shown(m: &Mdf) -> impl Iterator<Item = usize> + '_ {
+    (0..m.parts.len()).filter(|&c| m.parts[c] != Part::Absent)
+}
+
+/// The JSON document of cli.md (`mdf --format json`), with extra fields.
+pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value {
+    let p = &prep.pathway;
+    let c = &state.conditions;
+    let step_id = |k: usize| p.steps[m.steps[k]].id.clone();
+    let mut doc = Map::new();
+    doc.insert("pathway".into(), json!(p.name));
+    doc.insert("direction".into(), json!(m.direction.as_str()));
+    doc.insert("mdf".into(), energy(u.of(m.value)));
+    doc.insert("energy_unit".into(), json!(u.label()));
+    doc.insert("feasible".into(), json!(m.feasible()));
+    doc.insert(
+        "conditions".into(),
+        json!({
+            "temperature_k": clean(c.temperature),
+            "ph": clean(c.ph),
+            "ionic_strength_m": clean(c.ionic_strength),
+            "rt": energy(u.of(m.rt)),
+        }),
+    );
+    doc.insert(
+        "bottlenecks".into(),
+        json!(
+            m.bottlenecks
+                .iter()
+                .map(|&k| step_id(k))
+                .collect::<Vec<_>>()
+        ),
+    );
+    let mut prices = Map::new();
+    let mut forces = Map::new();
+    let mut dg0 = Map::new();
+    for k in 0..m.steps.len() {
+        prices.insert(step_id(k), energy(m.prices[k]));
+        forces.insert(step_id(k), energy(u.of(m.driving_forces[k])));
+        dg0.insert(step_id(k), energy(u.of(m.dg0[k])));
+    }
+    let mut concs = Map::new();
+    let mut bounds = Map::new();
+    let mut ranges = Map::new();
+    let mut fixed = Vec::new();
+    for ci in shown(m) {
+        let id = p.compounds[ci].id.clone();
+        concs.insert(id.clone(), conc(m.conc[ci]));
+        bounds.insert(
+            id.clone(),
+            json!([conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
+        );
+        if let Some(r) = &m.ranges {
+            ranges.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
+        }
+        if m.parts[ci] == Part::Held {
+            fixed.push(id);
+        }
+    }
+    doc.insert("concentrations_m".into(), Value::Object(concs));
+    doc.insert("driving_forces".into(), Value::Object(forces));
+    doc.insert("prices".into(), Value::Object(prices));
+    doc.insert("dg0".into(), Value::Object(dg0));
+    if m.ranges.is_some() {
+        doc.insert("ranges_m".into(), Value::Object(ranges));
+    }
+    doc.insert("bounds_m".into(), Value::Object(bounds));
+    doc.insert("fixed".into(), json!(fixed));
+    let limiting: Vec<Value> = m
+        .limiting
+        .iter()
+        .map(|&(ci, b, price)| {
+            let at = match b {
+                Bound::Lower => m.bounds[ci].0,
+                Bound::Upper => m.bounds[ci].1,
+            };
+            json!({
+                "compound": p.compounds[ci].id,
+                "bound": b.as_str(),
+                "bound_m": conc(at),
+                "price": energy(price),
+                "gain_per_decade": energy(u.of(gain_per_decade(m, price))),
+            })
+        })
+        .collect();
+    doc.insert("limiting".into(), Value::Array(limiting));
+    doc.insert("warnings".into(), json!(m.warnings));
+    Value::Object(doc)
+}
+
+/// Two decimals with no negative zero ("-0.00").
+fn two(x: f64) -> String {
+    let r = (clean(x) * 100.0).round() / 100.0;
+    format!("{:.2}", if r == 0.0 { 0.0 } else { r })
+}
+
+fn conc_text(c: f64, ascii: bool) -> String {
+    units::format_conc(conc_value(c), ascii)
+}
+
+fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
+    let (a, b) = (conc_text(lo, ascii), conc_text(hi, ascii));
+    if a == b { a } else { format!("{a} to {b}") }
+}
+
+fn pad(cells: &[Vec<String>], right: &[bool]) -> Vec<String> {
+    let ncol = cells.first().map_or(0, |r| r.len());
+    let mut w = vec![0usize; ncol];
+    for r in cells {
+        for (i, c) in r.iter().enumerate() {
+            w[i] = w[i].max(c.chars().count());
+        }
+    }
+    cells
+        .iter()
+        .map(|r| {
+            let line: Vec<String> = r
+                .iter()
+                .enumerate()
+                .map(|(i, c)| {
+                    let fill = " ".repeat(w[i] - c.chars().count());
+                    if right[i] {
+                        format!("{fill}{c}")
+                    } else {
+                        format!("{c}{fill}")
+                    }
+                })
+                .collect();
+            line.join("  ").trim_end().to_string()
+        })
+        .collect()
+}
+
+/// The aligned table: the MDF, each step's driving force and price, the
+/// limiting bounds and the optimal concentrations with their ranges.
+pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> String {
+    let p = &prep.pathway;
+    let u = o.unit;
+    let ul = u.label();
+    let c = &state.conditions;
+    let mut out = format!(
+        "{} — {} route, {:.2} °C, pH {}, I = {} M\n\n",
+        p.name,
+        m.direction.as_str(),
+        c.temperature - 273.15,
+        c.ph,
+        c.ionic_strength
+    );
+    let v = two(u.of(m.value));
+    let way = match m.direction {
+        Direction::Forward => "forward",
+        Direction::Reverse => "in reverse",
+    };
+    if m.feasible() {
+        out.push_str(&format!(
+            "max-min driving force: {v} {ul} — within the bounds, every route step can drop by at least this much\n\n"
+        ));
+    } else {
+        out.push_str(&format!(
+            "max-min driving force: {v} {ul} — no concentrations within the bounds let the whole route run {way};\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
+        ));
+    }
+    let mark = if o.ascii { "<" } else { "◀" };
+    let mut rows = vec![vec![
+        "step".to_string(),
+        "enzyme".to_string(),
+        format!("dG'° [{ul}]"),
+        format!("-dG' at optimum [{ul}]"),
+        "price".to_string(),
+        String::new(),
+    ]];
+    for k in 0..m.steps.len() {
+        let st = &p.steps[m.steps[k]];
+        let reversed = prep
+            .route(m.direction)
+            .ok()
+            .and_then(|r| r.steps.get(k))
+            .is_some_and(|r| r.sign < 0.0);
+        rows.push(vec![
+            if reversed {
+                format!("{} (rev)", st.id)
+            } else {
+                st.id.clone()
+            },
+            st.enzyme.clone().unwrap_or_default(),
+            two(u.of(m.dg0[k])),
+            two(u.of(m.driving_forces[k])),
+            if m.prices[k] > 0.0 {
+                format!("{:.3}", clean(m.prices[k]))
+            } else {
+                "0".into()
+            },
+            if m.prices[k] > 0.0 {
+                format!("{mark} bottleneck")
+            } else {
+                String::new()
+            },
+        ]);
+    }
+    let lines = pad(&rows, &[false, false, true, true, true, false]);
+    out.push_str(&lines[0]);
+    out.push('\n');
+    out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
+    out.push('\n');
+    for l in &lines[1..] {
+        out.push_str(l);
+        out.push('\n');
+    }
+    let ids: Vec<&str> = m
+        .bottlenecks
+        .iter()
+        .map(|&k| p.steps[m.steps[k]].id.as_str())
+        .collect();
+    out.push_str(&format!(
+        "\nbottlenecks: {} (shadow prices sum to 1: each one's share of the limitation)\n",
+        if ids.is_empty() {
+            "none".to_string()
+        } else {
+            ids.join(", ")
+        }
+    ));
+    if m.limiting.is_empty() {
+        out.push_str("limiting bounds: none\n");
+    } else {
+        out.push_str("limiting bounds (MDF gain per 10-fold wider bound):\n");
+        for &(ci, b, price) in &m.limiting {
+            let (at, dir) = match b {
+                Bound::Lower => (m.bounds[ci].0, "lower"),
+                Bound::Upper => (m.bounds[ci].1, "upper"),
+            };
+            out.push_str(&format!(
+                "  {} at its {dir} bound {}: +{:.2} {ul} (price {:.3})\n",
+                p.compounds[ci].id,
+                conc_text(at, o.ascii),
+                clean(u.of(gain_per_decade(m, price))),
+                clean(price)
+            ));
+        }
+    }
+    out.push('\n');
+    let mut rows = vec![vec![
+        "compound".to_string(),
+        "bounds".to_string(),
+        "at optimum".to_string(),
+        if m.ranges.is_some() {
+            "range while the MDF holds".to_string()
+        } else {
+            String::new()
+        },
+    ]];
+    for ci in shown(m) {
+        let held = m.parts[ci] == Part::Held;
+        rows.push(vec![
+            p.compounds[ci].id.clone(),
+            if held {
+                "held".to_string()
+            } else {
+                range_text(m.bounds[ci].0, m.bounds[ci].1, o.ascii)
+            },
+            conc_text(m.conc[ci], o.ascii),
+            match (&m.ranges, held) {
+                (Some(_), true) => "held".to_string(),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
+                (None, _) => String::new(),
+            },
+        ]);
+    }
+    let lines = pad(&rows, &[false, false, true, false]);
+    for (i, l) in lines.iter().enumerate() {
+        out.push_str(l);
+        out.push('\n');
+        if i == 0 {
+            out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
+            out.push('\n');
+        }
+    }
+    out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
+    out
+}
