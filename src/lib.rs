@@ -11,6 +11,7 @@
 pub mod analysis;
 pub mod model;
 pub mod report;
+pub mod samples;
 pub mod scenario;
 pub mod thermo;
 
