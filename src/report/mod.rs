@@ -1,6 +1,8 @@
 //! Renderings of an `Analysis`: aligned table, JSON (a contract, see
 //! shared/design/cli.md), CSV and Markdown. Nothing here computes results.
 
+pub mod samples;
+
 use crate::analysis::{control, Analysis, Class, Prepared, StepResult, VerdictKind};
 use crate::model::units;
 use crate::scenario::State;
