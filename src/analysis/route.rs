@@ -460,7 +460,7 @@ fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Dire
         }
     }
     for rs in steps.iter() {
-        if !(rs.times > 1e-9) || !rs.times.is_finite() {
+        if !rs.times.is_finite() || rs.times <= 1e-9 {
             let st = &p.steps[rs.step];
             let c = st.stoich.iter().map(|&(c, _)| c).find(|c| roles[*c] == Role::Intermediate).unwrap_or(st.stoich[0].0);
             return Err(unbalanced(c, format!("step '{}' would have to make {} turns per pass", st.id, fmt_t(rs.times))));
