@@ -45,29 +45,60 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
 }
 
+#[derive(serde::Serialize)]
+struct StepRow<'a> {
+    id: &'a str,
+    dg0: Option<f64>,
+    dg: Option<f64>,
+    class: &'static str,
+    verdict: Option<&'static str>,
+    cumulative: Option<f64>,
+}
+
+#[derive(serde::Serialize)]
+struct Total {
+    dg: Option<f64>,
+}
+
+#[derive(serde::Serialize)]
+struct SampleRow<'a> {
+    sample: &'a str,
+    steps: Vec<StepRow<'a>>,
+    total: Total,
+    largest_drop: Option<&'a str>,
+    prime: Option<&'a str>,
+}
+
+fn opt(x: f64) -> Option<f64> {
+    x.is_finite().then(|| clean(x))
+}
+
+fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit) -> SampleRow<'a> {
+    SampleRow {
+        sample: name,
+        steps: a
+            .steps
+            .iter()
+            .map(|s| StepRow {
+                id: &prep.pathway.steps[s.step].id,
+                dg0: opt(u.of(s.dg0)),
+                dg: opt(u.of(s.dg)),
+                class: s.class.as_str(),
+                verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
+                cumulative: opt(u.of(s.cumulative)),
+            })
+            .collect(),
+        total: Total {
+            dg: opt(u.of(a.total_dg)),
+        },
+        largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
+        prime: prime_of(a).map(|k| step_id(prep, a, k)),
+    }
+}
+
 /// One sample as a JSON object (an element of the `samples` array).
 pub fn json_sample(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Value {
-    let steps: Vec<Value> = a
-        .steps
-        .iter()
-        .map(|s| {
-            json!({
-                "id": prep.pathway.steps[s.step].id,
-                "dg0": num(u.of(s.dg0)),
-                "dg": num(u.of(s.dg)),
-                "class": s.class.as_str(),
-                "verdict": s.verdict.map_or(Value::Null, |v| json!(a.control[v].kind.as_str())),
-                "cumulative": num(u.of(s.cumulative)),
-            })
-        })
-        .collect();
-    json!({
-        "sample": name,
-        "steps": steps,
-        "total": { "dg": num(u.of(a.total_dg)) },
-        "largest_drop": a.largest_drop.map_or(Value::Null, |k| json!(step_id(prep, a, k))),
-        "prime": prime_of(a).map_or(Value::Null, |k| json!(step_id(prep, a, k))),
-    })
+    serde_json::to_value(sample_row(prep, name, a, u)).unwrap_or(Value::Null)
 }
 
 /// The opening of the streamed JSON document, up to and including `"samples": [`.
@@ -91,8 +122,8 @@ pub fn json_sample_line(
     u: EnergyUnit,
     first: bool,
 ) -> String {
-    let v = json_sample(prep, name, a, u);
-    format!("{}    {}", if first { "" } else { ",\n" }, v)
+    let v = serde_json::to_string(&sample_row(prep, name, a, u)).unwrap_or_default();
+    format!("{}    {v}", if first { "" } else { ",\n" })
 }
 
 fn spread_id<'a>(prep: &'a Prepared, s: &StepSpread) -> &'a str {
