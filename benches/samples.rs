@@ -104,7 +104,7 @@ fn main() {
     time("read only", &|| {
         SampleReader::open(&path, &prep.pathway, &base.conc)
             .unwrap()
-            .map(|r| r.unwrap())
+            .filter(|r| r.is_ok())
             .count()
     });
 }
