@@ -135,6 +135,39 @@ fn json_summary_agrees_with_the_samples() {
         .map(|x| &x["sample"])
         .collect();
     assert_eq!(differ, listed);
+    // Steps listed under class_differs are exactly those with more than one class,
+    // and each lists the samples outside its usual class.
+    let steps = sum["steps"].as_array().unwrap();
+    let varied: Vec<&serde_json::Value> = steps
+        .iter()
+        .filter(|st| {
+            ["far", "moderate", "near", "uphill"]
+                .iter()
+                .filter(|c| st["classes"][**c].as_u64() > Some(0))
+                .count()
+                > 1
+        })
+        .map(|st| &st["id"])
+        .collect();
+    let cd = sum["class_differs"].as_array().unwrap();
+    assert_eq!(varied, cd.iter().map(|d| &d["step"]).collect::<Vec<_>>());
+    for d in cd {
+        let k = steps.iter().position(|st| st["id"] == d["step"]).unwrap();
+        let other: Vec<&serde_json::Value> = samples
+            .iter()
+            .filter(|s| s["steps"][k]["class"] != d["usual"])
+            .map(|s| &s["sample"])
+            .collect();
+        assert_eq!(
+            other,
+            d["samples"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|x| &x["sample"])
+                .collect::<Vec<_>>()
+        );
+    }
     // The demo is built so that the picture changes as the sugar runs out.
     assert!(
         !listed.is_empty(),
@@ -154,6 +187,12 @@ fn table_is_the_default_with_samples() {
     );
     assert!(
         t.contains("usual prime step: pfk") && t.contains("prime step differs in"),
+        "{t}"
+    );
+    // The demo's story: pgk leaves near equilibrium as the sugar runs out.
+    assert!(
+        t.lines()
+            .any(|l| l.trim_start().starts_with("pgk: usually near") && l.contains("far in")),
         "{t}"
     );
     for id in ["hxk", "pgk", "adh"] {

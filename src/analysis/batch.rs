@@ -98,6 +98,19 @@ pub struct Summary {
     pub usual_prime: Option<usize>,
     /// Samples whose prime step (position, or None) differs from the usual one, in table order.
     pub prime_differs: Vec<(String, Option<usize>)>,
+    /// Steps whose class is not the same in every sample, in route order.
+    pub class_differs: Vec<ClassDiffers>,
+}
+
+/// A step whose class varies across samples.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ClassDiffers {
+    /// Position in `Summary::steps`.
+    pub position: usize,
+    /// The most common class (ties: far, moderate, near, uphill).
+    pub usual: Class,
+    /// The samples in another class, in table order.
+    pub samples: Vec<(String, Class)>,
 }
 
 /// The value at fraction `p` of sorted data (linear between order statistics; R's type 7).
@@ -124,6 +137,7 @@ pub struct Accumulator {
     largest: Vec<usize>,
     prime: Vec<usize>,
     primes: Vec<(String, Option<usize>)>,
+    class_of: Vec<Vec<Class>>,
 }
 
 impl Accumulator {
@@ -137,6 +151,7 @@ impl Accumulator {
             largest: vec![0; steps],
             prime: vec![0; steps],
             primes: Vec::new(),
+            class_of: vec![Vec::new(); steps],
         }
     }
 
@@ -147,6 +162,7 @@ impl Accumulator {
             self.dg0[k] = s.dg0;
             self.step[k] = s.step;
             self.classes[k].add(s.class);
+            self.class_of[k].push(s.class);
         }
         if let Some(k) = a.largest_drop {
             self.largest[k] += 1;
@@ -187,6 +203,28 @@ impl Accumulator {
                 usual = Some(k);
             }
         }
+        let mut class_differs = Vec::new();
+        for (k, st) in steps.iter().enumerate() {
+            let mut usual_class = Class::Far;
+            for c in [Class::Moderate, Class::Near, Class::Uphill] {
+                if st.classes.of(c) > st.classes.of(usual_class) {
+                    usual_class = c;
+                }
+            }
+            if st.classes.of(usual_class) < n {
+                let samples = self.class_of[k]
+                    .iter()
+                    .zip(&self.primes)
+                    .filter(|(c, _)| **c != usual_class)
+                    .map(|(c, (name, _))| (name.clone(), *c))
+                    .collect();
+                class_differs.push(ClassDiffers {
+                    position: k,
+                    usual: usual_class,
+                    samples,
+                });
+            }
+        }
         let prime_differs = self
             .primes
             .into_iter()
@@ -197,6 +235,7 @@ impl Accumulator {
             steps,
             usual_prime: usual,
             prime_differs,
+            class_differs,
         }
     }
 }
@@ -369,6 +408,25 @@ dg0 = "-8 kJ/mol"
                 && (s1.max - (-8000.0 + 2.0 * l)).abs() < 1e-6
         );
         assert_eq!(s1.dg0, -8000.0);
+        // Far and near tie for s1 (2 each); far comes first. The others are listed.
+        let cd = &s.class_differs;
+        assert_eq!(cd.len(), 2);
+        assert_eq!((cd[0].position, cd[0].usual), (0, Class::Far));
+        let names: Vec<(&str, Class)> = cd[0]
+            .samples
+            .iter()
+            .map(|(n, c)| (n.as_str(), *c))
+            .collect();
+        assert_eq!(
+            names,
+            [
+                ("t1", Class::Moderate),
+                ("t4", Class::Near),
+                ("t5", Class::Near)
+            ]
+        );
+        assert_eq!((cd[1].position, cd[1].usual), (1, Class::Far));
+        assert_eq!(cd[1].samples.len(), 3);
     }
 
     #[test]

@@ -159,6 +159,17 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
         "samples": sum.samples,
         "steps": steps,
         "usual_prime": id(sum.usual_prime),
+        "class_differs": sum
+            .class_differs
+            .iter()
+            .map(|d| {
+                json!({
+                    "step": spread_id(prep, &sum.steps[d.position]),
+                    "usual": d.usual.as_str(),
+                    "samples": d.samples.iter().map(|(n, c)| json!({ "sample": n, "class": c.as_str() })).collect::<Vec<_>>(),
+                })
+            })
+            .collect::<Vec<_>>(),
         "prime_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "prime": id(*p) })).collect::<Vec<_>>(),
     })
 }
@@ -218,6 +229,38 @@ fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
             },
             names(&sum.prime_differs, prep, sum, 20)
         ));
+    }
+    out
+}
+
+fn class_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
+    let mut out = Vec::new();
+    for d in &sum.class_differs {
+        let st = &sum.steps[d.position];
+        let mut parts = vec![format!(
+            "{}: usually {} ({} of {})",
+            spread_id(prep, st),
+            d.usual.as_str(),
+            st.classes.of(d.usual),
+            sum.samples
+        )];
+        for c in [Class::Far, Class::Moderate, Class::Near, Class::Uphill] {
+            let list: Vec<&str> = d
+                .samples
+                .iter()
+                .filter(|(_, k)| *k == c)
+                .map(|(n, _)| n.as_str())
+                .collect();
+            if list.is_empty() {
+                continue;
+            }
+            let mut shown = list.iter().take(10).copied().collect::<Vec<_>>().join(", ");
+            if list.len() > 10 {
+                shown.push_str(&format!(" and {} more", list.len() - 10));
+            }
+            parts.push(format!("{} in {}: {shown}", c.as_str(), list.len()));
+        }
+        out.push(parts.join("; "));
     }
     out
 }
@@ -283,6 +326,13 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         out.push_str(&l);
         out.push('\n');
     }
+    let changes = class_lines(prep, sum);
+    if !changes.is_empty() {
+        out.push_str("\nsteps whose class changes between samples:\n");
+        for l in changes {
+            out.push_str(&format!("  {l}\n"));
+        }
+    }
     out.push_str(&format!(
         "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; per-sample rows: --format csv or json\n"
     ));
@@ -319,6 +369,9 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     }
     out.push('\n');
     for l in prime_lines(prep, sum) {
+        out.push_str(&format!("- {l}\n"));
+    }
+    for l in class_lines(prep, sum) {
         out.push_str(&format!("- {l}\n"));
     }
     out.push_str(&format!("\n_{}_\n", crate::analysis::control::CAUTION));
