@@ -10,6 +10,8 @@ use dgpath::scenario::State;
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
+mod samples_plot;
+
 /// Gibbs energies of pathway steps at your cell's conditions, live.
 #[derive(Parser, Debug)]
 #[command(name = "dgpath", version, about, long_about = None)]
@@ -307,13 +309,11 @@ pub fn run(cli: Cli) -> Result<()> {
             common,
             format,
         }) => {
-            if common.samples.is_some() {
-                bail!(
-                    "--samples is not available in this version of dgpath yet; run report once per sample with --set"
-                );
-            }
             let prep = load(&file)?;
-            run_report(&prep, &common, format)
+            match &common.samples {
+                Some(path) => samples_plot::run_samples_report(&prep, &common, path, format),
+                None => run_report(&prep, &common, format),
+            }
         }
         Some(Command::Mdf {
             file,
@@ -323,9 +323,12 @@ pub fn run(cli: Cli) -> Result<()> {
             let prep = load(&file)?;
             run_mdf(&prep, &common, format)
         }
-        Some(Command::Explore { .. })
-        | Some(Command::Plot { .. })
-        | Some(Command::Screenshot { .. }) => {
+        Some(Command::Plot {
+            file,
+            common,
+            output,
+        }) => samples_plot::run_plot(&load(&file)?, &common, &output),
+        Some(Command::Explore { .. }) | Some(Command::Screenshot { .. }) => {
             bail!("this command is not available in this version of dgpath yet")
         }
     }

@@ -10,7 +10,9 @@
 
 pub mod analysis;
 pub mod model;
+pub mod plot;
 pub mod report;
+pub mod samples;
 pub mod scenario;
 pub mod thermo;
 

@@ -1,2 +1,4 @@
 mod mdf;
+mod plot;
+mod samples;
 mod uncertainty;

@@ -3,6 +3,7 @@
 //! net balance, control verdicts with reasons, uncertainty and the reverse
 //! route's needs. `analyze` is pure and cheap enough to run on every keystroke.
 
+pub mod batch;
 pub mod control;
 pub mod mdf;
 mod route;

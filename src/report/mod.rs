@@ -2,6 +2,7 @@
 //! shared/design/cli.md), CSV and Markdown. Nothing here computes results.
 
 pub mod mdf;
+pub mod samples;
 
 use crate::analysis::{Analysis, Class, Prepared, StepResult, VerdictKind, control};
 use crate::model::units;

@@ -1,0 +1,379 @@
+//! Renderings for many samples: per-sample CSV rows and JSON objects (small
+//! pieces, so that output streams while samples are analysed), and the
+//! summary across samples as a table, Markdown or JSON. Nothing here computes
+//! results; the numbers come from `analysis::batch`.
+
+use super::{EnergyUnit, TextOptions, clean};
+use crate::analysis::batch::{StepSpread, Summary, prime_of};
+use crate::analysis::{Analysis, Class, Prepared};
+use crate::scenario::State;
+use serde_json::{Map, Value, json};
+
+fn num(x: f64) -> Value {
+    if x.is_finite() {
+        json!(clean(x))
+    } else {
+        Value::Null
+    }
+}
+
+fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
+    &prep.pathway.steps[a.steps[k].step].id
+}
+
+/// The header line of `report --samples --format csv`.
+pub fn csv_header() -> String {
+    "sample,step,dg0,dg,class,verdict,cumulative\n".to_string()
+}
+
+/// One CSV row per route step of one sample.
+pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> String {
+    let mut w = csv::WriterBuilder::new()
+        .has_headers(false)
+        .from_writer(Vec::with_capacity(64 * a.steps.len()));
+    for s in &a.steps {
+        let _ = w.write_record([
+            name,
+            &prep.pathway.steps[s.step].id,
+            &format!("{}", clean(u.of(s.dg0))),
+            &format!("{}", clean(u.of(s.dg))),
+            s.class.as_str(),
+            s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
+            &format!("{}", clean(u.of(s.cumulative))),
+        ]);
+    }
+    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+}
+
+#[derive(serde::Serialize)]
+struct StepRow<'a> {
+    id: &'a str,
+    dg0: Option<f64>,
+    dg: Option<f64>,
+    class: &'static str,
+    verdict: Option<&'static str>,
+    cumulative: Option<f64>,
+}
+
+#[derive(serde::Serialize)]
+struct Total {
+    dg: Option<f64>,
+}
+
+#[derive(serde::Serialize)]
+struct SampleRow<'a> {
+    sample: &'a str,
+    steps: Vec<StepRow<'a>>,
+    total: Total,
+    largest_drop: Option<&'a str>,
+    prime: Option<&'a str>,
+}
+
+fn opt(x: f64) -> Option<f64> {
+    x.is_finite().then(|| clean(x))
+}
+
+fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit) -> SampleRow<'a> {
+    SampleRow {
+        sample: name,
+        steps: a
+            .steps
+            .iter()
+            .map(|s| StepRow {
+                id: &prep.pathway.steps[s.step].id,
+                dg0: opt(u.of(s.dg0)),
+                dg: opt(u.of(s.dg)),
+                class: s.class.as_str(),
+                verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
+                cumulative: opt(u.of(s.cumulative)),
+            })
+            .collect(),
+        total: Total {
+            dg: opt(u.of(a.total_dg)),
+        },
+        largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
+        prime: prime_of(a).map(|k| step_id(prep, a, k)),
+    }
+}
+
+/// One sample as a JSON object (an element of the `samples` array).
+pub fn json_sample(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Value {
+    serde_json::to_value(sample_row(prep, name, a, u)).unwrap_or(Value::Null)
+}
+
+/// The opening of the streamed JSON document, up to and including `"samples": [`.
+pub fn json_head(prep: &Prepared, state: &State, u: EnergyUnit) -> String {
+    let c = &state.conditions;
+    let rt = crate::thermo::rt(c.temperature);
+    format!(
+        "{{\n  \"pathway\": {},\n  \"direction\": {},\n  \"energy_unit\": {},\n  \"conditions\": {},\n  \"samples\": [\n",
+        json!(prep.pathway.name),
+        json!(state.direction.as_str()),
+        json!(u.label()),
+        json!({ "temperature_k": num(c.temperature), "ph": num(c.ph), "ionic_strength_m": num(c.ionic_strength), "rt": num(u.of(rt)) }),
+    )
+}
+
+/// One element of the streamed `samples` array; `first` leaves out the separating comma.
+pub fn json_sample_line(
+    prep: &Prepared,
+    name: &str,
+    a: &Analysis,
+    u: EnergyUnit,
+    first: bool,
+) -> String {
+    let v = serde_json::to_string(&sample_row(prep, name, a, u)).unwrap_or_default();
+    format!("{}    {v}", if first { "" } else { ",\n" })
+}
+
+fn spread_id<'a>(prep: &'a Prepared, s: &StepSpread) -> &'a str {
+    &prep.pathway.steps[s.step].id
+}
+
+/// The summary as JSON (the `summary` member of the samples document).
+pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
+    let steps: Vec<Value> = sum
+        .steps
+        .iter()
+        .map(|s| {
+            let mut classes = Map::new();
+            for c in [Class::Far, Class::Moderate, Class::Near, Class::Uphill] {
+                classes.insert(c.as_str().into(), json!(s.classes.of(c)));
+            }
+            json!({
+                "id": spread_id(prep, s),
+                "dg0": num(u.of(s.dg0)),
+                "dg_median": num(u.of(s.median)),
+                "dg_p10": num(u.of(s.p10)),
+                "dg_p90": num(u.of(s.p90)),
+                "dg_min": num(u.of(s.min)),
+                "dg_max": num(u.of(s.max)),
+                "classes": Value::Object(classes),
+                "largest_drop": s.largest,
+                "prime": s.prime,
+            })
+        })
+        .collect();
+    let id = |p: Option<usize>| p.map_or(Value::Null, |k| json!(spread_id(prep, &sum.steps[k])));
+    json!({
+        "samples": sum.samples,
+        "steps": steps,
+        "usual_prime": id(sum.usual_prime),
+        "class_differs": sum
+            .class_differs
+            .iter()
+            .map(|d| {
+                json!({
+                    "step": spread_id(prep, &sum.steps[d.position]),
+                    "usual": d.usual.as_str(),
+                    "samples": d.samples.iter().map(|(n, c)| json!({ "sample": n, "class": c.as_str() })).collect::<Vec<_>>(),
+                })
+            })
+            .collect::<Vec<_>>(),
+        "prime_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "prime": id(*p) })).collect::<Vec<_>>(),
+    })
+}
+
+/// The closing of the streamed JSON document, with the summary.
+pub fn json_tail(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> String {
+    let body = serde_json::to_string_pretty(&json_summary(prep, sum, u))
+        .unwrap_or_default()
+        .replace('\n', "\n  ");
+    format!("\n  ],\n  \"summary\": {body}\n}}\n")
+}
+
+fn pct(n: usize, of: usize) -> String {
+    if of == 0 {
+        "-".into()
+    } else {
+        format!("{:.0} %", 100.0 * n as f64 / of as f64)
+    }
+}
+
+fn names(list: &[(String, Option<usize>)], prep: &Prepared, sum: &Summary, max: usize) -> String {
+    let mut parts: Vec<String> = list
+        .iter()
+        .take(max)
+        .map(|(n, p)| {
+            format!(
+                "{n} ({})",
+                p.map_or("none", |k| spread_id(prep, &sum.steps[k]))
+            )
+        })
+        .collect();
+    if list.len() > max {
+        parts.push(format!("and {} more", list.len() - max));
+    }
+    parts.join(", ")
+}
+
+fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
+    let usual = sum
+        .usual_prime
+        .map_or("none", |k| spread_id(prep, &sum.steps[k]));
+    let same = sum.samples - sum.prime_differs.len();
+    let mut out = vec![format!(
+        "usual prime step: {usual} ({same} of {} samples)",
+        sum.samples
+    )];
+    if sum.prime_differs.is_empty() {
+        out.push("the prime step is the same in every sample".into());
+    } else {
+        out.push(format!(
+            "prime step differs in {} sample{}: {}",
+            sum.prime_differs.len(),
+            if sum.prime_differs.len() == 1 {
+                ""
+            } else {
+                "s"
+            },
+            names(&sum.prime_differs, prep, sum, 20)
+        ));
+    }
+    out
+}
+
+fn class_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
+    let mut out = Vec::new();
+    for d in &sum.class_differs {
+        let st = &sum.steps[d.position];
+        let mut parts = vec![format!(
+            "{}: usually {} ({} of {})",
+            spread_id(prep, st),
+            d.usual.as_str(),
+            st.classes.of(d.usual),
+            sum.samples
+        )];
+        for c in [Class::Far, Class::Moderate, Class::Near, Class::Uphill] {
+            let list: Vec<&str> = d
+                .samples
+                .iter()
+                .filter(|(_, k)| *k == c)
+                .map(|(n, _)| n.as_str())
+                .collect();
+            if list.is_empty() {
+                continue;
+            }
+            let mut shown = list.iter().take(10).copied().collect::<Vec<_>>().join(", ");
+            if list.len() > 10 {
+                shown.push_str(&format!(" and {} more", list.len() - 10));
+            }
+            parts.push(format!("{} in {}: {shown}", c.as_str(), list.len()));
+        }
+        out.push(parts.join("; "));
+    }
+    out
+}
+
+/// The summary across samples as an aligned table.
+pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> String {
+    let u = o.unit;
+    let ul = u.label();
+    let c = &state.conditions;
+    let dash = if o.ascii { ".." } else { "…" };
+    let mut out = format!(
+        "{} — {} samples, {} route, {:.2} °C, pH {}, I = {} M\n\n",
+        prep.pathway.name,
+        sum.samples,
+        state.direction.as_str(),
+        c.temperature - 273.15,
+        c.ph,
+        c.ionic_strength
+    );
+    let w = sum
+        .steps
+        .iter()
+        .map(|s| spread_id(prep, s).chars().count())
+        .max()
+        .unwrap_or(4)
+        .max(4);
+    let head = format!(
+        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}",
+        "step",
+        format!("dG'° [{ul}]"),
+        format!("median dG' [{ul}]"),
+        "dG' 10–90 % range",
+        "far",
+        "moderate",
+        "near",
+        "uphill",
+        "largest drop",
+        "prime"
+    );
+    let width = head.chars().count();
+    out.push_str(&head);
+    out.push('\n');
+    out.push_str(&"-".repeat(width));
+    out.push('\n');
+    let n = sum.samples;
+    for s in &sum.steps {
+        out.push_str(&format!(
+            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}\n",
+            spread_id(prep, s),
+            clean(u.of(s.dg0)),
+            clean(u.of(s.median)),
+            format!("{:.2} {dash} {:.2}", clean(u.of(s.p10)), clean(u.of(s.p90))),
+            pct(s.classes.far, n),
+            pct(s.classes.moderate, n),
+            pct(s.classes.near, n),
+            pct(s.classes.uphill, n),
+            pct(s.largest, n),
+            pct(s.prime, n),
+        ));
+    }
+    out.push('\n');
+    for l in prime_lines(prep, sum) {
+        out.push_str(&l);
+        out.push('\n');
+    }
+    let changes = class_lines(prep, sum);
+    if !changes.is_empty() {
+        out.push_str("\nsteps whose class changes between samples:\n");
+        for l in changes {
+            out.push_str(&format!("  {l}\n"));
+        }
+    }
+    out.push_str(&format!(
+        "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; per-sample rows: --format csv or json\n"
+    ));
+    out.push_str(&format!("\n{}\n", crate::analysis::control::CAUTION));
+    out
+}
+
+/// The summary across samples as Markdown.
+pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) -> String {
+    let ul = u.label();
+    let n = sum.samples;
+    let mut out = format!(
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        prep.pathway.name,
+        state.direction.as_str(),
+        state.conditions.temperature - 273.15,
+        state.conditions.ph
+    );
+    for s in &sum.steps {
+        out.push_str(&format!(
+            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} |\n",
+            spread_id(prep, s),
+            clean(u.of(s.dg0)),
+            clean(u.of(s.median)),
+            clean(u.of(s.p10)),
+            clean(u.of(s.p90)),
+            pct(s.classes.far, n),
+            pct(s.classes.moderate, n),
+            pct(s.classes.near, n),
+            pct(s.classes.uphill, n),
+            pct(s.largest, n),
+            pct(s.prime, n),
+        ));
+    }
+    out.push('\n');
+    for l in prime_lines(prep, sum) {
+        out.push_str(&format!("- {l}\n"));
+    }
+    for l in class_lines(prep, sum) {
+        out.push_str(&format!("- {l}\n"));
+    }
+    out.push_str(&format!("\n_{}_\n", crate::analysis::control::CAUTION));
+    out
+}

@@ -1,0 +1,162 @@
+//! `dgpath plot`: the SVG parses back with the expected labels, the PNG
+//! decodes with text drawn, and the example plot in pathways/ is current.
+
+use resvg::{tiny_skia, usvg};
+use std::path::PathBuf;
+use std::process::{Command, Output};
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn dgpath(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_dgpath"))
+        .args(args)
+        .current_dir(root())
+        .env("NO_COLOR", "1")
+        .output()
+        .expect("the dgpath binary runs")
+}
+
+const PW: &str = "pathways/fermenter.toml";
+const DEMO: &str = "pathways/fermenter-samples.csv";
+const STEPS: [&str; 12] = [
+    "hxk", "pgi", "pfk", "ald", "tpi", "gapdh", "pgk", "pgm", "eno", "pyk", "pdc", "adh",
+];
+
+fn options() -> usvg::Options<'static> {
+    let mut opt = usvg::Options::default();
+    opt.fontdb_mut()
+        .load_font_data(dgpath::plot::FONT_DATA.to_vec());
+    opt
+}
+
+fn texts(g: &usvg::Group, out: &mut Vec<String>) {
+    for n in g.children() {
+        match n {
+            usvg::Node::Group(g) => texts(g, out),
+            usvg::Node::Text(t) => out.push(t.chunks().iter().map(|c| c.text()).collect()),
+            _ => {}
+        }
+    }
+}
+
+fn plot_svg(extra: &[&str]) -> (String, Vec<String>) {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("p.svg");
+    let mut args = vec!["plot", PW, "-o", out.to_str().unwrap()];
+    args.extend_from_slice(extra);
+    let o = dgpath(&args);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    let tree = usvg::Tree::from_str(&svg, &options()).expect("the SVG parses");
+    let mut t = Vec::new();
+    texts(tree.root(), &mut t);
+    (svg, t)
+}
+
+#[test]
+fn svg_parses_back_with_the_labels() {
+    let (_, t) = plot_svg(&[]);
+    for id in STEPS {
+        assert_eq!(
+            t.iter().filter(|x| *x == id).count(),
+            2,
+            "{id} labels both panels: {t:?}"
+        );
+    }
+    for want in [
+        "largest drop",
+        "coupled",
+        "actual dG'",
+        "standard dG'° (1 M each)",
+        "far",
+        "near ×2",
+    ] {
+        assert!(t.iter().any(|x| x == want), "'{want}' in {t:?}");
+    }
+    // One coupled group (gapdh + pgk): one bracket label per panel.
+    assert_eq!(t.iter().filter(|x| *x == "coupled").count(), 2);
+    assert!(
+        !t.iter().any(|x| x.contains("samples")),
+        "no samples panel without --samples"
+    );
+}
+
+#[test]
+fn samples_add_the_spread_panel() {
+    let (_, t) = plot_svg(&["--samples", DEMO]);
+    assert!(
+        t.iter()
+            .any(|x| x.starts_with("dG' per step across 12 samples")),
+        "{t:?}"
+    );
+    // Every step gets a far count; hxk is far in all twelve demo samples.
+    assert_eq!(
+        t.iter()
+            .filter(|x| x.starts_with("far ") && x.ends_with("/12"))
+            .count(),
+        12,
+        "{t:?}"
+    );
+    assert!(t.iter().any(|x| x == "far 12/12"));
+    for id in STEPS {
+        assert_eq!(t.iter().filter(|x| *x == id).count(), 3, "{id}");
+    }
+}
+
+#[test]
+fn png_decodes_and_has_text() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("p.png");
+    let o = dgpath(&["plot", PW, "-o", out.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let bytes = std::fs::read(&out).unwrap();
+    let png = tiny_skia::Pixmap::decode_png(&bytes).expect("a valid PNG");
+    let (svg, _) = plot_svg(&[]);
+    let tree = usvg::Tree::from_str(&svg, &options()).unwrap();
+    assert_eq!(
+        (png.width(), png.height()),
+        (tree.size().width() as u32, tree.size().height() as u32)
+    );
+    // The title is the only thing in the top 40 pixel rows: dark pixels there
+    // mean the bundled font was found and text was drawn.
+    let dark = (0..40)
+        .flat_map(|y| (0..png.width()).map(move |x| (x, y)))
+        .filter(|&(x, y)| {
+            png.pixel(x, y)
+                .is_some_and(|p| p.red() < 100 && p.alpha() > 200)
+        })
+        .count();
+    assert!(dark > 200, "title pixels: {dark}");
+}
+
+#[test]
+fn wrong_output_extension_is_a_clear_error() {
+    let o = dgpath(&["plot", PW, "-o", "profile.pdf"]);
+    assert_eq!(o.status.code(), Some(1));
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        e.contains("profile.pdf: the output must end in .svg or .png"),
+        "{e}"
+    );
+    assert!(!root().join("profile.pdf").exists());
+}
+
+/// Regenerates pathways/fermenter-profile.svg when it is stale, and fails so the change is seen.
+#[test]
+fn example_plot_is_current() {
+    let committed = root().join("pathways/fermenter-profile.svg");
+    let dir = tempfile::tempdir().unwrap();
+    let fresh = dir.path().join("fermenter-profile.svg");
+    let o = dgpath(&["plot", PW, "--samples", DEMO, "-o", fresh.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let new = std::fs::read_to_string(&fresh).unwrap();
+    let old = std::fs::read_to_string(&committed).unwrap_or_default();
+    if new != old {
+        std::fs::write(&committed, &new).unwrap();
+        panic!(
+            "pathways/fermenter-profile.svg was stale and has been regenerated; review it and commit it"
+        );
+    }
+}
