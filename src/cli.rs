@@ -244,13 +244,84 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()
     emit(&text)
 }
 
+/// `mdf FILE --samples TABLE`: one optimisation per sample (only held
+/// compounds and the conditions change between samples), without ranges.
+fn run_mdf_samples(prep: &Prepared, common: &Common, path: &Path, format: Format) -> Result<()> {
+    let base = state_from(prep, common)?;
+    let p = &prep.pathway;
+    let u = common.unit();
+    let route = prep.route(base.direction).map_err(|e| anyhow!("{e}"))?;
+    let mut rows: Vec<(String, analysis::mdf::Mdf)> = Vec::new();
+    for sample in dgpath::samples::SampleReader::open(path, p, &base.conc)? {
+        let sample = sample?;
+        let state = State {
+            conc: sample.conc,
+            ..base.clone()
+        };
+        let m = analysis::mdf::solve(prep, &state)
+            .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
+        rows.push((sample.name, m));
+    }
+    let ids = |m: &analysis::mdf::Mdf| -> Vec<String> {
+        m.bottlenecks
+            .iter()
+            .map(|&k| p.steps[route.steps[k].step].id.clone())
+            .collect()
+    };
+    let text = if format == Format::Json {
+        let list: Vec<serde_json::Value> = rows
+            .iter()
+            .map(|(name, m)| {
+                serde_json::json!({
+                    "sample": name,
+                    "mdf": report::clean(u.of(m.value)),
+                    "bottlenecks": ids(m),
+                })
+            })
+            .collect();
+        let doc = serde_json::json!({
+            "pathway": p.name,
+            "direction": base.direction.as_str(),
+            "energy_unit": u.label(),
+            "samples": list,
+        });
+        let mut s = serde_json::to_string_pretty(&doc)?;
+        s.push('\n');
+        s
+    } else {
+        let w = rows
+            .iter()
+            .map(|r| r.0.chars().count())
+            .max()
+            .unwrap_or(6)
+            .max(6);
+        let mut s = format!(
+            "{} — max-min driving force per sample ({} route)\n\n{:<w$}  {:>12}  bottlenecks\n",
+            p.name,
+            base.direction.as_str(),
+            "sample",
+            format!("MDF [{}]", u.label()),
+        );
+        for (name, m) in &rows {
+            s.push_str(&format!(
+                "{name:<w$}  {:>12.2}  {}\n",
+                report::clean(u.of(m.value)),
+                ids(m).join(", ")
+            ));
+        }
+        s.push_str("\nOnly compounds marked fixed (and the conditions) differ between samples in this optimisation; the others are chosen within their bounds.\n");
+        s
+    };
+    emit(&text)
+}
+
 /// Runs the driving-force optimisation (with concentration ranges) and prints it.
 pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
-    if common.samples.is_some() {
-        bail!("--samples is not available for mdf; run mdf once per sample with --set");
-    }
     if matches!(format, Format::Csv | Format::Md) {
         bail!("mdf writes --format table or --format json");
+    }
+    if let Some(path) = &common.samples {
+        return run_mdf_samples(prep, common, path, format);
     }
     let state = state_from(prep, common)?;
     let m = analysis::mdf::solve_with_ranges(prep, &state).map_err(|e| anyhow!("{e}"))?;
