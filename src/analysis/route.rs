@@ -136,6 +136,9 @@ fn problem(p: &Pathway, line: Option<usize>, message: String) -> Problem {
 
 /// Builds the route in one direction.
 pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
+    if p.route.is_empty() {
+        return Err(problem(p, None, "the main route has no steps; add steps that are neither side = true nor bypass_of".into()));
+    }
     let mut steps: Vec<RouteStep> = Vec::new();
     let mut unbypassed = Vec::new();
     match direction {
@@ -460,10 +463,14 @@ fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Dire
         }
     }
     for rs in steps.iter() {
-        if !(rs.times > 1e-9) || !rs.times.is_finite() {
+        if rs.times.is_nan() || rs.times <= 1e-9 || rs.times.is_infinite() {
             let st = &p.steps[rs.step];
-            let c = st.stoich.iter().map(|&(c, _)| c).find(|c| roles[*c] == Role::Intermediate).unwrap_or(st.stoich[0].0);
-            return Err(unbalanced(c, format!("step '{}' would have to make {} turns per pass", st.id, fmt_t(rs.times))));
+            let c = st.stoich.iter().map(|&(c, _)| c).find(|c| roles[*c] == Role::Intermediate);
+            let why = format!("step '{}' would have to make {} turns per pass", st.id, fmt_t(rs.times));
+            let Some(c) = c.or(st.stoich.first().map(|x| x.0)) else {
+                return Err(problem(p, Some(st.line), why));
+            };
+            return Err(unbalanced(c, why));
         }
     }
     Ok(())

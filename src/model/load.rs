@@ -46,7 +46,8 @@ fn io_message(e: &std::io::Error) -> String {
 
 /// Parses and checks pathway text; `file` names it in messages.
 pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
-    let mut cx = Cx { file: file.to_string(), src: text, problems: Vec::new() };
+    let line_starts = std::iter::once(0).chain(text.match_indices('\n').map(|(i, _)| i + 1)).collect();
+    let mut cx = Cx { file: file.to_string(), src: text, line_starts, problems: Vec::new() };
     let doc = match Document::parse(text) {
         Ok(d) => d,
         Err(e) => {
@@ -66,6 +67,9 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
 struct Cx<'s> {
     file: String,
     src: &'s str,
+    /// Byte offset where each line starts, so that finding a line is a
+    /// binary search rather than a scan from the top of the file.
+    line_starts: Vec<usize>,
     problems: Vec<Problem>,
 }
 
@@ -115,11 +119,14 @@ impl<'s> Cx<'s> {
     fn pos(&self, span: &Span) -> (Option<usize>, Option<usize>) {
         match span {
             Some(r) => {
-                let at = r.start.min(self.src.len());
-                let before = &self.src[..at];
-                let line = before.matches('\n').count() + 1;
-                let col = before.rsplit('\n').next().map(|s| s.chars().count() + 1);
-                (Some(line), col)
+                let mut at = r.start.min(self.src.len());
+                while !self.src.is_char_boundary(at) {
+                    at -= 1;
+                }
+                let line = self.line_starts.partition_point(|&start| start <= at);
+                let start = self.line_starts[line - 1];
+                let col = self.src[start..at].chars().count() + 1;
+                (Some(line), Some(col))
             }
             None => (None, None),
         }
@@ -344,6 +351,16 @@ impl<'s> Cx<'s> {
                 ] {
                     if v.is_finite() && v <= 0.0 {
                         self.err(Self::value_span(t, k), format!("conditions.{k} is at or below absolute zero; write e.g. \"30 C\""));
+                    }
+                }
+                for (k, v) in [("temperature", conditions.temperature), ("reference_temperature", reference.temperature)] {
+                    if v.is_finite() && v > MAX_TEMPERATURE {
+                        self.err(Self::value_span(t, k), format!("conditions.{k} is above {MAX_TEMPERATURE} K, far outside any cell; write e.g. \"30 C\""));
+                    }
+                }
+                for (k, v) in [("ph", conditions.ph), ("reference_ph", reference.ph)] {
+                    if t.get(k).is_some() && !(0.0..=14.0).contains(&v) {
+                        self.err(Self::value_span(t, k), format!("conditions.{k} is outside 0–14; write e.g. {k} = 7.0"));
                     }
                 }
                 for (k, v) in [("ionic_strength", conditions.ionic_strength), ("reference_ionic_strength", reference.ionic_strength)] {

@@ -11,6 +11,10 @@ pub use load::{load_file, load_str, MAX_FILE_BYTES};
 
 use std::fmt;
 
+/// Highest temperature (K) a file or option may state; far above any cell,
+/// low enough that RT and the Debye–Hückel fit stay finite.
+pub const MAX_TEMPERATURE: f64 = 1000.0;
+
 /// One mistake in an input, with where it is and how to fix it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Problem {
