@@ -1,1 +1,3 @@
+mod limits;
+mod properties;
 mod regressions;

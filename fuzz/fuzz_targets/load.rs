@@ -1,7 +1,7 @@
 //! Any text given as a pathway file: loading either fails with at least one
 //! problem that has a message, or succeeds; a loaded file is prepared, and a
-//! prepared one is analysed both ways and rendered in every report format.
-//! Nothing on the way may panic.
+//! prepared one is analysed both ways (or refused for overflow) and rendered
+//! in every report format. Nothing on the way may panic.
 #![no_main]
 
 use dgpath::analysis::{self, Direction};
@@ -37,7 +37,18 @@ fuzz_target!(|data: &[u8]| {
             assert!(analysis::analyze(&prep, &state).is_err());
             continue;
         }
-        let a = analysis::analyze(&prep, &state).expect("a prepared route analyses");
+        let a = match analysis::analyze(&prep, &state) {
+            Ok(a) => a,
+            Err(e) => {
+                // Only overflow may stop a prepared route from analysing.
+                assert!(e.message.contains("finite number"), "{e}");
+                continue;
+            }
+        };
+        assert!(
+            a.steps.iter().chain(&a.side).all(|s| s.dg.is_finite()),
+            "non-finite dG' passed the guard"
+        );
         assert_eq!(
             a.steps.len(),
             prep.route(direction).map(|r| r.steps.len()).unwrap_or(0)
