@@ -281,7 +281,7 @@ fn spec(branched: impl Strategy<Value = bool>) -> impl Strategy<Value = Spec> {
         .prop_map(|(b, ch, t, ph, lc)| build(&ch, b, t, ph, &lc))
 }
 
-const CASES: u32 = 96;
+const CASES: u32 = 256;
 
 proptest! {
     #![proptest_config(ProptestConfig::with_cases(CASES))]
