@@ -277,3 +277,60 @@ fn deeply_dotted_keys_do_not_overflow_the_stack() {
         );
     }
 }
+
+#[test]
+fn files_with_too_many_steps_compounds_or_terms_are_refused() {
+    // The mass balance is a dense matrix: 8000 chained steps took 12 s and
+    // 460 MB in a release build, and a 50 MB file could run out of memory.
+    let mut text = String::from(
+        "format = 1\n[pathway]\nname = \"big\"\n[conditions]\ntemperature = \"30 C\"\n[compounds]\n",
+    );
+    for i in 0..=model::MAX_STEPS + 1 {
+        text.push_str(&format!("c{i} = {{ conc = \"1 mM\" }}\n"));
+    }
+    let compounds_end = text.len();
+    for i in 0..=model::MAX_STEPS {
+        text.push_str(&format!(
+            "[[steps]]\nid = \"s{i}\"\nreaction = \"c{i} -> c{}\"\ndg0 = -1\n",
+            i + 1
+        ));
+    }
+    let e = load_problems(&text);
+    assert!(
+        e.contains("r.toml:2009: the file has 2001 [[steps]], over the limit of 2000"),
+        "{}",
+        &e[..e.len().min(300)]
+    );
+
+    let mut many = text[..compounds_end].to_string();
+    for i in model::MAX_STEPS + 2..=model::MAX_COMPOUNDS {
+        many.push_str(&format!("c{i} = {{ conc = \"1 mM\" }}\n"));
+    }
+    many.push_str("[[steps]]\nid = \"s1\"\nreaction = \"c0 -> c1\"\ndg0 = -1\n");
+    let e = load_problems(&many);
+    assert!(
+        e.contains("r.toml:6: [compounds] declares 5001 compounds, over the limit of 5000"),
+        "{e}"
+    );
+
+    let terms: Vec<String> = (1..=reaction::MAX_TERMS).map(|i| format!("c{i}")).collect();
+    let e = reaction::parse(&format!("c0 -> {}", terms.join(" + "))).unwrap_err();
+    assert!(e.contains("has 101 terms, over the limit of 100"), "{e}");
+}
+
+#[test]
+fn long_unknown_ids_get_no_suggestion_but_a_message() {
+    // Similarity of two long strings costs the product of their lengths.
+    let long = "q".repeat(200_000);
+    let text = SMALL
+        .replace("a = { conc", &format!("{long}a = {{ conc"))
+        .replace("\"a -> b\"", &format!("\"{long}b -> b\""));
+    let e = load_problems(&text);
+    assert!(
+        e.contains("unknown compound 'qqqq") && e.contains("declare it under [compounds]"),
+        "{}",
+        &e[..300]
+    );
+    assert!(!e.contains("did you mean"));
+    assert_eq!(model::suggest("atq", ["atp", &long]), Some("atp"));
+}

@@ -399,6 +399,13 @@ impl<'s> Cx<'s> {
                 "missing [compounds] table; declare every compound, e.g. glc = { name = \"glucose\", conc = \"5 mM\" }".into(),
             ),
             None => {}
+            Some(t) if t.len() > MAX_COMPOUNDS => {
+                self.err(
+                    Self::table_span(root, "compounds"),
+                    format!("[compounds] declares {} compounds, over the limit of {MAX_COMPOUNDS}; split the file into smaller pathways", t.len()),
+                );
+                return None;
+            }
             Some(t) => {
                 for (id, item) in t.iter() {
                     let kspan = Self::key_span(t, id);
@@ -413,6 +420,13 @@ impl<'s> Cx<'s> {
         match root.get("steps") {
             None => self.err(Some(0..0), "no [[steps]]; add at least one [[steps]] with id, reaction and dg0".into()),
             Some(item) => match item.as_array_of_tables() {
+                Some(arr) if arr.len() > MAX_STEPS => {
+                    self.err(
+                        item.span(),
+                        format!("the file has {} [[steps]], over the limit of {MAX_STEPS}; split it into smaller pathways", arr.len()),
+                    );
+                    return None;
+                }
                 Some(arr) => {
                     for t in arr.iter() {
                         if let Some(s) = self.raw_step(t) {

@@ -20,6 +20,9 @@ pub struct Equation {
     pub right: Vec<Term>,
 }
 
+/// Most terms one reaction may have, both sides together.
+pub const MAX_TERMS: usize = 100;
+
 const ARROWS: [&str; 5] = ["<=>", "<->", "->", "=>", "="];
 
 /// True for ids of the form `[A-Za-z][A-Za-z0-9_]*`.
@@ -49,6 +52,13 @@ pub fn parse(text: &str) -> Result<Equation, String> {
     }
     let left = side(l, text)?;
     let right = side(r, text)?;
+    if left.len() + right.len() > MAX_TERMS {
+        return Err(format!(
+            "reaction '{}…' has {} terms, over the limit of {MAX_TERMS}; write it as several steps",
+            text.chars().take(40).collect::<String>(),
+            left.len() + right.len()
+        ));
+    }
     if left.is_empty() || right.is_empty() {
         return Err(format!(
             "reaction '{text}' needs compounds on both sides of the arrow"
