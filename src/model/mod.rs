@@ -218,6 +218,14 @@ impl Pathway {
     }
 }
 
+/// The text as quoted in a message: long inputs are cut after 40 characters.
+pub(crate) fn shorten(t: &str) -> String {
+    match t.char_indices().nth(40) {
+        Some((i, _)) => format!("{}…", &t[..i]),
+        None => t.to_string(),
+    }
+}
+
 /// The closest of `candidates` to `word`, if it is close enough to suggest.
 pub fn suggest<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
     // Similarity costs the product of the lengths; ids this long are not typos.

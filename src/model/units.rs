@@ -2,6 +2,8 @@
 //! command line: energies, concentrations, temperatures and ionic strength.
 //! Everything is converted to SI (J/mol, mol/L, K) here and nowhere else.
 
+use super::shorten;
+
 /// A quantity kind, for messages and for choosing the default unit of a bare number.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Kind {
@@ -84,14 +86,6 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         Ok(v) if n > 0 && v.is_finite() => Ok((v, t[n..].trim())),
         Ok(_) if n > 0 => Err(format!("'{}' is too large to work with", shorten(t))),
         _ => Err(format!("'{}' does not start with a number", shorten(t))),
-    }
-}
-
-/// The text as quoted in a message: long inputs are cut after 40 characters.
-fn shorten(t: &str) -> String {
-    match t.char_indices().nth(40) {
-        Some((i, _)) => format!("{}…", &t[..i]),
-        None => t.to_string(),
     }
 }
 
