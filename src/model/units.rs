@@ -119,7 +119,11 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
         },
     };
     if !si.is_finite() {
-        return Err(format!("'{}' is too large to work with; write e.g. {}", shorten(text.trim()), kind.example()));
+        return Err(format!(
+            "'{}' is too large to work with; write e.g. {}",
+            shorten(text.trim()),
+            kind.example()
+        ));
     }
     Ok(si)
 }
