@@ -157,6 +157,18 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
         if s.conditions.temperature <= 0.0 {
             bail!("--temperature: {t} is at or below absolute zero; write e.g. \"37 C\"");
         }
+        if s.conditions.temperature > model::MAX_TEMPERATURE {
+            bail!(
+                "--temperature: {t} is above {} K, far outside any cell; write e.g. \"37 C\"",
+                model::MAX_TEMPERATURE
+            );
+        }
+        if s.conditions.temperature > model::MAX_TEMPERATURE {
+            bail!(
+                "--temperature: {t} is above {} K, far outside any cell; write e.g. \"37 C\"",
+                model::MAX_TEMPERATURE
+            );
+        }
     }
     if let Some(ph) = c.ph {
         if !(0.0..=14.0).contains(&ph) {

@@ -296,7 +296,10 @@ fn mdf_per_sample_matches_mdf_with_set() {
     assert_eq!(rows.len(), 2);
     for (row, set) in rows.iter().zip(["s0=20uM", "s0=5mM"]) {
         let single = mdf_json("mdf_fixed.toml", &["--set", set]);
-        assert!((num(&row["mdf"]) - num(&single["mdf"])).abs() < 1e-6, "{row} vs {single}");
+        assert!(
+            (num(&row["mdf"]) - num(&single["mdf"])).abs() < 1e-6,
+            "{row} vs {single}"
+        );
         assert_eq!(row["bottlenecks"], single["bottlenecks"]);
     }
     // More substrate held at the top of the chain gives more driving force.

@@ -1,4 +1,7 @@
+mod limits;
 mod mdf;
 mod plot;
+mod properties;
+mod regressions;
 mod samples;
 mod uncertainty;

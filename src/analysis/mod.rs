@@ -198,6 +198,7 @@ pub const Z95: f64 = 1.959964;
 pub fn analyze(prep: &Prepared, state: &State) -> Result<Analysis, Problem> {
     let route = prep.route(state.direction).map_err(Clone::clone)?;
     let mut a = analyze_route(&prep.pathway, route, state);
+    finite(&prep.pathway, &a)?;
     if state.direction == Direction::Reverse {
         let fwd_state = State {
             direction: Direction::Forward,
@@ -220,6 +221,35 @@ pub fn analyze(prep: &Prepared, state: &State) -> Result<Analysis, Problem> {
         }
     }
     Ok(a)
+}
+
+/// Refuses results that overflowed (dg0, coefficients, protons or turns far
+/// too large), naming the first step where it happened.
+fn finite(p: &Pathway, a: &Analysis) -> Result<(), Problem> {
+    let ok = |s: &StepResult| s.dg.is_finite() && s.dg0.is_finite() && s.weighted().is_finite();
+    if let Some(s) = a.steps.iter().chain(&a.side).find(|s| !ok(s)) {
+        let st = &p.steps[s.step];
+        let message = format!(
+            "step '{}': dG' does not come out as a finite number; check its dg0, coefficients, protons, times and concentrations for values far too large or too small",
+            st.id
+        );
+        return Err(Problem {
+            file: p.file.clone(),
+            line: Some(st.line),
+            column: None,
+            message,
+        });
+    }
+    if !(a.total_dg.is_finite() && a.total_dg0.is_finite()) {
+        let message = "the route's total dG' does not come out as a finite number; check dg0, coefficients and times for values far too large".to_string();
+        return Err(Problem {
+            file: p.file.clone(),
+            line: None,
+            column: None,
+            message,
+        });
+    }
+    Ok(())
 }
 
 fn step_result(

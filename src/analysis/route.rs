@@ -146,6 +146,14 @@ fn problem(p: &Pathway, line: Option<usize>, message: String) -> Problem {
 
 /// Builds the route in one direction.
 pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
+    if p.route.is_empty() {
+        return Err(problem(
+            p,
+            None,
+            "the main route has no steps; add steps that are neither side = true nor bypass_of"
+                .into(),
+        ));
+    }
     let mut steps: Vec<RouteStep> = Vec::new();
     let mut unbypassed = Vec::new();
     match direction {
@@ -531,20 +539,20 @@ fn balance(
     for rs in steps.iter() {
         if rs.times.is_nan() || rs.times <= 1e-9 || rs.times.is_infinite() {
             let st = &p.steps[rs.step];
+            let c = st
+                .stoich
+                .iter()
+                .map(|&(c, _)| c)
+                .find(|c| roles[*c] == Role::Intermediate);
             let why = format!(
                 "step '{}' would have to make {} turns per pass",
                 st.id,
                 fmt_t(rs.times)
             );
-            let culprit = st
-                .stoich
-                .iter()
-                .map(|&(c, _)| c)
-                .find(|c| roles[*c] == Role::Intermediate);
-            return Err(match culprit {
-                Some(c) => unbalanced(c, why),
-                None => problem(p, Some(st.line), why),
-            });
+            let Some(c) = c.or(st.stoich.first().map(|x| x.0)) else {
+                return Err(problem(p, Some(st.line), why));
+            };
+            return Err(unbalanced(c, why));
         }
     }
     Ok(())

@@ -57,9 +57,13 @@ fn io_message(e: &std::io::Error) -> String {
 
 /// Parses and checks pathway text; `file` names it in messages.
 pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
+    let line_starts = std::iter::once(0)
+        .chain(text.match_indices('\n').map(|(i, _)| i + 1))
+        .collect();
     let mut cx = Cx {
         file: file.to_string(),
         src: text,
+        line_starts,
         problems: Vec::new(),
     };
     let doc = match Document::parse(text) {
@@ -81,6 +85,9 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
 struct Cx<'s> {
     file: String,
     src: &'s str,
+    /// Byte offset where each line starts, so that finding a line is a
+    /// binary search rather than a scan from the top of the file.
+    line_starts: Vec<usize>,
     problems: Vec<Problem>,
 }
 
@@ -159,11 +166,14 @@ impl<'s> Cx<'s> {
     fn pos(&self, span: &Span) -> (Option<usize>, Option<usize>) {
         match span {
             Some(r) => {
-                let at = r.start.min(self.src.len());
-                let before = &self.src[..at];
-                let line = before.matches('\n').count() + 1;
-                let col = before.rsplit('\n').next().map(|s| s.chars().count() + 1);
-                (Some(line), col)
+                let mut at = r.start.min(self.src.len());
+                while !self.src.is_char_boundary(at) {
+                    at -= 1;
+                }
+                let line = self.line_starts.partition_point(|&start| start <= at);
+                let start = self.line_starts[line - 1];
+                let col = self.src[start..at].chars().count() + 1;
+                (Some(line), Some(col))
             }
             None => (None, None),
         }
@@ -468,6 +478,22 @@ impl<'s> Cx<'s> {
                     }
                 }
                 for (k, v) in [
+                    ("temperature", conditions.temperature),
+                    ("reference_temperature", reference.temperature),
+                ] {
+                    if v.is_finite() && v > MAX_TEMPERATURE {
+                        self.err(Self::value_span(t, k), format!("conditions.{k} is above {MAX_TEMPERATURE} K, far outside any cell; write e.g. \"30 C\""));
+                    }
+                }
+                for (k, v) in [("ph", conditions.ph), ("reference_ph", reference.ph)] {
+                    if t.get(k).is_some() && !(0.0..=14.0).contains(&v) {
+                        self.err(
+                            Self::value_span(t, k),
+                            format!("conditions.{k} is outside 0–14; write e.g. {k} = 7.0"),
+                        );
+                    }
+                }
+                for (k, v) in [
                     ("ionic_strength", conditions.ionic_strength),
                     ("reference_ionic_strength", reference.ionic_strength),
                 ] {
@@ -515,6 +541,13 @@ impl<'s> Cx<'s> {
                 "missing [compounds] table; declare every compound, e.g. glc = { name = \"glucose\", conc = \"5 mM\" }".into(),
             ),
             None => {}
+            Some(t) if t.len() > MAX_COMPOUNDS => {
+                self.err(
+                    Self::table_span(root, "compounds"),
+                    format!("[compounds] declares {} compounds, over the limit of {MAX_COMPOUNDS}; split the file into smaller pathways", t.len()),
+                );
+                return None;
+            }
             Some(t) => {
                 for (id, item) in t.iter() {
                     let kspan = Self::key_span(t, id);
@@ -532,6 +565,13 @@ impl<'s> Cx<'s> {
                 "no [[steps]]; add at least one [[steps]] with id, reaction and dg0".into(),
             ),
             Some(item) => match item.as_array_of_tables() {
+                Some(arr) if arr.len() > MAX_STEPS => {
+                    self.err(
+                        item.span(),
+                        format!("the file has {} [[steps]], over the limit of {MAX_STEPS}; split it into smaller pathways", arr.len()),
+                    );
+                    return None;
+                }
                 Some(arr) => {
                     for t in arr.iter() {
                         if let Some(s) = self.raw_step(t) {

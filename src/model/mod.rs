@@ -11,6 +11,14 @@ pub use load::{MAX_FILE_BYTES, load_file, load_str};
 
 use std::fmt;
 
+/// Highest temperature (K) a file or option may state; far above any cell,
+/// low enough that RT and the Debye–Hückel fit stay finite.
+pub const MAX_TEMPERATURE: f64 = 1000.0;
+/// Most steps a pathway file may have (the mass balance is a dense matrix).
+pub const MAX_STEPS: usize = 2000;
+/// Most compounds a pathway file may declare.
+pub const MAX_COMPOUNDS: usize = 5000;
+
 /// One mistake in an input, with where it is and how to fix it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Problem {
@@ -217,10 +225,23 @@ impl Pathway {
     }
 }
 
+/// The text as quoted in a message: long inputs are cut after 40 characters.
+pub(crate) fn shorten(t: &str) -> String {
+    match t.char_indices().nth(40) {
+        Some((i, _)) => format!("{}…", &t[..i]),
+        None => t.to_string(),
+    }
+}
+
 /// The closest of `candidates` to `word`, if it is close enough to suggest.
 pub fn suggest<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
+    // Similarity costs the product of the lengths; ids this long are not typos.
+    const LONGEST: usize = 64;
+    if word.len() > LONGEST {
+        return None;
+    }
     let mut best: Option<(f64, &str)> = None;
-    for c in candidates {
+    for c in candidates.into_iter().filter(|c| c.len() <= LONGEST) {
         let s = strsim::jaro_winkler(&word.to_lowercase(), &c.to_lowercase());
         if s > 0.7 && best.is_none_or(|(b, _)| s > b) {
             best = Some((s, c));

@@ -20,6 +20,9 @@ pub struct Equation {
     pub right: Vec<Term>,
 }
 
+/// Most terms one reaction may have, both sides together.
+pub const MAX_TERMS: usize = 100;
+
 const ARROWS: [&str; 5] = ["<=>", "<->", "->", "=>", "="];
 
 /// True for ids of the form `[A-Za-z][A-Za-z0-9_]*`.
@@ -31,6 +34,7 @@ pub fn valid_id(id: &str) -> bool {
 
 /// Parses an equation; the error says what is wrong and what to write instead.
 pub fn parse(text: &str) -> Result<Equation, String> {
+    let shown = super::shorten(text);
     let mut found: Option<(usize, &str)> = None;
     for arrow in ARROWS {
         if let Some(pos) = text.find(arrow) {
@@ -40,20 +44,26 @@ pub fn parse(text: &str) -> Result<Equation, String> {
     }
     let Some((pos, arrow)) = found else {
         return Err(format!(
-            "reaction '{text}' has no arrow; write it as \"a + b -> c\" (-> => <-> <=> or = all work)"
+            "reaction '{shown}' has no arrow; write it as \"a + b -> c\" (-> => <-> <=> or = all work)"
         ));
     };
     let (l, r) = (&text[..pos], &text[pos + arrow.len()..]);
     if ARROWS.iter().any(|a| r.contains(a)) {
         return Err(format!(
-            "reaction '{text}' has more than one arrow; write exactly one"
+            "reaction '{shown}' has more than one arrow; write exactly one"
         ));
     }
-    let left = side(l, text)?;
-    let right = side(r, text)?;
+    let left = side(l, &shown)?;
+    let right = side(r, &shown)?;
+    if left.len() + right.len() > MAX_TERMS {
+        return Err(format!(
+            "reaction '{shown}' has {} terms, over the limit of {MAX_TERMS}; write it as several steps",
+            left.len() + right.len()
+        ));
+    }
     if left.is_empty() || right.is_empty() {
         return Err(format!(
-            "reaction '{text}' needs compounds on both sides of the arrow"
+            "reaction '{shown}' needs compounds on both sides of the arrow"
         ));
     }
     Ok(Equation { left, right })

@@ -2,6 +2,8 @@
 //! command line: energies, concentrations, temperatures and ionic strength.
 //! Everything is converted to SI (J/mol, mol/L, K) here and nowhere else.
 
+use super::shorten;
+
 /// A quantity kind, for messages and for choosing the default unit of a bare number.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Kind {
@@ -37,33 +39,53 @@ impl Kind {
     }
 }
 
+/// Length of the longest prefix of `b` that is a decimal number:
+/// `[+-] digits [. digits] [(e|E) [+-] digits]` with at least one digit
+/// before the exponent. One pass, so a long string costs linear time.
+fn number_len(b: &[u8]) -> usize {
+    let digits = |mut i: usize| {
+        while i < b.len() && b[i].is_ascii_digit() {
+            i += 1;
+        }
+        i
+    };
+    let mut i = 0;
+    if i < b.len() && (b[i] == b'+' || b[i] == b'-') {
+        i += 1;
+    }
+    let int_end = digits(i);
+    let mut end = int_end;
+    let mut any = int_end > i;
+    if end < b.len() && b[end] == b'.' {
+        let frac_end = digits(end + 1);
+        any |= frac_end > end + 1;
+        end = frac_end;
+    }
+    if !any {
+        return 0;
+    }
+    if end < b.len() && (b[end] == b'e' || b[end] == b'E') {
+        let mut j = end + 1;
+        if j < b.len() && (b[j] == b'+' || b[j] == b'-') {
+            j += 1;
+        }
+        let exp_end = digits(j);
+        if exp_end > j {
+            end = exp_end;
+        }
+    }
+    end
+}
+
 /// Splits "12.5 mM" into the number and the unit text (which may be empty).
 fn split(text: &str) -> Result<(f64, &str), String> {
     let t = text.trim();
-    // The longest prefix that parses as a number is the number.
-    let bytes = t.as_bytes();
-    let mut end = 0;
-    let mut best: Option<(f64, usize)> = None;
-    while end < bytes.len() {
-        end += 1;
-        if !t.is_char_boundary(end) {
-            continue;
-        }
-        let head = &t[..end];
-        // Do not let "1e" or "inf"/"nan" count as numbers.
-        if head
-            .chars()
-            .any(|c| c.is_ascii_alphabetic() && c != 'e' && c != 'E')
-        {
-            break;
-        }
-        if let Ok(v) = head.parse::<f64>() {
-            best = Some((v, end));
-        }
-    }
-    match best {
-        Some((v, n)) if v.is_finite() => Ok((v, t[n..].trim())),
-        _ => Err(format!("'{t}' does not start with a number")),
+    // The longest prefix that is a number is the number ("inf" and "nan" are not).
+    let n = number_len(t.as_bytes());
+    match t[..n].parse::<f64>() {
+        Ok(v) if n > 0 && v.is_finite() => Ok((v, t[n..].trim())),
+        Ok(_) if n > 0 => Err(format!("'{}' is too large to work with", shorten(t))),
+        _ => Err(format!("'{}' does not start with a number", shorten(t))),
     }
 }
 
@@ -96,6 +118,13 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
             _ => return Err(unknown_unit(unit, kind)),
         },
     };
+    if !si.is_finite() {
+        return Err(format!(
+            "'{}' is too large to work with; write e.g. {}",
+            shorten(text.trim()),
+            kind.example()
+        ));
+    }
     Ok(si)
 }
 
@@ -127,7 +156,7 @@ pub fn from_number(v: f64, kind: Kind) -> Result<f64, String> {
 }
 
 fn unknown_unit(unit: &str, kind: Kind) -> String {
-    format!("unknown unit '{unit}'; use {}", kind.units())
+    format!("unknown unit '{}'; use {}", shorten(unit), kind.units())
 }
 
 fn fmt_num(v: f64) -> String {
