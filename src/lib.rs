@@ -13,6 +13,7 @@ pub mod model;
 pub mod report;
 pub mod scenario;
 pub mod thermo;
+pub mod tui;
 
 /// The bundled demo pathway (an invented fermenter scenario).
 pub const DEMO: &str = include_str!("../pathways/fermenter.toml");
