@@ -362,6 +362,8 @@ impl App {
             },
             Mode::ConfirmOverwrite => match key.code {
                 KeyCode::Char('y') | KeyCode::Char('Y') => Some(Message::Overwrite(true)),
+                // A space (as between words of a key script) answers nothing.
+                KeyCode::Char(' ') => None,
                 _ => Some(Message::Overwrite(false)),
             },
             Mode::Normal | Mode::ConfirmQuit => self.normal_message(key, ctrl),

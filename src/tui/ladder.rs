@@ -5,7 +5,7 @@
 //! it on the same scale. Pure: it turns an `App` into lines for a given size.
 
 use super::app::App;
-use super::view::{Theme, fit};
+use super::view::{Theme, fit, tenth};
 use ratatui::style::{Modifier, Style};
 use ratatui::text::{Line, Span};
 
@@ -107,14 +107,29 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         Span::styled(
             format!(
                 "{:<w$}",
-                format!("dG' {:.0}…{:.0} {}", u.of(hi), u.of(lo), u.label()),
+                format!(
+                    "{} {} {:.0} {} {:.0}",
+                    if tw >= 20 { "cumulative dG'" } else { "dG'" },
+                    u.label(),
+                    u.of(hi),
+                    if app.opts.ascii { "..." } else { "…" },
+                    u.of(lo)
+                ),
                 w = 1 + idw + 1 + tw + 1 + valw
             ),
             t.bold(),
         ),
         Span::raw("  "),
         Span::styled(
-            fit("dG'° at the conditions", tw + 1 + valw, app.opts.ascii),
+            fit(
+                if app.opts.ascii {
+                    "dG'o at the conditions"
+                } else {
+                    "dG'° at the conditions"
+                },
+                tw + 1 + valw,
+                app.opts.ascii,
+            ),
             t.dim(),
         ),
     ]);
@@ -185,7 +200,7 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         ));
         let mark = if largest { g.mark } else { " " };
         spans.push(Span::styled(
-            format!("{:>valw$.1}", u.of(s.cumulative)),
+            format!("{:>valw$.1}", tenth(u.of(s.cumulative))),
             if largest { t.bold() } else { Style::default() },
         ));
         spans.push(Span::styled(format!("{mark} "), t.bold()));
@@ -194,7 +209,7 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
             t.dim(),
         ));
         spans.push(Span::styled(
-            format!("{:>valw$.1}", u.of(s.cumulative_dg0)),
+            format!("{:>valw$.1}", tenth(u.of(s.cumulative_dg0))),
             t.dim(),
         ));
         out.push(Line::from(spans));

@@ -106,6 +106,12 @@ pub fn fit(s: &str, w: usize, ascii: bool) -> String {
     out
 }
 
+/// Rounds to 0.1 without printing "-0.0".
+pub fn tenth(x: f64) -> f64 {
+    let r = (x * 10.0).round() / 10.0;
+    if r == 0.0 { 0.0 } else { r }
+}
+
 fn pad(s: &str, w: usize, ascii: bool) -> String {
     format!("{:<w$}", fit(s, w, ascii))
 }
@@ -131,8 +137,8 @@ pub fn render(app: &App, area: Rect, buf: &mut Buffer) {
         Constraint::Length(1),
     ])
     .areas(area);
-    let rows = app.step_rows() as u16;
-    let top_h = (rows + 3).min((main.height * 55 / 100).max(8));
+    let rows = (app.step_rows().max(app.pathway().compounds.len()) as u16).saturating_add(3);
+    let top_h = rows.min((main.height * 55 / 100).max(8));
     let [top, bottom] =
         Layout::vertical([Constraint::Length(top_h), Constraint::Min(0)]).areas(main);
     let comp_w = if area.width >= 110 {
@@ -154,6 +160,35 @@ pub fn render(app: &App, area: Rect, buf: &mut Buffer) {
     status_line(app, &t, status, buf);
     if app.mode == Mode::Help {
         help_overlay(app, &t, area, buf);
+    }
+    if app.opts.ascii {
+        asciify(area, buf);
+    }
+}
+
+/// Last guard of `--ascii`: every cell that is not ASCII gets a stand-in.
+fn asciify(area: Rect, buf: &mut Buffer) {
+    for y in area.top()..area.bottom() {
+        for x in area.left()..area.right() {
+            let cell = &mut buf[(x, y)];
+            if cell.symbol().is_ascii() {
+                continue;
+            }
+            let c = match cell.symbol() {
+                "°" => "o",
+                "·" | "│" => "|",
+                "—" | "−" | "─" => "-",
+                "×" => "x",
+                "÷" => "/",
+                "±" => "~",
+                "µ" | "μ" => "u",
+                "…" => "~",
+                "→" => ">",
+                "⇌" => "=",
+                _ => "?",
+            };
+            cell.set_symbol(c);
+        }
     }
 }
 
@@ -295,7 +330,11 @@ fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             spans.push(Span::styled(pad(&enz, enzw, ascii) + " ", row_style));
         }
         spans.push(Span::styled(
-            format!("{:>dgw$.1}{:>dgw$.1}", u.of(s.dg0), u.of(s.dg)),
+            format!(
+                "{:>dgw$.1}{:>dgw$.1}",
+                tenth(u.of(s.dg0)),
+                tenth(u.of(s.dg))
+            ),
             row_style,
         ));
         let turns = if side {
@@ -363,7 +402,7 @@ fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let inner = b.inner(area);
     b.render(area, buf);
     let w = inner.width as usize;
-    let compact = w < 36;
+    let compact = w < 40;
     let idw = p
         .compounds
         .iter()
@@ -535,11 +574,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
         }
         if drives {
             spans.push(Span::styled(
-                if ascii {
-                    "  <- largest term"
-                } else {
-                    "  ◀ largest term"
-                },
+                if ascii { " <- largest" } else { " ◀ largest" },
                 t.bold(),
             ));
         }
@@ -547,7 +582,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     }
     let sd = s
         .dg_sd
-        .map(|sd| format!(" ± {:.2}", u.of(sd)))
+        .map(|sd| format!(" {} {:.2}", if ascii { "+/-" } else { "±" }, u.of(sd)))
         .unwrap_or_default();
     out.push(Line::from(vec![
         Span::raw("  "),
@@ -594,6 +629,27 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             "verdict: none (only far steps get one)",
             t.dim(),
         ));
+    }
+    if let Some(nb) = a
+        .needs_bypass
+        .iter()
+        .find(|nb| a.steps.get(nb.position).is_some_and(|x| std::ptr::eq(x, s)))
+    {
+        out.push(Line::styled(
+            format!(
+                "reversed and uphill with no bypass: lacks {:.2} {ul} per turn",
+                u.of(nb.lacks)
+            ),
+            t.warn(),
+        ));
+    }
+    if let (Some(cp), Some(f)) = (a.counterpart, s.replaces)
+        && a.steps.get(cp).is_some_and(|x| std::ptr::eq(x, s))
+    {
+        out.push(Line::from(format!(
+            "bypass for {}, the forward route's committed step",
+            p.steps[f].id
+        )));
     }
     if let Some(g) = a.groups.iter().find(|g| {
         g.members
@@ -776,7 +832,7 @@ pub const KEYS: &[(&str, &str)] = &[
 ];
 
 fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
-    let w = area.width.min(76);
+    let w = area.width.min(84);
     let h = (KEYS.len() as u16 + 4).min(area.height);
     let r = Rect {
         x: area.x + (area.width - w) / 2,
