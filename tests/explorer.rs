@@ -324,6 +324,51 @@ fn the_largest_drop_row_is_bold_and_marked() {
 }
 
 #[test]
+fn without_colour_no_cell_carries_a_colour() {
+    // NO_COLOR turns `color` off; meaning must then rest on symbols and modifiers.
+    let mut app = demo();
+    keys(&mut app, "Tab Down +");
+    let buf = export::render_buffer(&app, 120, 36);
+    let coloured = buf
+        .content()
+        .iter()
+        .filter(|c| c.fg != ratatui::style::Color::Reset || c.bg != ratatui::style::Color::Reset)
+        .count();
+    assert_eq!(coloured, 0);
+    let text = export::to_text(&buf);
+    assert!(
+        text.contains("g6p      2.39 mM* "),
+        "edited value marked by a star:\n{text}"
+    );
+    assert!(text.contains("● unsaved"));
+}
+
+#[test]
+fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
+    let bin = env!("CARGO_BIN_EXE_dgpath");
+    let root = env!("CARGO_MANIFEST_DIR");
+    let out = std::process::Command::new(bin)
+        .args(["explore", "pathways/fermenter.toml"])
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("needs a terminal") && err.contains("dgpath report"),
+        "{err}"
+    );
+    assert!(out.stdout.is_empty(), "no screen drawn into a pipe");
+    let out = std::process::Command::new(bin)
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("pdc ◀largest"), "{text}");
+}
+
+#[test]
 fn snapshot_overview() {
     insta::assert_snapshot!("overview_120x36", screen(&demo(), 120, 36));
 }

@@ -110,17 +110,19 @@ impl Drop for Tmux {
 
 /// The dG' column of a step row in the step list.
 fn dg_on_screen(screen: &str, id: &str) -> f64 {
+    let words = |l: &str| -> Vec<String> {
+        l.split(|c: char| c == '│' || c.is_whitespace())
+            .filter(|w| !w.is_empty())
+            .map(String::from)
+            .collect()
+    };
+    // Rows read "▶ pfk  phosphofru…  -15.0  -11.1 ...": the id is among the first two words.
     let line = screen
         .lines()
-        .find(|l| {
-            l.split_whitespace().any(|w| w == id) && l.contains('%')
-                || l.split_whitespace().nth(1) == Some(id)
-        })
+        .map(words)
+        .find(|w| w.iter().take(2).any(|x| x == id))
         .unwrap_or_else(|| panic!("no row for {id}:\n{screen}"));
-    let nums: Vec<f64> = line
-        .split(|c: char| c == '│' || c.is_whitespace())
-        .filter_map(|w| w.parse::<f64>().ok())
-        .collect();
+    let nums: Vec<f64> = line.iter().filter_map(|w| w.parse::<f64>().ok()).collect();
     nums[1]
 }
 
