@@ -21,6 +21,7 @@ struct Glyphs {
     mid: char,
     close: char,
     mark: &'static str,
+    join: char,
 }
 
 const UNICODE: Glyphs = Glyphs {
@@ -34,6 +35,7 @@ const UNICODE: Glyphs = Glyphs {
     mid: '│',
     close: '└',
     mark: "◀",
+    join: '┊',
 };
 
 const ASCII: Glyphs = Glyphs {
@@ -47,6 +49,7 @@ const ASCII: Glyphs = Glyphs {
     mid: '|',
     close: '\\',
     mark: "<",
+    join: ':',
 };
 
 /// Column of energy `e` on a track `w` cells wide spanning [lo, hi] (hi on the left).
@@ -141,7 +144,27 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
     } else {
         sel.saturating_sub(rows / 2).min(n - rows)
     };
+    // On a tall pane, a connector row between rungs shows where the next drop starts.
+    let spaced = rows + 1 >= 2 * n;
     for k in first..(first + rows).min(n) {
+        if spaced && k > first && walk_end.is_none_or(|w| k <= w) {
+            let prev = &a.steps[k - 1];
+            let join = |e: f64| -> String {
+                let c = col(e, lo, hi, tw);
+                (0..tw).map(|x| if x == c { g.join } else { ' ' }).collect()
+            };
+            let inside = a
+                .groups
+                .iter()
+                .any(|gr| gr.members.contains(&(k - 1)) && gr.members.contains(&k));
+            out.push(Line::from(vec![
+                Span::styled(if inside { g.mid } else { ' ' }.to_string(), t.dim()),
+                Span::raw(" ".repeat(1 + idw)),
+                Span::styled(join(prev.cumulative), t.dim()),
+                Span::raw(" ".repeat(valw + 2)),
+                Span::styled(join(prev.cumulative_dg0), t.dim()),
+            ]));
+        }
         let s = &a.steps[k];
         let id = &p.steps[s.step].id;
         let bracket = a
