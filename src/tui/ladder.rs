@@ -98,7 +98,15 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
     let valw = 7;
     // bracket + id + space, then two tracks each followed by its value.
     let fixed = 1 + idw + 1 + (1 + valw) * 2 + 2;
-    let tw = (width.saturating_sub(fixed) / 2).max(4);
+    // Two bar tracks when each gets at least 12 cells; else one track and
+    // the dG'° levels as numbers beside it.
+    let two = width.saturating_sub(fixed) / 2 >= 12;
+    let tw = if two {
+        width.saturating_sub(fixed) / 2
+    } else {
+        width.saturating_sub(fixed).max(4)
+    };
+    let std_w = if two { tw } else { 0 };
     let mut lo: f64 = 0.0;
     let mut hi: f64 = 0.0;
     for s in &a.steps {
@@ -125,12 +133,13 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         Span::raw("  "),
         Span::styled(
             fit(
-                if app.opts.ascii {
-                    "dG'o at the conditions"
-                } else {
-                    "dG'° at the conditions"
+                match (two, app.opts.ascii) {
+                    (true, false) => "dG'° at the conditions",
+                    (true, true) => "dG'o at the conditions",
+                    (false, false) => "dG'°",
+                    (false, true) => "dG'o",
                 },
-                tw + 1 + valw,
+                std_w + valw,
                 app.opts.ascii,
             ),
             t.dim(),
@@ -162,7 +171,14 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
                 Span::raw(" ".repeat(1 + idw)),
                 Span::styled(join(prev.cumulative), t.dim()),
                 Span::raw(" ".repeat(valw + 2)),
-                Span::styled(join(prev.cumulative_dg0), t.dim()),
+                Span::styled(
+                    if two {
+                        join(prev.cumulative_dg0)
+                    } else {
+                        String::new()
+                    },
+                    t.dim(),
+                ),
             ]));
         }
         let s = &a.steps[k];
@@ -227,10 +243,12 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
             if largest { t.bold() } else { Style::default() },
         ));
         spans.push(Span::styled(format!("{mark} "), t.bold()));
-        spans.push(Span::styled(
-            track(from0, s.cumulative_dg0, lo, hi, tw, g.std_bar, g.rung0),
-            t.dim(),
-        ));
+        if two {
+            spans.push(Span::styled(
+                track(from0, s.cumulative_dg0, lo, hi, tw, g.std_bar, g.rung0),
+                t.dim(),
+            ));
+        }
         spans.push(Span::styled(
             format!("{:>valw$.1}", tenth(u.of(s.cumulative_dg0))),
             t.dim(),
