@@ -462,7 +462,11 @@ fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
                     style
                 },
             ),
-            Span::styled(if edited { "* " } else { "  " }, style.patch(t.edited())),
+            if edited {
+                Span::styled("* ", style.patch(t.edited()))
+            } else {
+                Span::styled("  ", style)
+            },
             Span::styled(pad(role_text(a.roles[i], compact), rolew, ascii), style),
         ];
         if a.branch.get(i).copied().unwrap_or(false) {
