@@ -581,7 +581,10 @@ impl App {
                 self.step_sel = step(self.step_sel, self.step_rows());
                 self.detail_scroll = 0;
                 if self.walk.is_some() {
-                    self.walk = Some(self.step_sel.min(self.analysis.steps.len()));
+                    self.walk = Some(
+                        self.step_sel
+                            .min(self.analysis.steps.len().saturating_sub(1)),
+                    );
                 }
             }
             Pane::Compounds => {
