@@ -343,13 +343,7 @@ fn screenshot(
     keys: &str,
     ascii: bool,
 ) -> Result<()> {
-    let (w, h) = size
-        .split_once('x')
-        .and_then(|(w, h)| Some((w.trim().parse::<u16>().ok()?, h.trim().parse::<u16>().ok()?)))
-        .filter(|&(w, h)| (40..=400).contains(&w) && (12..=200).contains(&h))
-        .ok_or_else(|| {
-            anyhow!("--size '{size}': write WIDTHxHEIGHT, e.g. 120x36 (40x12 at least)")
-        })?;
+    let (w, h) = tui::export::parse_size(size).map_err(|e| anyhow!("--size {e}"))?;
     let (prep, source) = load_source(file)?;
     let state = state_from(&prep, c)?;
     // Pictures are always in colour: they are files, not a terminal.
@@ -359,17 +353,14 @@ fn screenshot(
         unit: c.unit(),
     };
     let mut app = tui::App::new(prep, state, source, opts).map_err(|e| anyhow!("{e}"))?;
-    tui::export::replay(&mut app, keys).map_err(|e| anyhow!("--keys: {e}"))?;
-    let buf = tui::export::render_buffer(&app, w, h);
+    let (txt, svg) =
+        tui::export::screenshot(&mut app, keys, w, h).map_err(|e| anyhow!("--keys: {e}"))?;
     let with = |ext: &str| {
         let mut p = output.as_os_str().to_owned();
         p.push(ext);
         PathBuf::from(p)
     };
-    for (path, text) in [
-        (with(".txt"), tui::export::to_text(&buf)),
-        (with(".svg"), tui::export::to_svg(&buf)),
-    ] {
+    for (path, text) in [(with(".txt"), txt), (with(".svg"), svg)] {
         std::fs::write(&path, text).with_context(|| format!("{}: cannot write", path.display()))?;
     }
     emit(&format!(

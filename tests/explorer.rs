@@ -221,6 +221,45 @@ fn save_writes_the_file_keeping_comments() {
 }
 
 #[test]
+fn find_cancelled_puts_the_selection_back_and_help_lists_the_keys() {
+    let mut app = demo();
+    keys(&mut app, "Down / ethan");
+    assert_eq!(
+        app.comp_sel,
+        ci(&app, "etoh"),
+        "the find follows the typing"
+    );
+    keys(&mut app, "Esc");
+    assert_eq!((app.focus, app.step_sel), (Pane::Steps, 1));
+    assert_eq!(app.comp_sel, ci(&app, "glc"));
+    keys(&mut app, "?");
+    assert_eq!(app.mode, Mode::Help);
+    let text = screen(&app, 120, 36);
+    for k in [
+        "q ",
+        "? ",
+        "Tab / Shift-Tab",
+        "Up/Down, k/j",
+        "Enter",
+        "+ / -",
+        "> / <",
+        "/ ",
+        "t / p / i",
+        "r ",
+        "w ",
+        "u / Ctrl-r",
+        "s ",
+    ] {
+        assert!(
+            text.lines().any(|l| l.contains(&format!("│ {k}"))),
+            "help lacks '{k}':\n{text}"
+        );
+    }
+    keys(&mut app, "j");
+    assert_eq!(app.mode, Mode::Normal, "any key closes the help");
+}
+
+#[test]
 fn the_bundled_demo_cannot_be_saved_and_says_what_to_do() {
     let mut app = demo();
     keys(&mut app, "Tab + s");

@@ -197,6 +197,8 @@ pub struct App {
     pub status: Option<(String, Tone)>,
     /// Set when the explorer should end.
     pub quit: bool,
+    /// Focus and selections before a find, restored when it is cancelled.
+    find_from: (Pane, usize, usize),
 }
 
 /// Why a value typed into an edit line was refused.
@@ -289,6 +291,7 @@ impl App {
             walk: None,
             status: None,
             quit: false,
+            find_from: (Pane::Steps, 0, comp_sel),
         })
     }
 
@@ -499,7 +502,10 @@ impl App {
             },
             Message::Apply => self.apply(),
             Message::Cancel => {
-                if matches!(self.mode, Mode::Edit { .. } | Mode::Find { .. }) {
+                if let Mode::Find { .. } = self.mode {
+                    (self.focus, self.step_sel, self.comp_sel) = self.find_from;
+                    self.say("find cancelled", Tone::Info);
+                } else if let Mode::Edit { .. } = self.mode {
                     self.say("cancelled; nothing changed", Tone::Info);
                 } else if self.walk.is_some() {
                     self.say("walk ended", Tone::Info);
@@ -521,6 +527,7 @@ impl App {
             }
             Message::StartFind => {
                 self.status = None;
+                self.find_from = (self.focus, self.step_sel, self.comp_sel);
                 self.mode = Mode::Find {
                     buffer: String::new(),
                 }

@@ -30,6 +30,26 @@ pub fn replay(app: &mut App, script: &str) -> Result<(), String> {
     Ok(())
 }
 
+/// Reads a screen size written as WIDTHxHEIGHT (e.g. 120x36).
+pub fn parse_size(size: &str) -> Result<(u16, u16), String> {
+    size.split_once('x')
+        .and_then(|(w, h)| Some((w.trim().parse::<u16>().ok()?, h.trim().parse::<u16>().ok()?)))
+        .filter(|&(w, h)| (40..=400).contains(&w) && (12..=200).contains(&h))
+        .ok_or_else(|| format!("'{size}': write WIDTHxHEIGHT, e.g. 120x36 (40x12 at least)"))
+}
+
+/// Replays `keys` into the app and returns the screen as (text, SVG).
+pub fn screenshot(
+    app: &mut App,
+    keys: &str,
+    width: u16,
+    height: u16,
+) -> Result<(String, String), String> {
+    replay(app, keys)?;
+    let buf = render_buffer(app, width, height);
+    Ok((to_text(&buf), to_svg(&buf)))
+}
+
 /// The buffer as text, one line per row, trailing spaces removed.
 pub fn to_text(buf: &Buffer) -> String {
     let a = buf.area;
