@@ -7,6 +7,7 @@ use dgpath::analysis::{self, Direction, Prepared};
 use dgpath::model::{self, LoadError, units};
 use dgpath::report::{self, EnergyUnit, TextOptions};
 use dgpath::scenario::State;
+use dgpath::tui::{self, Source};
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
@@ -367,7 +368,12 @@ pub fn run(cli: Cli) -> Result<()> {
     match cli.command {
         None => {
             let prep = load_demo()?;
-            run_report(&prep, &Common::default(), Format::Table)
+            if dgpath::tui::is_terminal() {
+                let state = state_from(&prep, &Common::default())?;
+                explore(prep, state, Source::demo(), &Common::default(), false)
+            } else {
+                run_report(&prep, &Common::default(), Format::Table)
+            }
         }
         Some(Command::New { file }) => new_file(&file),
         Some(Command::Check { file }) => {
@@ -411,10 +417,85 @@ pub fn run(cli: Cli) -> Result<()> {
             common,
             output,
         }) => samples_plot::run_plot(&load(&file)?, &common, &output),
-        Some(Command::Explore { .. }) | Some(Command::Screenshot { .. }) => {
-            bail!("this command is not available in this version of dgpath yet")
+        Some(Command::Explore {
+            file,
+            common,
+            ascii,
+        }) => {
+            let (prep, source) = load_source(&file)?;
+            let state = state_from(&prep, &common)?;
+            explore(prep, state, source, &common, ascii)
         }
+        Some(Command::Screenshot {
+            file,
+            common,
+            output,
+            size,
+            keys,
+            ascii,
+        }) => screenshot(&file, &common, &output, &size, &keys, ascii),
     }
+}
+
+/// Loads a pathway file for the explorer, keeping its text for saving.
+fn load_source(file: &Path) -> Result<(Prepared, Source)> {
+    let prep = load(file)?;
+    let text = std::fs::read_to_string(file)
+        .with_context(|| format!("{}: cannot read the file", file.display()))?;
+    let source = Source {
+        path: Some(file.to_path_buf()),
+        name: file.display().to_string(),
+        text,
+    };
+    Ok((prep, source))
+}
+
+fn explore(prep: Prepared, state: State, source: Source, c: &Common, ascii: bool) -> Result<()> {
+    if c.samples.is_some() {
+        bail!("--samples is not available in the explorer yet; use --set for one sample");
+    }
+    let opts = tui::Options {
+        ascii,
+        color: std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
+        unit: c.unit(),
+    };
+    let app = tui::App::new(prep, state, source, opts).map_err(|e| anyhow!("{e}"))?;
+    tui::run(app).map_err(|e| anyhow!("{e}"))
+}
+
+fn screenshot(
+    file: &Path,
+    c: &Common,
+    output: &Path,
+    size: &str,
+    keys: &str,
+    ascii: bool,
+) -> Result<()> {
+    let (w, h) = tui::export::parse_size(size).map_err(|e| anyhow!("--size {e}"))?;
+    let (prep, source) = load_source(file)?;
+    let state = state_from(&prep, c)?;
+    // Pictures are always in colour: they are files, not a terminal.
+    let opts = tui::Options {
+        ascii,
+        color: true,
+        unit: c.unit(),
+    };
+    let mut app = tui::App::new(prep, state, source, opts).map_err(|e| anyhow!("{e}"))?;
+    let (txt, svg) =
+        tui::export::screenshot(&mut app, keys, w, h).map_err(|e| anyhow!("--keys: {e}"))?;
+    let with = |ext: &str| {
+        let mut p = output.as_os_str().to_owned();
+        p.push(ext);
+        PathBuf::from(p)
+    };
+    for (path, text) in [(with(".txt"), txt), (with(".svg"), svg)] {
+        std::fs::write(&path, text).with_context(|| format!("{}: cannot write", path.display()))?;
+    }
+    emit(&format!(
+        "wrote {} and {}\n",
+        with(".txt").display(),
+        with(".svg").display()
+    ))
 }
 
 /// The starter file written by `dgpath new`.

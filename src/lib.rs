@@ -15,6 +15,7 @@ pub mod report;
 pub mod samples;
 pub mod scenario;
 pub mod thermo;
+pub mod tui;
 
 /// The bundled demo pathway (an invented fermenter scenario).
 pub const DEMO: &str = include_str!("../pathways/fermenter.toml");

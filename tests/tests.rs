@@ -1,3 +1,5 @@
+mod explorer;
+mod explorer_tmux;
 mod limits;
 mod mdf;
 mod plot;

@@ -46,6 +46,8 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
     let mut out = Vec::new();
     let n = a.steps.len();
     let mut prime: Option<usize> = None;
+    let mut between: Vec<&str> = Vec::new();
+    let mut scanned = 0;
     for k in 0..n {
         let s = &a.steps[k];
         if s.class != Class::Far {
@@ -90,9 +92,9 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
                 "far from equilibrium ({dg}) with no rule against it, but {} before it is already the committed step",
                 p.steps[a.steps[pk].step].id
             ));
-            // Branch points between the prime step and this one.
-            let mut between: Vec<&str> = Vec::new();
-            for m in pk..k {
+            // Branch points between the prime step and this one (the range only
+            // grows from one candidate to the next, so it is scanned once).
+            for m in scanned.max(pk)..k {
                 let sm = &a.steps[m];
                 for &(c, nu) in &p.steps[sm.step].stoich {
                     if nu * sm.sign > 0.0
@@ -103,6 +105,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
                     }
                 }
             }
+            scanned = k;
             if !between.is_empty() {
                 reasons.push(format!(
                     "branch point {} lies between {} and this step: flux leaving or entering there is not set by {}, so this step may control what reaches the end",

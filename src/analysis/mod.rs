@@ -336,6 +336,7 @@ fn weighted_sd(
     let mut any = false;
     let mut var = 0.0;
     let mut per_compound: Vec<f64> = vec![0.0; p.compounds.len()];
+    let mut used_by: Vec<bool> = vec![false; p.compounds.len()];
     for &(k, w) in members {
         let s = &steps[k];
         if let Some(sd0) = p.steps[s.step].dg0_sd {
@@ -344,14 +345,12 @@ fn weighted_sd(
         }
         for c in &s.contributions {
             per_compound[c.compound] += w * c.nu;
+            used_by[c.compound] = true;
         }
     }
     for (c, &coef) in per_compound.iter().enumerate() {
         if let Some(cv) = p.compounds[c].cv {
-            let used = members
-                .iter()
-                .any(|&(k, _)| steps[k].contributions.iter().any(|x| x.compound == c));
-            if used {
+            if used_by[c] {
                 any = true;
                 var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
             }

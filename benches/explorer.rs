@@ -1,0 +1,170 @@
+//! Explorer speed, run by hand (`cargo bench --bench explorer`): one edit →
+//! recompute → render into a buffer for the demo and for a generated
+//! 2,000-step route; the bytes written to a terminal for one `+` on a
+//! 120×36 screen; and the time from start to the first frame for the demo.
+//! Targets: ≤ 2 ms, ≤ 16 ms, ≤ 2 KB, ≤ 50 ms.
+
+use dgpath::analysis;
+use dgpath::model;
+use dgpath::report::EnergyUnit;
+use dgpath::scenario::State;
+use dgpath::tui::app::{App, Options, Source};
+use dgpath::tui::export;
+use dgpath::tui::view;
+use ratatui::backend::CrosstermBackend;
+use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use ratatui::layout::Rect;
+use ratatui::{Terminal, TerminalOptions, Viewport};
+use std::cell::Cell;
+use std::io::Write;
+use std::rc::Rc;
+use std::time::{Duration, Instant};
+
+fn opts() -> Options {
+    Options {
+        ascii: false,
+        color: true,
+        unit: EnergyUnit::KJ,
+    }
+}
+
+fn app(text: &str, name: &str) -> App {
+    let p = model::load_str(text, name).expect("loads");
+    let prep = analysis::prepare(p).expect("prepares");
+    let st = State::from_pathway(&prep.pathway);
+    let src = Source {
+        path: None,
+        name: name.into(),
+        text: text.into(),
+    };
+    App::new(prep, st, src, opts()).expect("analyses")
+}
+
+/// An invented linear route of `n` steps (c0 -> c1 -> ... -> cn) with currency coupling.
+fn synthetic(n: usize) -> String {
+    let mut s = String::from(
+        "# Generated for the benchmark; invented values.\nformat = 1\n[pathway]\nname = \"long route\"\n[conditions]\ntemperature = \"30 C\"\nph = 7\n[compounds]\natp = { conc = \"3 mM\", role = \"currency\", cv = 0.1 }\nadp = { conc = \"1 mM\", role = \"currency\", cv = 0.1 }\n",
+    );
+    for i in 0..=n {
+        let conc = 10.0 + (i % 17) as f64 * 7.0;
+        s.push_str(&format!("c{i} = {{ conc = \"{conc} uM\", cv = 0.2 }}\n"));
+    }
+    for i in 0..n {
+        let dg0 = -3.0 - (i % 11) as f64 * 1.3 + if i % 5 == 0 { 6.0 } else { 0.0 };
+        let rx = if i % 7 == 0 {
+            format!("c{i} + atp -> c{} + adp", i + 1)
+        } else {
+            format!("c{i} -> c{}", i + 1)
+        };
+        s.push_str(&format!(
+            "[[steps]]\nid = \"s{i}\"\nenzyme = \"enzyme {i}\"\nreaction = \"{rx}\"\ndg0 = \"{dg0:.2} kJ/mol\"\ndg0_sd = \"1 kJ/mol\"\n"
+        ));
+    }
+    s
+}
+
+/// A terminal writer that only counts bytes (shared, so it can be read while the backend owns it).
+#[derive(Clone, Default)]
+struct Count(Rc<Cell<usize>>);
+
+impl Write for Count {
+    fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
+        self.0.set(self.0.get() + b.len());
+        Ok(b.len())
+    }
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+fn key(c: char) -> KeyEvent {
+    KeyEvent::new(KeyCode::Char(c), KeyModifiers::NONE)
+}
+
+/// Median time of one `+` or `-` on the selected compound, recompute and render.
+fn edit_render(app: &mut App, w: u16, h: u16, rounds: usize) -> Duration {
+    app.handle_key(KeyEvent::new(KeyCode::Tab, KeyModifiers::NONE));
+    let mut times = Vec::with_capacity(rounds);
+    for r in 0..rounds {
+        let t0 = Instant::now();
+        app.handle_key(key(if r % 2 == 0 { '+' } else { '-' }));
+        let buf = export::render_buffer(app, w, h);
+        std::hint::black_box(&buf);
+        times.push(t0.elapsed());
+    }
+    times.sort();
+    times[rounds / 2]
+}
+
+fn main() {
+    let mut demo = app(dgpath::DEMO, dgpath::DEMO_NAME);
+    let d = edit_render(&mut demo, 120, 36, 400);
+    println!(
+        "demo: edit + recompute + render 120x36: {:.3} ms (target 2 ms)",
+        d.as_secs_f64() * 1e3
+    );
+
+    let text = synthetic(2000);
+    let mut long = app(&text, "long.toml");
+    let d = edit_render(&mut long, 120, 36, 40);
+    println!(
+        "2000-step route: edit + recompute + render 120x36: {:.3} ms (target 16 ms)",
+        d.as_secs_f64() * 1e3
+    );
+
+    let t0 = Instant::now();
+    for _ in 0..10 {
+        std::hint::black_box(analysis::analyze(&long.prep, long.state()).unwrap());
+    }
+    println!(
+        "  of which analyze alone: {:.3} ms",
+        t0.elapsed().as_secs_f64() * 1e2
+    );
+    let t0 = Instant::now();
+    for _ in 0..10 {
+        std::hint::black_box(export::render_buffer(&long, 120, 36));
+    }
+    println!(
+        "  of which render alone: {:.3} ms",
+        t0.elapsed().as_secs_f64() * 1e2
+    );
+
+    // Bytes to the terminal for one `+`: draw twice, count the second.
+    let mut a = app(dgpath::DEMO, dgpath::DEMO_NAME);
+    a.handle_key(KeyEvent::new(KeyCode::Tab, KeyModifiers::NONE));
+    let count = Count::default();
+    let mut term = Terminal::with_options(
+        CrosstermBackend::new(count.clone()),
+        TerminalOptions {
+            viewport: Viewport::Fixed(Rect::new(0, 0, 120, 36)),
+        },
+    )
+    .expect("terminal");
+    term.draw(|f| view::draw(f, &a)).expect("draw");
+    let first = count.0.get();
+    a.handle_key(key('+'));
+    term.draw(|f| view::draw(f, &a)).expect("draw");
+    let second = count.0.get() - first;
+    println!("bytes for one '+' on 120x36: {second} (first frame {first}; target 2048)");
+
+    // Start to first frame: parse, prepare, analyse, draw into a terminal backend.
+    let mut best = Duration::MAX;
+    for _ in 0..20 {
+        let t0 = Instant::now();
+        let a = app(dgpath::DEMO, dgpath::DEMO_NAME);
+        let backend = CrosstermBackend::new(Count::default());
+        let mut term = Terminal::with_options(
+            backend,
+            TerminalOptions {
+                viewport: Viewport::Fixed(Rect::new(0, 0, 120, 36)),
+            },
+        )
+        .expect("terminal");
+        term.draw(|f| view::draw(f, &a)).expect("draw");
+        best = best.min(t0.elapsed());
+    }
+    println!(
+        "start to first frame (demo): {:.3} ms (target 50 ms)",
+        best.as_secs_f64() * 1e3
+    );
+}

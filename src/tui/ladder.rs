@@ -1,0 +1,273 @@
+//! The energy ladder as text: one rung per route step at its cumulative
+//! level (each step weighted by its turns), the step's drop drawn as a bar to
+//! scale from the previous rung, the largest drop marked, coupled groups
+//! bracketed, and the standard-state ladder (dG'° at the conditions) beside
+//! it on the same scale. Pure: it turns an `App` into lines for a given size.
+
+use super::app::App;
+use super::view::{Theme, fit, tenth};
+use ratatui::style::{Modifier, Style};
+use ratatui::text::{Line, Span};
+
+/// Glyphs of the ladder, Unicode or ASCII.
+struct Glyphs {
+    drop: char,
+    largest: char,
+    rise: char,
+    rung: char,
+    rung0: char,
+    std_bar: char,
+    open: char,
+    mid: char,
+    close: char,
+    mark: &'static str,
+    join: char,
+}
+
+const UNICODE: Glyphs = Glyphs {
+    drop: '━',
+    largest: '█',
+    rise: '╍',
+    rung: '┃',
+    rung0: '│',
+    std_bar: '─',
+    open: '┌',
+    mid: '│',
+    close: '└',
+    mark: "◀",
+    join: '┊',
+};
+
+const ASCII: Glyphs = Glyphs {
+    drop: '=',
+    largest: '#',
+    rise: '~',
+    rung: '|',
+    rung0: ':',
+    std_bar: '-',
+    open: '/',
+    mid: '|',
+    close: '\\',
+    mark: "<",
+    join: ':',
+};
+
+/// Column of energy `e` on a track `w` cells wide spanning [lo, hi] (hi on the left).
+fn col(e: f64, lo: f64, hi: f64, w: usize) -> usize {
+    if w <= 1 || hi <= lo {
+        return 0;
+    }
+    let x = (hi - e) / (hi - lo) * (w - 1) as f64;
+    (x.round().max(0.0) as usize).min(w - 1)
+}
+
+/// One track: the bar from `from` to `to` and the rung at `to`.
+fn track(from: f64, to: f64, lo: f64, hi: f64, w: usize, bar: char, rung: char) -> String {
+    let (a, b) = (col(from, lo, hi, w), col(to, lo, hi, w));
+    let (l, r) = (a.min(b), a.max(b));
+    (0..w)
+        .map(|x| {
+            if x == b {
+                rung
+            } else if x >= l && x <= r {
+                bar
+            } else {
+                ' '
+            }
+        })
+        .collect()
+}
+
+/// The ladder's lines for an area `width` × `height` (header included).
+pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'static>> {
+    let g = if app.opts.ascii { &ASCII } else { &UNICODE };
+    let a = &app.analysis;
+    let p = app.pathway();
+    let u = app.opts.unit;
+    let n = a.steps.len();
+    if n == 0 || width < 20 || height < 2 {
+        return vec![Line::from("(no route steps)")];
+    }
+    let idw = a
+        .steps
+        .iter()
+        .map(|s| p.steps[s.step].id.chars().count())
+        .max()
+        .unwrap_or(3)
+        .clamp(3, 10);
+    let valw = 7;
+    // bracket + id + space, then two tracks each followed by its value.
+    let fixed = 1 + idw + 1 + (1 + valw) * 2 + 2;
+    // Two bar tracks when each gets at least 12 cells; else one track and
+    // the dG'° levels as numbers beside it.
+    let two = width.saturating_sub(fixed) / 2 >= 12;
+    let tw = if two {
+        width.saturating_sub(fixed) / 2
+    } else {
+        width.saturating_sub(fixed).max(4)
+    };
+    let std_w = if two { tw } else { 0 };
+    let mut lo: f64 = 0.0;
+    let mut hi: f64 = 0.0;
+    for s in &a.steps {
+        lo = lo.min(s.cumulative).min(s.cumulative_dg0);
+        hi = hi.max(s.cumulative).max(s.cumulative_dg0);
+    }
+    let walk_end = app.walk;
+    let header = Line::from(vec![
+        Span::styled(
+            format!(
+                "{:<w$}",
+                format!(
+                    "{} {} {:.0} {} {:.0}",
+                    if tw >= 20 { "cumulative dG'" } else { "dG'" },
+                    u.label(),
+                    u.of(hi),
+                    if app.opts.ascii { "..." } else { "…" },
+                    u.of(lo)
+                ),
+                w = 1 + idw + 1 + tw + 1 + valw
+            ),
+            t.bold(),
+        ),
+        Span::raw("  "),
+        Span::styled(
+            fit(
+                match (two, app.opts.ascii) {
+                    (true, false) => "dG'° at the conditions",
+                    (true, true) => "dG'o at the conditions",
+                    (false, false) => "dG'°",
+                    (false, true) => "dG'o",
+                },
+                std_w + valw,
+                app.opts.ascii,
+            ),
+            t.dim(),
+        ),
+    ]);
+    let mut out = vec![header];
+    let rows = height - 1;
+    let sel = app.step_sel.min(n - 1);
+    let first = if n <= rows {
+        0
+    } else {
+        sel.saturating_sub(rows / 2).min(n - rows)
+    };
+    // On a tall pane, a connector row between rungs shows where the next drop starts.
+    let spaced = rows + 1 >= 2 * n;
+    for k in first..(first + rows).min(n) {
+        if spaced && k > first && walk_end.is_none_or(|w| k <= w) {
+            let prev = &a.steps[k - 1];
+            let join = |e: f64| -> String {
+                let c = col(e, lo, hi, tw);
+                (0..tw).map(|x| if x == c { g.join } else { ' ' }).collect()
+            };
+            let inside = a
+                .groups
+                .iter()
+                .any(|gr| gr.members.contains(&(k - 1)) && gr.members.contains(&k));
+            out.push(Line::from(vec![
+                Span::styled(if inside { g.mid } else { ' ' }.to_string(), t.dim()),
+                Span::raw(" ".repeat(1 + idw)),
+                Span::styled(join(prev.cumulative), t.dim()),
+                Span::raw(" ".repeat(valw + 2)),
+                Span::styled(
+                    if two {
+                        join(prev.cumulative_dg0)
+                    } else {
+                        String::new()
+                    },
+                    t.dim(),
+                ),
+            ]));
+        }
+        let s = &a.steps[k];
+        let id = &p.steps[s.step].id;
+        let bracket = a
+            .groups
+            .iter()
+            .find_map(|gr| {
+                let pos = gr.members.iter().position(|&m| m == k)?;
+                Some(if pos == 0 {
+                    g.open
+                } else if pos + 1 == gr.members.len() {
+                    g.close
+                } else {
+                    g.mid
+                })
+            })
+            .unwrap_or(' ');
+        let selected = k == app.step_sel;
+        let mut id_style = if selected {
+            t.selected()
+        } else {
+            Style::default()
+        };
+        let hidden = walk_end.is_some_and(|w| k > w);
+        if hidden {
+            id_style = t.dim();
+        }
+        let mut spans = vec![
+            Span::styled(bracket.to_string(), t.dim()),
+            Span::styled(format!("{:<idw$}", fit(id, idw, app.opts.ascii)), id_style),
+            Span::raw(" "),
+        ];
+        if hidden {
+            out.push(Line::from(spans));
+            continue;
+        }
+        let (from, from0) = if k == 0 {
+            (0.0, 0.0)
+        } else {
+            (a.steps[k - 1].cumulative, a.steps[k - 1].cumulative_dg0)
+        };
+        let largest = a.largest_drop == Some(k);
+        let bar = if largest {
+            g.largest
+        } else if s.cumulative > from {
+            g.rise
+        } else {
+            g.drop
+        };
+        let mut bar_style = t.class(s.class);
+        if largest {
+            bar_style = bar_style.add_modifier(Modifier::BOLD);
+        }
+        spans.push(Span::styled(
+            track(from, s.cumulative, lo, hi, tw, bar, g.rung),
+            bar_style,
+        ));
+        let mark = if largest { g.mark } else { " " };
+        spans.push(Span::styled(
+            format!("{:>valw$.1}", tenth(u.of(s.cumulative))),
+            if largest { t.bold() } else { Style::default() },
+        ));
+        spans.push(Span::styled(format!("{mark} "), t.bold()));
+        if two {
+            spans.push(Span::styled(
+                track(from0, s.cumulative_dg0, lo, hi, tw, g.std_bar, g.rung0),
+                t.dim(),
+            ));
+        }
+        spans.push(Span::styled(
+            format!("{:>valw$.1}", tenth(u.of(s.cumulative_dg0))),
+            t.dim(),
+        ));
+        out.push(Line::from(spans));
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn bars_are_drawn_to_scale() {
+        // A 10-cell track over 0..-90: each cell is 10 units.
+        let s = track(0.0, -45.0, -90.0, 0.0, 10, '=', '|');
+        assert_eq!(s, "=====|    ");
+        let s = track(-90.0, -45.0, -90.0, 0.0, 10, '=', '|');
+        assert_eq!(s, "     |====");
+    }
+}

@@ -1,0 +1,495 @@
+//! The explorer driven by key events through `App::handle_key`: the model
+//! changes are asserted, and a few screens are snapshotted on a fixed-size
+//! buffer (text with insta; style checked on cells where meaning depends on it).
+
+use dgpath::analysis::{self, Direction};
+use dgpath::model;
+use dgpath::report::EnergyUnit;
+use dgpath::scenario::State;
+use dgpath::tui::app::{App, Mode, Options, Pane, Source, parse_keys};
+use dgpath::tui::export;
+use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use ratatui::style::Modifier;
+use std::path::Path;
+
+/// R in J/(mol K), exact in the 2019 SI (science.md).
+const R: f64 = 8.314462618;
+
+fn opts() -> Options {
+    Options {
+        ascii: false,
+        color: false,
+        unit: EnergyUnit::KJ,
+    }
+}
+
+fn app_from(text: &str, source: Source) -> App {
+    let p = model::load_str(text, &source.name).expect("demo loads");
+    let prep = analysis::prepare(p).expect("demo prepares");
+    let state = State::from_pathway(&prep.pathway);
+    App::new(prep, state, source, opts()).expect("demo analyses")
+}
+
+fn demo() -> App {
+    app_from(dgpath::DEMO, Source::demo())
+}
+
+/// The demo copied into a temporary folder, opened from there.
+fn on_disk() -> (tempfile::TempDir, std::path::PathBuf, App) {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("fermenter.toml");
+    std::fs::write(&path, dgpath::DEMO).unwrap();
+    let src = Source {
+        path: Some(path.clone()),
+        name: "fermenter.toml".into(),
+        text: dgpath::DEMO.into(),
+    };
+    let app = app_from(dgpath::DEMO, src);
+    (dir, path, app)
+}
+
+fn keys(app: &mut App, script: &str) {
+    for k in parse_keys(script).unwrap() {
+        app.handle_key(k);
+    }
+}
+
+fn ci(app: &App, id: &str) -> usize {
+    app.pathway().compound(id).unwrap()
+}
+
+fn dg_of(app: &App, id: &str) -> f64 {
+    let st = app.pathway().step(id).unwrap();
+    app.analysis.steps.iter().find(|s| s.step == st).unwrap().dg
+}
+
+fn screen(app: &App, w: u16, h: u16) -> String {
+    export::to_text(&export::render_buffer(app, w, h))
+}
+
+#[test]
+fn plus_scales_the_selected_concentration_and_undo_restores_it() {
+    let mut app = demo();
+    // Tab to the concentration pane, down from glc to f6p.
+    keys(&mut app, "Tab Down Down");
+    assert_eq!(app.focus, Pane::Compounds);
+    let f6p = ci(&app, "f6p");
+    assert_eq!(app.comp_sel, f6p);
+    let (c0, pfk0, pgi0) = (
+        app.state().conc[f6p],
+        dg_of(&app, "pfk"),
+        dg_of(&app, "pgi"),
+    );
+    keys(&mut app, "+");
+    let c1 = app.state().conc[f6p];
+    assert!((c1 / c0 - 10f64.powf(0.1)).abs() < 1e-12, "{c1} vs {c0}");
+    // f6p is consumed by pfk and made by pgi: RT ln 10^0.1 moves them apart.
+    let rt = R * 303.15; // 30 C, the demo's temperature
+    let shift = rt * 0.1 * std::f64::consts::LN_10;
+    assert!((dg_of(&app, "pfk") - (pfk0 - shift)).abs() < 1e-6);
+    assert!((dg_of(&app, "pgi") - (pgi0 + shift)).abs() < 1e-6);
+    assert!(app.dirty() && app.edited(f6p));
+    keys(&mut app, "> > <");
+    assert!((app.state().conc[f6p] / c1 - 10.0).abs() < 1e-9);
+    keys(&mut app, "u u u u");
+    assert_eq!(app.state().conc[f6p], c0, "undo restores the exact value");
+    assert_eq!(dg_of(&app, "pfk"), pfk0);
+    assert!(!app.dirty());
+    app.handle_key(KeyEvent::new(KeyCode::Char('r'), KeyModifiers::CONTROL));
+    assert_eq!(app.state().conc[f6p], c1, "Ctrl-r redoes");
+    keys(&mut app, "-");
+    assert!((app.state().conc[f6p] - c0).abs() < 1e-15);
+}
+
+#[test]
+fn a_typed_value_with_a_unit_is_applied_and_a_bad_one_changes_nothing() {
+    let mut app = demo();
+    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter");
+    let f6p = ci(&app, "f6p");
+    assert_eq!(app.state().conc[f6p], 2.5e-3);
+    assert_eq!(app.mode, Mode::Normal);
+    // A bare number is mM, as in the file.
+    keys(&mut app, "Enter 0.5 Enter");
+    assert_eq!(app.state().conc[f6p], 0.5e-3);
+    let before = app.state().clone();
+    keys(&mut app, "Enter 2.5 mmol Enter");
+    match &app.mode {
+        Mode::Edit { error: Some(e), .. } => assert!(e.contains("unknown unit 'mmol'"), "{e}"),
+        m => panic!("expected an inline error, got {m:?}"),
+    }
+    assert_eq!(app.state(), &before, "a bad value changes nothing");
+    keys(&mut app, "Esc");
+    assert_eq!(app.mode, Mode::Normal);
+    keys(&mut app, "Enter -3 uM Enter");
+    assert!(matches!(app.mode, Mode::Edit { error: Some(_), .. }));
+    keys(&mut app, "Esc");
+    assert_eq!(app.state(), &before);
+    // Conditions: temperature (bare number is °C), pH, ionic strength.
+    keys(&mut app, "t 37 Enter p 7.4 Enter i 150 mM Enter");
+    let c = app.state().conditions;
+    assert!((c.temperature - 310.15).abs() < 1e-9);
+    assert_eq!(c.ph, 7.4);
+    assert!((c.ionic_strength - 0.15).abs() < 1e-15);
+    assert!((app.analysis.rt - R * 310.15).abs() < 1e-6);
+    keys(&mut app, "p 15 Enter");
+    assert!(matches!(app.mode, Mode::Edit { error: Some(_), .. }));
+}
+
+#[test]
+fn reverse_toggles_the_direction_and_is_undoable() {
+    let mut app = demo();
+    keys(&mut app, "r");
+    assert_eq!(app.state().direction, Direction::Reverse);
+    assert_eq!(app.analysis.direction, Direction::Reverse);
+    let first = app.analysis.steps[0].step;
+    assert_eq!(
+        app.pathway().steps[first].id,
+        "adh",
+        "the reverse route starts at the end"
+    );
+    assert!(app.analysis.steps[0].sign < 0.0);
+    // The selection stays on the same step (hxk is last in reverse).
+    let sel = app.selected_step().unwrap().step;
+    assert_eq!(app.pathway().steps[sel].id, "hxk");
+    assert!(screen(&app, 120, 36).contains("reverse"));
+    keys(&mut app, "u");
+    assert_eq!(app.state().direction, Direction::Forward);
+}
+
+#[test]
+fn quitting_with_unsaved_edits_asks_first() {
+    let mut app = demo();
+    keys(&mut app, "q");
+    assert!(app.quit, "no edits: q quits at once");
+    let mut app = demo();
+    keys(&mut app, "Tab + q");
+    assert!(!app.quit);
+    assert_eq!(app.mode, Mode::ConfirmQuit);
+    keys(&mut app, "j");
+    assert!(!app.quit && app.mode == Mode::Normal, "another key cancels");
+    keys(&mut app, "q q");
+    assert!(app.quit);
+}
+
+#[test]
+fn find_walk_and_selection_highlights() {
+    let mut app = demo();
+    keys(&mut app, "/ pyk Enter");
+    let sel = app.selected_step().unwrap().step;
+    assert_eq!(app.pathway().steps[sel].id, "pyk");
+    keys(&mut app, "/ ethanol Enter");
+    assert_eq!(app.focus, Pane::Compounds);
+    assert_eq!(app.comp_sel, ci(&app, "etoh"));
+    keys(&mut app, "/ zzz Enter");
+    assert!(
+        app.status
+            .as_ref()
+            .unwrap()
+            .0
+            .contains("no step or compound")
+    );
+    // Selecting etoh marks adh, the step that makes it, in the step list.
+    let text = screen(&app, 120, 36);
+    assert!(text.lines().any(|l| l.contains("• adh")), "{text}");
+    assert!(!text.lines().any(|l| l.contains("• pfk")));
+    keys(&mut app, "w");
+    assert_eq!(app.walk, Some(0));
+    keys(&mut app, "w w");
+    assert_eq!((app.walk, app.step_sel), (Some(2), 2));
+    keys(&mut app, "Esc");
+    assert_eq!(app.walk, None);
+}
+
+#[test]
+fn save_writes_the_file_keeping_comments() {
+    let (_dir, path, mut app) = on_disk();
+    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter t 37 Enter s");
+    let text = std::fs::read_to_string(&path).unwrap();
+    assert!(
+        text.contains(r#"f6p   = { name = "fructose 6-phosphate", conc = "2.5 mM", cv = 0.25 }"#),
+        "{text}"
+    );
+    assert!(text.contains(r#"temperature = "37 C""#));
+    assert!(text.contains("# INVENTED DEMO DATA"));
+    assert!(text.contains("# also feeds storage sugars"));
+    assert!(!app.dirty(), "saved: nothing unsaved");
+    assert!(app.status.as_ref().unwrap().0.starts_with("saved"));
+    let back = model::load_file(&path).unwrap();
+    assert_eq!(back.compounds[ci(&app, "f6p")].conc, Some(2.5e-3));
+    keys(&mut app, "q");
+    assert!(app.quit);
+}
+
+#[test]
+fn find_cancelled_puts_the_selection_back_and_help_lists_the_keys() {
+    let mut app = demo();
+    keys(&mut app, "Down / ethan");
+    assert_eq!(
+        app.comp_sel,
+        ci(&app, "etoh"),
+        "the find follows the typing"
+    );
+    keys(&mut app, "Esc");
+    assert_eq!((app.focus, app.step_sel), (Pane::Steps, 1));
+    assert_eq!(app.comp_sel, ci(&app, "glc"));
+    keys(&mut app, "?");
+    assert_eq!(app.mode, Mode::Help);
+    let text = screen(&app, 120, 36);
+    for k in [
+        "q ",
+        "? ",
+        "Tab / Shift-Tab",
+        "Up/Down, k/j",
+        "Enter",
+        "+ / -",
+        "> / <",
+        "/ ",
+        "t / p / i",
+        "r ",
+        "w ",
+        "u / Ctrl-r",
+        "s ",
+    ] {
+        assert!(
+            text.lines().any(|l| l.contains(&format!("│ {k}"))),
+            "help lacks '{k}':\n{text}"
+        );
+    }
+    keys(&mut app, "j");
+    assert_eq!(app.mode, Mode::Normal, "any key closes the help");
+}
+
+#[test]
+fn the_bundled_demo_cannot_be_saved_and_says_what_to_do() {
+    let mut app = demo();
+    keys(&mut app, "Tab + s");
+    let (m, _) = app.status.clone().unwrap();
+    assert!(m.contains("dgpath new"), "{m}");
+    assert!(app.dirty());
+}
+
+#[test]
+fn saving_over_an_outside_change_asks_first() {
+    let (_dir, path, mut app) = on_disk();
+    keys(&mut app, "Tab +");
+    let outside = dgpath::DEMO.replace(
+        "# INVENTED DEMO DATA",
+        "# edited elsewhere\n# INVENTED DEMO DATA",
+    );
+    std::fs::write(&path, &outside).unwrap();
+    keys(&mut app, "s");
+    assert_eq!(app.mode, Mode::ConfirmOverwrite);
+    keys(&mut app, "n");
+    assert_eq!(
+        std::fs::read_to_string(&path).unwrap(),
+        outside,
+        "n keeps the file"
+    );
+    keys(&mut app, "s y");
+    let text = std::fs::read_to_string(&path).unwrap();
+    assert!(
+        text.contains("# INVENTED DEMO DATA") && !app.dirty(),
+        "{:?} {:?}",
+        app.status,
+        app.mode
+    );
+}
+
+#[test]
+fn a_change_on_disk_reloads_and_keeps_unsaved_edits() {
+    let (_dir, path, mut app) = on_disk();
+    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter");
+    let changed = dgpath::DEMO.replace(r#"conc = "12 mM""#, r#"conc = "20 mM""#);
+    std::fs::write(&path, &changed).unwrap();
+    assert!(app.poll_disk());
+    assert_eq!(
+        app.state().conc[ci(&app, "glc")],
+        20e-3,
+        "the file's new value"
+    );
+    assert_eq!(
+        app.state().conc[ci(&app, "f6p")],
+        2.5e-3,
+        "the unsaved edit stays"
+    );
+    assert!(
+        app.status
+            .as_ref()
+            .unwrap()
+            .0
+            .contains("kept 1 unsaved edit")
+    );
+    assert!(!app.poll_disk(), "nothing new on disk");
+    // A file that no longer parses: error shown, last good state kept.
+    std::fs::write(
+        &path,
+        changed.replace("[[steps]]\nid = \"pgi\"", "[[steps]\nid = \"pgi\""),
+    )
+    .unwrap();
+    assert!(app.poll_disk());
+    let (m, _) = app.status.clone().unwrap();
+    assert!(
+        m.contains("does not load") && m.contains("fermenter.toml:"),
+        "{m}"
+    );
+    assert_eq!(app.state().conc[ci(&app, "glc")], 20e-3);
+    assert!(screen(&app, 120, 36).contains("file on disk does not load"));
+}
+
+#[test]
+fn the_largest_drop_row_is_bold_and_marked() {
+    let app = demo();
+    let buf = export::render_buffer(&app, 120, 36);
+    let row_of = |id: &str| {
+        (0..buf.area.height)
+            .find(|&y| {
+                let line: String = (0..76).map(|x| buf[(x, y)].symbol().to_string()).collect();
+                line.contains(&format!("  {id} "))
+            })
+            .unwrap()
+    };
+    let (pdc, pyk) = (row_of("pdc"), row_of("pyk"));
+    assert_eq!(
+        app.pathway().steps[app.analysis.steps[app.analysis.largest_drop.unwrap()].step].id,
+        "pdc"
+    );
+    let bold = |y: u16| (3..8).all(|x| buf[(x, y)].modifier.contains(Modifier::BOLD));
+    assert!(bold(pdc), "largest drop row is bold");
+    assert!(!bold(pyk), "other rows are not");
+    let line: String = (0..76)
+        .map(|x| buf[(x, pdc)].symbol().to_string())
+        .collect();
+    assert!(line.contains("48%◀"), "{line}");
+}
+
+#[test]
+fn without_colour_no_cell_carries_a_colour() {
+    // NO_COLOR turns `color` off; meaning must then rest on symbols and modifiers.
+    let mut app = demo();
+    keys(&mut app, "Tab Down +");
+    let buf = export::render_buffer(&app, 120, 36);
+    let coloured = buf
+        .content()
+        .iter()
+        .filter(|c| c.fg != ratatui::style::Color::Reset || c.bg != ratatui::style::Color::Reset)
+        .count();
+    assert_eq!(coloured, 0);
+    let text = export::to_text(&buf);
+    assert!(
+        text.contains("g6p      2.39 mM* "),
+        "edited value marked by a star:\n{text}"
+    );
+    assert!(text.contains("● unsaved"));
+}
+
+#[test]
+fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
+    let bin = env!("CARGO_BIN_EXE_dgpath");
+    let root = env!("CARGO_MANIFEST_DIR");
+    let out = std::process::Command::new(bin)
+        .args(["explore", "pathways/fermenter.toml"])
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("needs a terminal") && err.contains("dgpath report"),
+        "{err}"
+    );
+    assert!(out.stdout.is_empty(), "no screen drawn into a pipe");
+    let out = std::process::Command::new(bin)
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("pdc ◀largest"), "{text}");
+}
+
+#[test]
+fn snapshot_overview() {
+    insta::assert_snapshot!("overview_120x36", screen(&demo(), 120, 36));
+}
+
+#[test]
+fn snapshot_edit_with_a_bad_value_at_80x24() {
+    let mut app = demo();
+    keys(&mut app, "Tab Down Down Enter 2.5 mmol Enter");
+    insta::assert_snapshot!("bad_edit_80x24", screen(&app, 80, 24));
+}
+
+#[test]
+fn snapshot_help_in_ascii() {
+    let mut app = demo();
+    app.opts.ascii = true;
+    keys(&mut app, "?");
+    let text = screen(&app, 100, 30);
+    assert!(text.is_ascii(), "{text}");
+    insta::assert_snapshot!("help_ascii_100x30", text);
+}
+
+#[test]
+fn screenshots_are_up_to_date() {
+    // Each command in screenshots/README.md is run again; the committed files must match.
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let readme = std::fs::read_to_string(root.join("screenshots/README.md")).unwrap();
+    let dir = tempfile::tempdir().unwrap();
+    let mut n = 0;
+    for line in readme.lines() {
+        let Some(cmd) = line.trim().strip_prefix("dgpath screenshot ") else {
+            continue;
+        };
+        let args = split_args(cmd);
+        let out_i = args.iter().position(|a| a == "-o").unwrap() + 1;
+        let name = args[out_i].clone();
+        let mut args2 = args.clone();
+        let tmp_out = dir.path().join(Path::new(&name).file_name().unwrap());
+        args2[out_i] = tmp_out.display().to_string();
+        let st = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+            .arg("screenshot")
+            .args(&args2)
+            .current_dir(root)
+            .env_remove("NO_COLOR")
+            .output()
+            .unwrap();
+        assert!(
+            st.status.success(),
+            "{cmd}: {}",
+            String::from_utf8_lossy(&st.stderr)
+        );
+        for ext in ["txt", "svg"] {
+            let fresh = std::fs::read_to_string(format!("{}.{ext}", tmp_out.display())).unwrap();
+            let committed =
+                std::fs::read_to_string(root.join(format!("{name}.{ext}"))).unwrap_or_default();
+            assert!(
+                fresh == committed,
+                "{name}.{ext} is stale: run `{line}` (see screenshots/README.md)"
+            );
+        }
+        n += 1;
+    }
+    assert!(n >= 4, "screenshots/README.md lists {n} commands");
+}
+
+/// Splits a command line on spaces, keeping "double-quoted words" together.
+fn split_args(s: &str) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut quoted = false;
+    for c in s.chars() {
+        match c {
+            '"' => quoted = !quoted,
+            ' ' if !quoted => {
+                if !cur.is_empty() {
+                    out.push(std::mem::take(&mut cur));
+                }
+            }
+            _ => cur.push(c),
+        }
+    }
+    if !cur.is_empty() {
+        out.push(cur);
+    }
+    out
+}

@@ -1,0 +1,263 @@
+//! The explorer in a real terminal: tmux on a private server runs it on a
+//! copy of the demo, the test types keys, reads the screen, saves, quits and
+//! checks the exit status; a second test builds with the `test-panic`
+//! feature and checks that a panic leaves the terminal restored.
+
+use std::path::{Path, PathBuf};
+use std::process::Command;
+use std::time::{Duration, Instant};
+
+fn have_tmux() -> bool {
+    Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_ok_and(|o| o.status.success())
+}
+
+/// A private tmux server, killed on drop.
+struct Tmux {
+    socket: String,
+    conf: PathBuf,
+}
+
+impl Tmux {
+    fn new(dir: &Path, tag: &str) -> Tmux {
+        let conf = dir.join("tmux.conf");
+        std::fs::write(&conf, "set -g status off\nset -g remain-on-exit on\n").unwrap();
+        Tmux {
+            socket: format!("dgpath-{tag}-{}", std::process::id()),
+            conf,
+        }
+    }
+    fn cmd(&self, args: &[&str]) -> String {
+        let out = Command::new("tmux")
+            .arg("-L")
+            .arg(&self.socket)
+            .arg("-f")
+            .arg(&self.conf)
+            .args(args)
+            .output()
+            .expect("tmux runs");
+        String::from_utf8_lossy(&out.stdout).into_owned()
+    }
+    fn start(&self, dir: &Path, command: &str) {
+        self.cmd(&[
+            "new-session",
+            "-d",
+            "-s",
+            "t",
+            "-x",
+            "120",
+            "-y",
+            "36",
+            "-c",
+            &dir.display().to_string(),
+            command,
+        ]);
+    }
+    fn screen(&self) -> String {
+        self.cmd(&["capture-pane", "-p", "-t", "t"])
+    }
+    /// The screen with its scrollback.
+    fn screen_all(&self) -> String {
+        self.cmd(&["capture-pane", "-p", "-S", "-", "-t", "t"])
+    }
+    fn var(&self, name: &str) -> String {
+        self.cmd(&["display", "-p", "-t", "t", &format!("#{{{name}}}")])
+            .trim()
+            .to_string()
+    }
+    fn keys(&self, keys: &[&str]) {
+        let mut args = vec!["send-keys", "-t", "t"];
+        args.extend_from_slice(keys);
+        self.cmd(&args);
+    }
+    fn text(&self, text: &str) {
+        self.cmd(&["send-keys", "-t", "t", "-l", text]);
+    }
+    /// Polls until `ok` holds for the screen (never a bare sleep), or fails after 20 s.
+    fn wait(&self, what: &str, ok: impl Fn(&str) -> bool) -> String {
+        let t0 = Instant::now();
+        loop {
+            let s = self.screen();
+            if ok(&s) {
+                return s;
+            }
+            if t0.elapsed() > Duration::from_secs(20) {
+                panic!("timed out waiting for {what}; screen:\n{s}");
+            }
+            std::thread::sleep(Duration::from_millis(30));
+        }
+    }
+    fn wait_dead(&self) {
+        let t0 = Instant::now();
+        while self.var("pane_dead") != "1" {
+            assert!(
+                t0.elapsed() < Duration::from_secs(20),
+                "the explorer did not end:\n{}",
+                self.screen()
+            );
+            std::thread::sleep(Duration::from_millis(30));
+        }
+    }
+}
+
+impl Drop for Tmux {
+    fn drop(&mut self) {
+        let _ = Command::new("tmux")
+            .arg("-L")
+            .arg(&self.socket)
+            .arg("kill-server")
+            .output();
+    }
+}
+
+/// The dG' column of a step row in the step list.
+fn dg_on_screen(screen: &str, id: &str) -> f64 {
+    let words = |l: &str| -> Vec<String> {
+        l.split(|c: char| c == '│' || c.is_whitespace())
+            .filter(|w| !w.is_empty())
+            .map(String::from)
+            .collect()
+    };
+    // Rows read "▶ pfk  phosphofru…  -15.0  -11.1 ...": the id is among the first two words.
+    let line = screen
+        .lines()
+        .map(words)
+        .find(|w| w.iter().take(2).any(|x| x == id))
+        .unwrap_or_else(|| panic!("no row for {id}:\n{screen}"));
+    let nums: Vec<f64> = line.iter().filter_map(|w| w.parse::<f64>().ok()).collect();
+    nums[1]
+}
+
+#[test]
+fn explorer_in_tmux_edits_saves_and_quits_cleanly() {
+    if !have_tmux() {
+        eprintln!("skipped: tmux is not installed");
+        return;
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("fermenter.toml");
+    std::fs::write(&file, dgpath::DEMO).unwrap();
+    let t = Tmux::new(dir.path(), "edit");
+    t.start(
+        dir.path(),
+        &format!(
+            "env NO_COLOR=1 TERM=xterm-256color {} explore fermenter.toml",
+            env!("CARGO_BIN_EXE_dgpath")
+        ),
+    );
+    let s = t.wait("the first frame", |s| {
+        s.contains("Steps (") && s.contains("? keys")
+    });
+    let before = dg_on_screen(&s, "pfk");
+    assert_eq!(before, -11.1, "pfk dG' as in the report of the demo");
+    // Tab to the concentrations, down to f6p, type a value.
+    t.keys(&["Tab", "Down", "Down", "Enter"]);
+    t.wait("the edit line", |s| s.contains("f6p (now 0.35 mM)"));
+    t.text("2.5 mM");
+    t.keys(&["Enter"]);
+    let s = t.wait("the new value", |s| s.contains("f6p = 2.5 mM"));
+    // RT ln(2.5 / 0.35) at 30 C is 4.955 kJ/mol (R from the 2019 SI); f6p is a substrate of pfk.
+    let expected = -11.07 - 8.314462618e-3 * 303.15 * (2.5f64 / 0.35).ln();
+    let after = dg_on_screen(&s, "pfk");
+    assert!(
+        (after - expected).abs() < 0.06,
+        "pfk dG' {after}, expected {expected:.2}\n{s}"
+    );
+    assert!(s.contains("● unsaved"));
+    t.keys(&["s"]);
+    t.wait("the save message", |s| s.contains("saved fermenter.toml"));
+    let text = std::fs::read_to_string(&file).unwrap();
+    assert!(
+        text.contains(r#"f6p   = { name = "fructose 6-phosphate", conc = "2.5 mM", cv = 0.25 }"#),
+        "{text}"
+    );
+    assert!(text.contains("# INVENTED DEMO DATA") && text.contains("# also feeds storage sugars"));
+    // F12 does nothing in a normal build (the panic switch is a cargo feature, off by default).
+    t.keys(&["F12", "q"]);
+    t.wait_dead();
+    assert_eq!(t.var("pane_dead_status"), "0");
+    assert_eq!(t.var("alternate_on"), "0");
+}
+
+#[test]
+fn a_panic_in_the_explorer_restores_the_terminal() {
+    if !have_tmux() {
+        eprintln!("skipped: tmux is not installed");
+        return;
+    }
+    // A build with the test-panic switch, in its own target folder (the outer cargo holds ours).
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let target = root.join("target/panic");
+    // Seed it with a copy of the normal debug build, so that only dgpath itself is
+    // compiled again (the dependencies do not depend on dgpath's features).
+    let built = root.join("target/debug");
+    if !target.join("debug").exists() && built.join("deps").exists() {
+        std::fs::create_dir_all(target.join("debug")).unwrap();
+        let copied = Command::new("cp")
+            .arg("-a")
+            .args(["deps", "build", ".fingerprint"].map(|d| built.join(d)))
+            .arg(target.join("debug"))
+            .status();
+        if !matches!(copied, Ok(s) if s.success()) {
+            // Not fatal: cargo then builds everything in the new folder.
+            let _ = std::fs::remove_dir_all(target.join("debug"));
+        }
+    }
+    let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".into());
+    let st = Command::new(cargo)
+        .args([
+            "build",
+            "--quiet",
+            "--features",
+            "test-panic",
+            "--bin",
+            "dgpath",
+            "--target-dir",
+        ])
+        .arg(&target)
+        .current_dir(root)
+        .status()
+        .expect("cargo runs");
+    assert!(st.success(), "building with --features test-panic failed");
+    let bin = target.join("debug/dgpath");
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("f.toml"), dgpath::DEMO).unwrap();
+    let t = Tmux::new(dir.path(), "panic");
+    t.start(
+        dir.path(),
+        &format!(
+            "printf 'before-explorer\\n'; RUST_BACKTRACE=0 {} explore f.toml",
+            bin.display()
+        ),
+    );
+    t.wait("the first frame", |s| s.contains("Steps ("));
+    assert_eq!(
+        t.var("alternate_on"),
+        "1",
+        "the explorer draws on the alternate screen"
+    );
+    t.keys(&["F12"]);
+    t.wait_dead();
+    // With scrollback: the pane's first lines may have scrolled up.
+    let s = t.screen_all();
+    assert_eq!(
+        t.var("alternate_on"),
+        "0",
+        "alternate screen left after the panic:\n{s}"
+    );
+    assert!(
+        s.contains("before-explorer"),
+        "the shell's text is back:\n{s}"
+    );
+    assert!(
+        s.contains("test-panic: F12 pressed"),
+        "the panic message is readable:\n{s}"
+    );
+    assert!(
+        !s.contains("Steps ("),
+        "no explorer screen left behind:\n{s}"
+    );
+    assert_eq!(t.var("pane_dead_status"), "101", "a panic exits with 101");
+}
