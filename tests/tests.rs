@@ -1,9 +1,14 @@
+mod bad_input;
+mod cli;
 mod explorer;
 mod explorer_tmux;
+mod library;
 mod limits;
 mod mdf;
 mod plot;
 mod properties;
+mod references;
 mod regressions;
 mod samples;
+mod support;
 mod uncertainty;
