@@ -529,7 +529,7 @@ fn balance(
         }
     }
     for rs in steps.iter() {
-        if !(rs.times > 1e-9) || !rs.times.is_finite() {
+        if rs.times.is_nan() || rs.times <= 1e-9 || rs.times.is_infinite() {
             let st = &p.steps[rs.step];
             let c = st
                 .stoich
