@@ -178,7 +178,15 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
         let ci = p.compound(id).ok_or_else(|| {
             let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
                 .map(|s| format!("; did you mean '{s}'?"))
-                .unwrap_or_default();
+                .unwrap_or_else(|| {
+                    let ids: Vec<&str> = p
+                        .compounds
+                        .iter()
+                        .filter(|c| !c.is_solvent())
+                        .map(|c| c.id.as_str())
+                        .collect();
+                    format!("; the compounds are: {}", ids.join(", "))
+                });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
         })?;
         let v = units::parse(val, units::Kind::Concentration)

@@ -67,6 +67,12 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
         Err(e) => {
             let span = e.span();
             let msg = e.message().trim().to_string();
+            if msg == "duplicate key"
+                && let Some(m) = duplicate_key_message(text, &span)
+            {
+                cx.err(span, m);
+                return Err(cx.finish());
+            }
             cx.err(span, format!("TOML syntax error: {msg}"));
             return Err(cx.finish());
         }
@@ -76,6 +82,52 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
         Some(p) if cx.problems.is_empty() => Ok(p),
         _ => Err(cx.finish()),
     }
+}
+
+/// Names the key a TOML "duplicate key" error points at, and the table it is in.
+fn duplicate_key_message(text: &str, span: &Span) -> Option<String> {
+    let start = span.as_ref()?.start.min(text.len());
+    let rest = &text[start..];
+    let key: String = rest
+        .chars()
+        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_' || *c == '-')
+        .collect();
+    if key.is_empty() {
+        return None;
+    }
+    let line_of = |at: usize| text[..at].matches('\n').count() + 1;
+    // The table header above the key, and the first line of the same key under it.
+    let before = &text[..start];
+    let (table, table_start) = before
+        .match_indices('\n')
+        .map(|(i, _)| i + 1)
+        .chain(std::iter::once(0))
+        .filter_map(|i| {
+            let l = text[i..].lines().next().unwrap_or("").trim();
+            (l.starts_with('[') && !l.starts_with("[[")).then(|| {
+                (
+                    l.trim_matches(|c| c == '[' || c == ']').trim().to_string(),
+                    i,
+                )
+            })
+        })
+        .max_by_key(|&(_, i)| i)?;
+    let first = text[table_start..start]
+        .match_indices('\n')
+        .map(|(i, _)| table_start + i + 1)
+        .find(|&i| {
+            let l = &text[i..];
+            l.starts_with(key.as_str()) && l[key.len()..].trim_start().starts_with('=')
+        })
+        .map(line_of);
+    let at = first
+        .map(|l| format!(" (first at line {l})"))
+        .unwrap_or_default();
+    Some(if table == "compounds" {
+        format!("compound '{key}' is declared twice{at}; give each compound its own id")
+    } else {
+        format!("'{key}' is written twice in [{table}]{at}; keep one of them")
+    })
 }
 
 struct Cx<'s> {
