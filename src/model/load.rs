@@ -35,10 +35,16 @@ pub fn load_file(path: &std::path::Path) -> Result<Pathway, LoadError> {
     }
     let bytes = std::fs::read(path).map_err(|e| one(io_message(&e)))?;
     let text = String::from_utf8(bytes).map_err(|e| {
-        one(format!(
-            "is not UTF-8 text (bad byte at offset {}); save it as UTF-8",
-            e.utf8_error().valid_up_to()
-        ))
+        let at = e.utf8_error().valid_up_to();
+        let line = e.as_bytes()[..at].iter().filter(|&&b| b == b'\n').count() + 1;
+        LoadError {
+            problems: vec![Problem {
+                file: name.clone(),
+                line: Some(line),
+                column: None,
+                message: format!("is not UTF-8 text (bad byte at offset {at}); save it as UTF-8"),
+            }],
+        }
     })?;
     load_str(&text, &name)
 }
