@@ -1,1 +1,5 @@
-
+mod bad_input;
+mod cli;
+mod library;
+mod references;
+mod support;
