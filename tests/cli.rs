@@ -430,3 +430,47 @@ fn closed_pipe_ends_quietly() {
     assert!(!err.contains("error") && !err.contains("panicked"), "{err}");
     assert!(status.success(), "{status:?}");
 }
+
+#[test]
+fn ionic_strength_option() {
+    // A neutral compound becomes an ATP⁴⁻-like species (z² − N_H = 4): at I = 0.25 M, 25 °C
+    // dG'° moves by −3.239 kJ/mol (science.md §4 [C, from Alberty 2003 S]).
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("ionic.toml");
+    std::fs::write(
+        &file,
+        "format = 1\n[pathway]\nname = \"i\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
+         a = { conc = \"1 mM\", charge = 0, hydrogens = 0 }\nb = { conc = \"1 mM\", charge = -4, hydrogens = 12 }\n\
+         [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\n",
+    )
+    .unwrap();
+    let fs = file.to_str().unwrap();
+    let d = json(&[
+        "report",
+        fs,
+        "--format",
+        "json",
+        "--ionic-strength",
+        "250 mM",
+    ]);
+    close(f(&d["conditions"]["ionic_strength_m"]), 0.25, 1e-15);
+    close(f(&d["steps"][0]["dg0"]), -5.0 - 3.239, 5e-4);
+    // Without charges the correction cannot be made, and the report says so.
+    let c = chain();
+    let d = report_json(&["--ionic-strength", "0.1 M"]);
+    close(f(&d["steps"][0]["dg0"]), -5.0, 1e-9);
+    let notes: Vec<&str> = d["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|n| n.as_str().unwrap())
+        .collect();
+    assert!(
+        notes
+            .iter()
+            .any(|n| n.contains("lack charge and hydrogens")),
+        "{notes:?}"
+    );
+    let out = run(&["report", &c, "--ionic-strength=-1 M"]);
+    assert_eq!(out.status.code(), Some(1));
+}
