@@ -177,8 +177,12 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
             let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
                 .map(|s| format!("; did you mean '{s}'?"))
                 .unwrap_or_else(|| {
-                    let ids: Vec<&str> =
-                        p.compounds.iter().filter(|c| !c.is_solvent()).map(|c| c.id.as_str()).collect();
+                    let ids: Vec<&str> = p
+                        .compounds
+                        .iter()
+                        .filter(|c| !c.is_solvent())
+                        .map(|c| c.id.as_str())
+                        .collect();
                     format!("; the compounds are: {}", ids.join(", "))
                 });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
