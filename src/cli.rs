@@ -1,10 +1,10 @@
 //! Command-line definitions and dispatch. Thin: it turns arguments into a
 //! prepared pathway, a scenario state and options, then calls the library.
 
-use anyhow::{anyhow, bail, Context, Result};
+use anyhow::{Context, Result, anyhow, bail};
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use dgpath::analysis::{self, Direction, Prepared};
-use dgpath::model::{self, units, LoadError};
+use dgpath::model::{self, LoadError, units};
 use dgpath::report::{self, EnergyUnit, TextOptions};
 use dgpath::scenario::State;
 use std::io::{IsTerminal, Write};
@@ -150,7 +150,8 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
     let p = &prep.pathway;
     let mut s = State::from_pathway(p);
     if let Some(t) = &c.temperature {
-        s.conditions.temperature = units::parse(t, units::Kind::Temperature).map_err(|e| anyhow!("--temperature: {e}"))?;
+        s.conditions.temperature =
+            units::parse(t, units::Kind::Temperature).map_err(|e| anyhow!("--temperature: {e}"))?;
         if s.conditions.temperature <= 0.0 {
             bail!("--temperature: {t} is at or below absolute zero; write e.g. \"37 C\"");
         }
@@ -162,7 +163,8 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
         s.conditions.ph = ph;
     }
     if let Some(i) = &c.ionic_strength {
-        let v = units::parse(i, units::Kind::IonicStrength).map_err(|e| anyhow!("--ionic-strength: {e}"))?;
+        let v = units::parse(i, units::Kind::IonicStrength)
+            .map_err(|e| anyhow!("--ionic-strength: {e}"))?;
         if v < 0.0 {
             bail!("--ionic-strength: cannot be negative; write e.g. \"0.15 M\"");
         }
@@ -187,12 +189,15 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
                 });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
         })?;
-        let v = units::parse(val, units::Kind::Concentration).map_err(|e| anyhow!("--set '{item}': {e}"))?;
+        let v = units::parse(val, units::Kind::Concentration)
+            .map_err(|e| anyhow!("--set '{item}': {e}"))?;
         if v <= 0.0 {
             bail!("--set '{item}': a concentration must be above zero; write e.g. {id}=1uM");
         }
         if p.compounds[ci].is_solvent() {
-            bail!("--set '{item}': '{id}' is a solvent (activity 1); its concentration does not enter Q");
+            bail!(
+                "--set '{item}': '{id}' is a solvent (activity 1); its concentration does not enter Q"
+            );
         }
         s.conc[ci] = v;
     }
@@ -231,7 +236,16 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()
         }
         Format::Csv => report::csv(prep, &a, u),
         Format::Md => report::markdown(prep, &state, &a, u),
-        Format::Table => report::table(prep, &state, &a, TextOptions { unit: u, color: colour_ok(), ascii: false }),
+        Format::Table => report::table(
+            prep,
+            &state,
+            &a,
+            TextOptions {
+                unit: u,
+                color: colour_ok(),
+                ascii: false,
+            },
+        ),
     };
     emit(&text)
 }
@@ -254,18 +268,30 @@ pub fn run(cli: Cli) -> Result<()> {
                 prep.forward.steps.len()
             );
             if let Err(e) = &prep.reverse {
-                msg.push_str(&format!("\nnote: the reverse route cannot be built: {}", e.message));
+                msg.push_str(&format!(
+                    "\nnote: the reverse route cannot be built: {}",
+                    e.message
+                ));
             }
             emit(&(msg + "\n"))
         }
-        Some(Command::Report { file, common, format }) => {
+        Some(Command::Report {
+            file,
+            common,
+            format,
+        }) => {
             if common.samples.is_some() {
-                bail!("--samples is not available in this version of dgpath yet; run report once per sample with --set");
+                bail!(
+                    "--samples is not available in this version of dgpath yet; run report once per sample with --set"
+                );
             }
             let prep = load(&file)?;
             run_report(&prep, &common, format)
         }
-        Some(Command::Explore { .. }) | Some(Command::Mdf { .. }) | Some(Command::Plot { .. }) | Some(Command::Screenshot { .. }) => {
+        Some(Command::Explore { .. })
+        | Some(Command::Mdf { .. })
+        | Some(Command::Plot { .. })
+        | Some(Command::Screenshot { .. }) => {
             bail!("this command is not available in this version of dgpath yet")
         }
     }
@@ -276,13 +302,21 @@ pub const STARTER: &str = include_str!("starter.toml");
 
 fn new_file(path: &Path) -> Result<()> {
     if path.exists() {
-        bail!("{} already exists; dgpath new never overwrites a file — pick another name", path.display());
+        bail!(
+            "{} already exists; dgpath new never overwrites a file — pick another name",
+            path.display()
+        );
     }
     let mut f = std::fs::OpenOptions::new()
         .write(true)
         .create_new(true)
         .open(path)
         .with_context(|| format!("{}: cannot create the file", path.display()))?;
-    f.write_all(STARTER.as_bytes()).with_context(|| format!("{}: cannot write", path.display()))?;
-    emit(&format!("wrote {}; edit it, then run: dgpath check {}\n", path.display(), path.display()))
+    f.write_all(STARTER.as_bytes())
+        .with_context(|| format!("{}: cannot write", path.display()))?;
+    emit(&format!(
+        "wrote {}; edit it, then run: dgpath check {}\n",
+        path.display(),
+        path.display()
+    ))
 }

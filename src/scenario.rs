@@ -18,7 +18,11 @@ pub struct State {
 impl State {
     /// The state a file describes.
     pub fn from_pathway(p: &Pathway) -> Self {
-        State { conditions: p.conditions, conc: p.file_concentrations(), direction: Direction::Forward }
+        State {
+            conditions: p.conditions,
+            conc: p.file_concentrations(),
+            direction: Direction::Forward,
+        }
     }
 }
 
@@ -33,7 +37,11 @@ pub struct Scenario {
 impl Scenario {
     /// Starts a scenario at `state` with empty history.
     pub fn new(state: State) -> Self {
-        Scenario { current: state, undo: Vec::new(), redo: Vec::new() }
+        Scenario {
+            current: state,
+            undo: Vec::new(),
+            redo: Vec::new(),
+        }
     }
     /// The current state.
     pub fn state(&self) -> &State {
@@ -86,7 +94,11 @@ mod tests {
 
     fn st(x: f64) -> State {
         State {
-            conditions: Conditions { temperature: 303.15, ph: 7.0, ionic_strength: 0.0 },
+            conditions: Conditions {
+                temperature: 303.15,
+                ph: 7.0,
+                ionic_strength: 0.0,
+            },
             conc: vec![x],
             direction: Direction::Forward,
         }

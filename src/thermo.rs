@@ -72,7 +72,12 @@ pub fn reference_dg0(step: &Step, reference: &Conditions) -> f64 {
 
 /// dG'° (J/mol) of a step as written, at `at`: temperature first, then pH
 /// (RT at the new temperature), then ionic strength.
-pub fn dg0_at(step: &Step, compounds: &[Compound], reference: &Conditions, at: &Conditions) -> (f64, Corrections) {
+pub fn dg0_at(
+    step: &Step,
+    compounds: &[Compound],
+    reference: &Conditions,
+    at: &Conditions,
+) -> (f64, Corrections) {
     let mut c = Corrections::default();
     let mut g = reference_dg0(step, reference);
     if (at.temperature - reference.temperature).abs() > 1e-9 {

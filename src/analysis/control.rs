@@ -57,10 +57,16 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
         let products: Vec<usize> = st
             .stoich
             .iter()
-            .filter(|&&(c, nu)| nu * s.sign > 0.0 && !matches!(a.roles[c], Role::Currency | Role::Solvent))
+            .filter(|&&(c, nu)| {
+                nu * s.sign > 0.0 && !matches!(a.roles[c], Role::Currency | Role::Solvent)
+            })
             .map(|&(c, _)| c)
             .collect();
-        let branching: Vec<&str> = products.iter().filter(|&&c| a.branch[c]).map(|&c| p.compounds[c].id.as_str()).collect();
+        let branching: Vec<&str> = products
+            .iter()
+            .filter(|&&c| a.branch[c])
+            .map(|&c| p.compounds[c].id.as_str())
+            .collect();
         let kind = if k + 1 == n {
             reasons.push(format!(
                 "last step of the route ({dg}): by the time material reaches it, every step before has already committed it, so controlling here would only pile up intermediates"
@@ -89,7 +95,10 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             for m in pk..k {
                 let sm = &a.steps[m];
                 for &(c, nu) in &p.steps[sm.step].stoich {
-                    if nu * sm.sign > 0.0 && a.branch[c] && !between.contains(&p.compounds[c].id.as_str()) {
+                    if nu * sm.sign > 0.0
+                        && a.branch[c]
+                        && !between.contains(&p.compounds[c].id.as_str())
+                    {
                         between.push(&p.compounds[c].id);
                     }
                 }
@@ -105,7 +114,11 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             VerdictKind::Candidate
         };
         if !s.class_sure {
-            let other = if s.class_range.0 != Class::Far { s.class_range.0 } else { s.class_range.1 };
+            let other = if s.class_range.0 != Class::Far {
+                s.class_range.0
+            } else {
+                s.class_range.1
+            };
             reasons.push(format!(
                 "not sure: within the 95 % interval of dG' (± {:.1} kJ/mol) it could be {}, and then it would get no verdict",
                 s.dg_sd.unwrap_or(0.0) * super::Z95 / 1e3,
@@ -113,10 +126,22 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             ));
         }
         if let Some(g) = a.groups.iter().find(|g| g.members.contains(&k)) {
-            let ids: Vec<&str> = g.members.iter().map(|&m| p.steps[a.steps[m].step].id.as_str()).collect();
-            reasons.push(format!("read together with {} (coupled, group dG' = {:.1} kJ/mol)", ids.join(" + "), g.dg / 1e3));
+            let ids: Vec<&str> = g
+                .members
+                .iter()
+                .map(|&m| p.steps[a.steps[m].step].id.as_str())
+                .collect();
+            reasons.push(format!(
+                "read together with {} (coupled, group dG' = {:.1} kJ/mol)",
+                ids.join(" + "),
+                g.dg / 1e3
+            ));
         }
-        out.push(Verdict { position: k, kind, reasons });
+        out.push(Verdict {
+            position: k,
+            kind,
+            reasons,
+        });
     }
     out
 }

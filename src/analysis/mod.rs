@@ -7,7 +7,7 @@ pub mod control;
 mod route;
 
 pub use control::{Verdict, VerdictKind};
-pub use route::{build, prepare, Direction, Prepared, Role, Route, RouteStep};
+pub use route::{Direction, Prepared, Role, Route, RouteStep, build, prepare};
 
 use crate::model::{Pathway, Problem};
 use crate::scenario::State;
@@ -197,20 +197,37 @@ pub fn analyze(prep: &Prepared, state: &State) -> Result<Analysis, Problem> {
     let route = prep.route(state.direction).map_err(Clone::clone)?;
     let mut a = analyze_route(&prep.pathway, route, state);
     if state.direction == Direction::Reverse {
-        let fwd_state = State { direction: Direction::Forward, ..state.clone() };
+        let fwd_state = State {
+            direction: Direction::Forward,
+            ..state.clone()
+        };
         let fwd = analyze_route(&prep.pathway, &prep.forward, &fwd_state);
-        let prime = fwd.control.iter().find(|v| v.kind == VerdictKind::Prime).map(|v| fwd.steps[v.position].step);
+        let prime = fwd
+            .control
+            .iter()
+            .find(|v| v.kind == VerdictKind::Prime)
+            .map(|v| fwd.steps[v.position].step);
         a.counterpart = prime.and_then(|ps| a.steps.iter().position(|s| s.replaces == Some(ps)));
         for (k, s) in a.steps.iter().enumerate() {
             if s.sign < 0.0 && s.class == Class::Uphill {
-                a.needs_bypass.push(NeedsBypass { position: k, lacks: s.dg });
+                a.needs_bypass.push(NeedsBypass {
+                    position: k,
+                    lacks: s.dg,
+                });
             }
         }
     }
     Ok(a)
 }
 
-fn step_result(p: &Pathway, step: usize, sign: f64, times: f64, replaces: Option<usize>, state: &State) -> StepResult {
+fn step_result(
+    p: &Pathway,
+    step: usize,
+    sign: f64,
+    times: f64,
+    replaces: Option<usize>,
+    state: &State,
+) -> StepResult {
     let st = &p.steps[step];
     let t = state.conditions.temperature;
     let rt = thermo::rt(t);
@@ -229,7 +246,11 @@ fn step_result(p: &Pathway, step: usize, sign: f64, times: f64, replaces: Option
         let nu = nu0 * sign;
         let l = state.conc[c].ln();
         ln_q += nu * l;
-        contributions.push(Contribution { compound: c, nu, energy: nu * rt * l });
+        contributions.push(Contribution {
+            compound: c,
+            nu,
+            energy: nu * rt * l,
+        });
         if let Some(cv) = comp.cv {
             any_unc = true;
             let v = (rt * nu * thermo::ln_sd_from_cv(cv)).powi(2);
@@ -244,7 +265,10 @@ fn step_result(p: &Pathway, step: usize, sign: f64, times: f64, replaces: Option
     let s = &p.settings;
     let class = Class::of(dg, s.far, s.near_factor, rt);
     let class_range = match dg_sd {
-        Some(sd) => (Class::of(dg - Z95 * sd, s.far, s.near_factor, rt), Class::of(dg + Z95 * sd, s.far, s.near_factor, rt)),
+        Some(sd) => (
+            Class::of(dg - Z95 * sd, s.far, s.near_factor, rt),
+            Class::of(dg + Z95 * sd, s.far, s.near_factor, rt),
+        ),
         None => (class, class),
     };
     StepResult {
@@ -271,7 +295,12 @@ fn step_result(p: &Pathway, step: usize, sign: f64, times: f64, replaces: Option
 }
 
 /// Variance of Σ w_k dG'_k over route positions, counting shared compounds.
-fn weighted_sd(p: &Pathway, steps: &[StepResult], members: &[(usize, f64)], rt: f64) -> Option<f64> {
+fn weighted_sd(
+    p: &Pathway,
+    steps: &[StepResult],
+    members: &[(usize, f64)],
+    rt: f64,
+) -> Option<f64> {
     let mut any = false;
     let mut var = 0.0;
     let mut per_compound: Vec<f64> = vec![0.0; p.compounds.len()];
@@ -287,7 +316,9 @@ fn weighted_sd(p: &Pathway, steps: &[StepResult], members: &[(usize, f64)], rt: 
     }
     for (c, &coef) in per_compound.iter().enumerate() {
         if let Some(cv) = p.compounds[c].cv {
-            let used = members.iter().any(|&(k, _)| steps[k].contributions.iter().any(|x| x.compound == c));
+            let used = members
+                .iter()
+                .any(|&(k, _)| steps[k].contributions.iter().any(|x| x.compound == c));
             if used {
                 any = true;
                 var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
@@ -299,9 +330,16 @@ fn weighted_sd(p: &Pathway, steps: &[StepResult], members: &[(usize, f64)], rt: 
 
 fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
     let rt = thermo::rt(state.conditions.temperature);
-    let mut steps: Vec<StepResult> =
-        route.steps.iter().map(|r| step_result(p, r.step, r.sign, r.times, r.replaces, state)).collect();
-    let side: Vec<StepResult> = route.side.iter().map(|&s| step_result(p, s, 1.0, 1.0, None, state)).collect();
+    let mut steps: Vec<StepResult> = route
+        .steps
+        .iter()
+        .map(|r| step_result(p, r.step, r.sign, r.times, r.replaces, state))
+        .collect();
+    let side: Vec<StepResult> = route
+        .side
+        .iter()
+        .map(|&s| step_result(p, s, 1.0, 1.0, None, state))
+        .collect();
     let (mut cum, mut cum0, mut drop) = (0.0, 0.0, 0.0);
     for s in &steps {
         if s.weighted() < 0.0 {
@@ -314,7 +352,11 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         cum0 += s.times * s.dg0;
         s.cumulative = cum;
         s.cumulative_dg0 = cum0;
-        s.share = if s.weighted() < 0.0 && drop < 0.0 { s.weighted() / drop } else { 0.0 };
+        s.share = if s.weighted() < 0.0 && drop < 0.0 {
+            s.weighted() / drop
+        } else {
+            0.0
+        };
         if s.weighted() < 0.0 && largest.is_none_or(|(_, w)| s.weighted() < w) {
             largest = Some((k, s.weighted()));
         }
@@ -325,10 +367,19 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         .map(|g| Group {
             members: g.clone(),
             dg: g.iter().map(|&k| steps[k].dg).sum(),
-            dg_sd: weighted_sd(p, &steps, &g.iter().map(|&k| (k, 1.0)).collect::<Vec<_>>(), rt),
+            dg_sd: weighted_sd(
+                p,
+                &steps,
+                &g.iter().map(|&k| (k, 1.0)).collect::<Vec<_>>(),
+                rt,
+            ),
         })
         .collect();
-    let all: Vec<(usize, f64)> = steps.iter().enumerate().map(|(k, s)| (k, s.times)).collect();
+    let all: Vec<(usize, f64)> = steps
+        .iter()
+        .enumerate()
+        .map(|(k, s)| (k, s.times))
+        .collect();
     let total_sd = weighted_sd(p, &steps, &all, rt);
     let mut net = Vec::new();
     for (c, role) in route.roles.iter().enumerate() {
@@ -380,7 +431,11 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
     let r = &p.reference;
     let all: Vec<&StepResult> = a.steps.iter().chain(a.side.iter()).collect();
     if (c.temperature - r.temperature).abs() > 1e-9 {
-        let kept: Vec<&str> = all.iter().filter(|s| s.kept_reference_dg0).map(|s| p.steps[s.step].id.as_str()).collect();
+        let kept: Vec<&str> = all
+            .iter()
+            .filter(|s| s.kept_reference_dg0)
+            .map(|s| p.steps[s.step].id.as_str())
+            .collect();
         if kept.is_empty() {
             out.push(format!(
                 "dG'° moved from {:.2} °C to {:.2} °C with Gibbs–Helmholtz (dh0 of every step).",
@@ -401,7 +456,10 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
         for s in &all {
             for &(ci, _) in &p.steps[s.step].stoich {
                 let comp = &p.compounds[ci];
-                if !comp.is_solvent() && (comp.charge.is_none() || comp.hydrogens.is_none()) && !lacking.contains(&comp.id.as_str()) {
+                if !comp.is_solvent()
+                    && (comp.charge.is_none() || comp.hydrogens.is_none())
+                    && !lacking.contains(&comp.id.as_str())
+                {
                     lacking.push(&comp.id);
                 }
             }
@@ -424,7 +482,10 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
     for s in &a.steps {
         if s.class == Class::Uphill {
             let id = &p.steps[s.step].id;
-            let grp = a.groups.iter().find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
+            let grp = a
+                .groups
+                .iter()
+                .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
             match grp {
                 Some(g) if g.dg < 0.0 => out.push(format!(
                     "{id} is uphill (dG' = {:+.1} kJ/mol) but its coupled group runs downhill ({:+.1} kJ/mol).",

@@ -125,13 +125,23 @@ impl Prepared {
 
 /// Builds both routes; errors only for the forward route.
 pub fn prepare(pathway: Pathway) -> Result<Prepared, LoadError> {
-    let forward = build(&pathway, Direction::Forward).map_err(|p| LoadError { problems: vec![p] })?;
+    let forward =
+        build(&pathway, Direction::Forward).map_err(|p| LoadError { problems: vec![p] })?;
     let reverse = build(&pathway, Direction::Reverse);
-    Ok(Prepared { pathway, forward, reverse })
+    Ok(Prepared {
+        pathway,
+        forward,
+        reverse,
+    })
 }
 
 fn problem(p: &Pathway, line: Option<usize>, message: String) -> Problem {
-    Problem { file: p.file.clone(), line, column: None, message }
+    Problem {
+        file: p.file.clone(),
+        line,
+        column: None,
+        message,
+    }
 }
 
 /// Builds the route in one direction.
@@ -141,18 +151,35 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
     match direction {
         Direction::Forward => {
             for &s in &p.route {
-                steps.push(RouteStep { step: s, sign: 1.0, times: 1.0, replaces: None });
+                steps.push(RouteStep {
+                    step: s,
+                    sign: 1.0,
+                    times: 1.0,
+                    replaces: None,
+                });
             }
         }
         Direction::Reverse => {
             for &f in p.route.iter().rev() {
-                let bypasses: Vec<usize> = (0..p.steps.len()).filter(|&b| p.steps[b].bypass_of == Some(f)).collect();
+                let bypasses: Vec<usize> = (0..p.steps.len())
+                    .filter(|&b| p.steps[b].bypass_of == Some(f))
+                    .collect();
                 if bypasses.is_empty() {
-                    steps.push(RouteStep { step: f, sign: -1.0, times: 1.0, replaces: None });
+                    steps.push(RouteStep {
+                        step: f,
+                        sign: -1.0,
+                        times: 1.0,
+                        replaces: None,
+                    });
                     unbypassed.push(f);
                 } else {
                     for b in bypasses {
-                        steps.push(RouteStep { step: b, sign: 1.0, times: 1.0, replaces: Some(f) });
+                        steps.push(RouteStep {
+                            step: b,
+                            sign: 1.0,
+                            times: 1.0,
+                            replaces: Some(f),
+                        });
                     }
                 }
             }
@@ -241,7 +268,10 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                 in_group[m] = true;
             }
             let t0 = steps[chain[0]].times;
-            if let Some(&bad) = chain.iter().find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0)) {
+            if let Some(&bad) = chain
+                .iter()
+                .find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0))
+            {
                 let a = &p.steps[steps[chain[0]].step];
                 let b = &p.steps[steps[bad].step];
                 return Err(problem(
@@ -249,7 +279,10 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                     Some(a.line),
                     format!(
                         "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
-                        a.id, b.id, fmt_t(t0), fmt_t(steps[bad].times)
+                        a.id,
+                        b.id,
+                        fmt_t(t0),
+                        fmt_t(steps[bad].times)
                     ),
                 ));
             }
@@ -259,7 +292,10 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
     if direction == Direction::Forward {
         for &s in &p.route {
             if let Some(c) = p.steps[s].couple {
-                let (ps, pc) = (p.route.iter().position(|&x| x == s), p.route.iter().position(|&x| x == c));
+                let (ps, pc) = (
+                    p.route.iter().position(|&x| x == s),
+                    p.route.iter().position(|&x| x == c),
+                );
                 if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
                     return Err(problem(
                         p,
@@ -273,12 +309,28 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    Ok(Route { direction, steps, roles, branch, groups, side, unbypassed })
+    Ok(Route {
+        direction,
+        steps,
+        roles,
+        branch,
+        groups,
+        side,
+        unbypassed,
+    })
 }
 
 fn build_forward_first_times(p: &Pathway) -> Result<f64, Problem> {
-    let mut steps: Vec<RouteStep> =
-        p.route.iter().map(|&s| RouteStep { step: s, sign: 1.0, times: 1.0, replaces: None }).collect();
+    let mut steps: Vec<RouteStep> = p
+        .route
+        .iter()
+        .map(|&s| RouteStep {
+            step: s,
+            sign: 1.0,
+            times: 1.0,
+            replaces: None,
+        })
+        .collect();
     let roles = build_roles_quick(p, &steps);
     balance(p, &mut steps, &roles, Direction::Forward)?;
     Ok(steps[0].times)
@@ -317,12 +369,22 @@ fn fmt_t(t: f64) -> String {
 /// Solves the mass balance of intermediates for the turns of each route step.
 /// Stated `times` are held; the earliest undetermined step of each connected
 /// part makes one turn.
-fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Direction) -> Result<(), Problem> {
+fn balance(
+    p: &Pathway,
+    steps: &mut [RouteStep],
+    roles: &[Role],
+    direction: Direction,
+) -> Result<(), Problem> {
     let n = steps.len();
-    let inter: Vec<usize> = (0..roles.len()).filter(|&c| roles[c] == Role::Intermediate).collect();
+    let inter: Vec<usize> = (0..roles.len())
+        .filter(|&c| roles[c] == Role::Intermediate)
+        .collect();
     // Unknown columns, latest step first, so that pivots fall on later steps
     // and the free (anchor) columns are the earliest ones.
-    let unknown: Vec<usize> = (0..n).rev().filter(|&k| p.steps[steps[k].step].times.is_none()).collect();
+    let unknown: Vec<usize> = (0..n)
+        .rev()
+        .filter(|&k| p.steps[steps[k].step].times.is_none())
+        .collect();
     let col_of: Vec<Option<usize>> = {
         let mut v = vec![None; n];
         for (j, &k) in unknown.iter().enumerate() {
@@ -334,7 +396,8 @@ fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Dire
     let mut rows: Vec<Vec<f64>> = Vec::with_capacity(inter.len());
     let mut rhs: Vec<f64> = Vec::with_capacity(inter.len());
     let mut label: Vec<usize> = Vec::with_capacity(inter.len());
-    let cidx: std::collections::HashMap<usize, usize> = inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
+    let cidx: std::collections::HashMap<usize, usize> =
+        inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
     for _ in &inter {
         rows.push(vec![0.0; m]);
         rhs.push(0.0);
@@ -456,14 +519,32 @@ fn balance(p: &Pathway, steps: &mut [RouteStep], roles: &[Role], direction: Dire
         }
         if sum.abs() > 1e-7 * scale.max(1.0) {
             let _ = &label;
-            return Err(unbalanced(c, format!("what the route makes and uses of it differs by {} per pass", fmt_t(sum))));
+            return Err(unbalanced(
+                c,
+                format!(
+                    "what the route makes and uses of it differs by {} per pass",
+                    fmt_t(sum)
+                ),
+            ));
         }
     }
     for rs in steps.iter() {
         if !(rs.times > 1e-9) || !rs.times.is_finite() {
             let st = &p.steps[rs.step];
-            let c = st.stoich.iter().map(|&(c, _)| c).find(|c| roles[*c] == Role::Intermediate).unwrap_or(st.stoich[0].0);
-            return Err(unbalanced(c, format!("step '{}' would have to make {} turns per pass", st.id, fmt_t(rs.times))));
+            let c = st
+                .stoich
+                .iter()
+                .map(|&(c, _)| c)
+                .find(|c| roles[*c] == Role::Intermediate)
+                .unwrap_or(st.stoich[0].0);
+            return Err(unbalanced(
+                c,
+                format!(
+                    "step '{}' would have to make {} turns per pass",
+                    st.id,
+                    fmt_t(rs.times)
+                ),
+            ));
         }
     }
     Ok(())

@@ -13,11 +13,18 @@ pub const MAX_FILE_BYTES: u64 = 50 * 1024 * 1024;
 pub fn load_file(path: &std::path::Path) -> Result<Pathway, LoadError> {
     let name = path.display().to_string();
     let one = |message: String| LoadError {
-        problems: vec![Problem { file: name.clone(), line: None, column: None, message }],
+        problems: vec![Problem {
+            file: name.clone(),
+            line: None,
+            column: None,
+            message,
+        }],
     };
     let meta = std::fs::metadata(path).map_err(|e| one(io_message(&e)))?;
     if meta.is_dir() {
-        return Err(one("is a folder, not a pathway file; give the path of a .toml file".into()));
+        return Err(one(
+            "is a folder, not a pathway file; give the path of a .toml file".into(),
+        ));
     }
     if meta.len() > MAX_FILE_BYTES {
         return Err(one(format!(
@@ -44,15 +51,23 @@ pub fn load_file(path: &std::path::Path) -> Result<Pathway, LoadError> {
 
 fn io_message(e: &std::io::Error) -> String {
     match e.kind() {
-        std::io::ErrorKind::NotFound => "no such file; check the path (dgpath new FILE writes a starter file)".into(),
-        std::io::ErrorKind::PermissionDenied => "cannot be read (permission denied); check the file's permissions".into(),
+        std::io::ErrorKind::NotFound => {
+            "no such file; check the path (dgpath new FILE writes a starter file)".into()
+        }
+        std::io::ErrorKind::PermissionDenied => {
+            "cannot be read (permission denied); check the file's permissions".into()
+        }
         _ => format!("cannot be read: {e}"),
     }
 }
 
 /// Parses and checks pathway text; `file` names it in messages.
 pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
-    let mut cx = Cx { file: file.to_string(), src: text, problems: Vec::new() };
+    let mut cx = Cx {
+        file: file.to_string(),
+        src: text,
+        problems: Vec::new(),
+    };
     let doc = match Document::parse(text) {
         Ok(d) => d,
         Err(e) => {
@@ -129,7 +144,14 @@ struct Cx<'s> {
 
 type Span = Option<std::ops::Range<usize>>;
 
-const TOP: &[&str] = &["format", "pathway", "conditions", "analysis", "compounds", "steps"];
+const TOP: &[&str] = &[
+    "format",
+    "pathway",
+    "conditions",
+    "analysis",
+    "compounds",
+    "steps",
+];
 const PATHWAY: &[&str] = &["name", "description", "route"];
 const CONDITIONS: &[&str] = &[
     "temperature",
@@ -140,10 +162,29 @@ const CONDITIONS: &[&str] = &[
     "reference_ionic_strength",
 ];
 const ANALYSIS: &[&str] = &["far", "near_factor", "bounds"];
-const COMPOUND: &[&str] =
-    &["name", "conc", "role", "branch", "bounds", "fixed", "cv", "charge", "hydrogens"];
+const COMPOUND: &[&str] = &[
+    "name",
+    "conc",
+    "role",
+    "branch",
+    "bounds",
+    "fixed",
+    "cv",
+    "charge",
+    "hydrogens",
+];
 const STEP: &[&str] = &[
-    "id", "enzyme", "reaction", "dg0", "keq", "dg0_sd", "dh0", "protons", "times", "side", "couple",
+    "id",
+    "enzyme",
+    "reaction",
+    "dg0",
+    "keq",
+    "dg0_sd",
+    "dh0",
+    "protons",
+    "times",
+    "side",
+    "couple",
     "bypass_of",
 ];
 
@@ -165,9 +206,12 @@ struct RawStep {
 
 impl<'s> Cx<'s> {
     fn finish(mut self) -> LoadError {
-        self.problems.sort_by_key(|p| (p.line.unwrap_or(0), p.column.unwrap_or(0)));
+        self.problems
+            .sort_by_key(|p| (p.line.unwrap_or(0), p.column.unwrap_or(0)));
         self.problems.dedup();
-        LoadError { problems: self.problems }
+        LoadError {
+            problems: self.problems,
+        }
     }
 
     fn pos(&self, span: &Span) -> (Option<usize>, Option<usize>) {
@@ -189,7 +233,12 @@ impl<'s> Cx<'s> {
 
     fn err(&mut self, span: Span, message: String) {
         let (line, column) = self.pos(&span);
-        self.problems.push(Problem { file: self.file.clone(), line, column: column.filter(|_| false), message });
+        self.problems.push(Problem {
+            file: self.file.clone(),
+            line,
+            column: column.filter(|_| false),
+            message,
+        });
         if let Some(p) = self.problems.last_mut() {
             // Columns only matter for syntax errors; keep them there.
             if p.message.starts_with("TOML syntax") {
@@ -213,11 +262,15 @@ impl<'s> Cx<'s> {
     }
 
     fn key_span(t: &dyn TableLike, k: &str) -> Span {
-        t.key(k).and_then(|k| k.span()).or_else(|| t.get(k).and_then(|i| i.span()))
+        t.key(k)
+            .and_then(|k| k.span())
+            .or_else(|| t.get(k).and_then(|i| i.span()))
     }
 
     fn value_span(t: &dyn TableLike, k: &str) -> Span {
-        t.get(k).and_then(|i| i.span()).or_else(|| Self::key_span(t, k))
+        t.get(k)
+            .and_then(|i| i.span())
+            .or_else(|| Self::key_span(t, k))
     }
 
     fn string(&mut self, t: &dyn TableLike, k: &str, what: &str) -> Option<String> {
@@ -225,7 +278,10 @@ impl<'s> Cx<'s> {
         match item.as_str() {
             Some(s) => Some(s.to_string()),
             None => {
-                self.err(Self::value_span(t, k), format!("{what}.{k} must be text in quotes, e.g. {k} = \"...\""));
+                self.err(
+                    Self::value_span(t, k),
+                    format!("{what}.{k} must be text in quotes, e.g. {k} = \"...\""),
+                );
                 None
             }
         }
@@ -233,10 +289,16 @@ impl<'s> Cx<'s> {
 
     fn number(&mut self, t: &dyn TableLike, k: &str, what: &str) -> Option<f64> {
         let item = t.get(k)?;
-        match item.as_float().or_else(|| item.as_integer().map(|i| i as f64)) {
+        match item
+            .as_float()
+            .or_else(|| item.as_integer().map(|i| i as f64))
+        {
             Some(v) if v.is_finite() => Some(v),
             _ => {
-                self.err(Self::value_span(t, k), format!("{what}.{k} must be a number, e.g. {k} = 2"));
+                self.err(
+                    Self::value_span(t, k),
+                    format!("{what}.{k} must be a number, e.g. {k} = 2"),
+                );
                 None
             }
         }
@@ -247,7 +309,10 @@ impl<'s> Cx<'s> {
         match item.as_bool() {
             Some(b) => b,
             None => {
-                self.err(Self::value_span(t, k), format!("{what}.{k} must be true or false"));
+                self.err(
+                    Self::value_span(t, k),
+                    format!("{what}.{k} must be true or false"),
+                );
                 false
             }
         }
@@ -264,7 +329,10 @@ impl<'s> Cx<'s> {
         match r {
             Ok(x) if x.is_finite() => Some(x),
             Ok(_) => {
-                self.err(span, format!("{what}: value is not finite; write e.g. {}", kind.example()));
+                self.err(
+                    span,
+                    format!("{what}: value is not finite; write e.g. {}", kind.example()),
+                );
                 None
             }
             Err(m) => {
@@ -280,7 +348,10 @@ impl<'s> Cx<'s> {
         match item.as_value() {
             Some(v) => self.quantity_value(v, span, kind, &format!("{what}.{k}")),
             None => {
-                self.err(span, format!("{what}.{k}: expected a value such as {}", kind.example()));
+                self.err(
+                    span,
+                    format!("{what}.{k}: expected a value such as {}", kind.example()),
+                );
                 None
             }
         }
@@ -290,14 +361,32 @@ impl<'s> Cx<'s> {
         let item = t.get(k)?;
         let span = Self::value_span(t, k);
         let Some(arr) = item.as_array().filter(|a| a.len() == 2) else {
-            self.err(span, format!("{what}.{k} must be a pair such as [\"1 uM\", \"10 mM\"]"));
+            self.err(
+                span,
+                format!("{what}.{k} must be a pair such as [\"1 uM\", \"10 mM\"]"),
+            );
             return None;
         };
-        let lo = self.quantity_value(arr.get(0)?, span.clone(), Kind::Concentration, &format!("{what}.{k}"));
-        let hi = self.quantity_value(arr.get(1)?, span.clone(), Kind::Concentration, &format!("{what}.{k}"));
+        let lo = self.quantity_value(
+            arr.get(0)?,
+            span.clone(),
+            Kind::Concentration,
+            &format!("{what}.{k}"),
+        );
+        let hi = self.quantity_value(
+            arr.get(1)?,
+            span.clone(),
+            Kind::Concentration,
+            &format!("{what}.{k}"),
+        );
         let (lo, hi) = (lo?, hi?);
         if lo <= 0.0 || hi <= 0.0 {
-            self.err(span, format!("{what}.{k}: bounds must be positive concentrations, e.g. [\"1 uM\", \"10 mM\"]"));
+            self.err(
+                span,
+                format!(
+                    "{what}.{k}: bounds must be positive concentrations, e.g. [\"1 uM\", \"10 mM\"]"
+                ),
+            );
             return None;
         }
         if lo > hi {
@@ -319,7 +408,10 @@ impl<'s> Cx<'s> {
         match item.as_table_like() {
             Some(t) => Some(t),
             None => {
-                self.err(Self::value_span(root, k), format!("'{k}' must be a table: write [{k}] on a line of its own"));
+                self.err(
+                    Self::value_span(root, k),
+                    format!("'{k}' must be a table: write [{k}] on a line of its own"),
+                );
                 None
             }
         }
@@ -328,11 +420,15 @@ impl<'s> Cx<'s> {
     fn pathway(&mut self, root: &toml_edit::Table) -> Option<Pathway> {
         self.known_keys(root, TOP, "the top level");
         match root.get("format") {
-            None => self.err(Some(0..0), "missing 'format'; put format = 1 on the first line".into()),
+            None => self.err(
+                Some(0..0),
+                "missing 'format'; put format = 1 on the first line".into(),
+            ),
             Some(f) if f.as_integer() == Some(1) => {}
             Some(_) => self.err(
                 Self::value_span(root, "format"),
-                "this dgpath reads format = 1 only; write format = 1 (or use a newer dgpath)".into(),
+                "this dgpath reads format = 1 only; write format = 1 (or use a newer dgpath)"
+                    .into(),
             ),
         }
         // [pathway]
@@ -340,15 +436,19 @@ impl<'s> Cx<'s> {
         let mut description = None;
         let mut route_ids: Option<Vec<(String, Span)>> = None;
         match self.table(root, "pathway") {
-            None if !root.contains_key("pathway") => {
-                self.err(Some(0..0), "missing [pathway] table; add [pathway] with name = \"...\"".into())
-            }
+            None if !root.contains_key("pathway") => self.err(
+                Some(0..0),
+                "missing [pathway] table; add [pathway] with name = \"...\"".into(),
+            ),
             None => {}
             Some(t) => {
                 self.known_keys(t, PATHWAY, "[pathway]");
                 name = self.string(t, "name", "pathway");
                 if name.is_none() && t.get("name").is_none() {
-                    self.err(Self::table_span(root, "pathway"), "[pathway] needs a name: name = \"...\"".into());
+                    self.err(
+                        Self::table_span(root, "pathway"),
+                        "[pathway] needs a name: name = \"...\"".into(),
+                    );
                 }
                 description = self.string(t, "description", "pathway");
                 if let Some(item) = t.get("route") {
@@ -365,8 +465,16 @@ impl<'s> Cx<'s> {
             }
         }
         // [conditions]
-        let mut conditions = Conditions { temperature: f64::NAN, ph: 7.0, ionic_strength: 0.0 };
-        let mut reference = Conditions { temperature: 298.15, ph: 7.0, ionic_strength: 0.0 };
+        let mut conditions = Conditions {
+            temperature: f64::NAN,
+            ph: 7.0,
+            ionic_strength: 0.0,
+        };
+        let mut reference = Conditions {
+            temperature: 298.15,
+            ph: 7.0,
+            ionic_strength: 0.0,
+        };
         match self.table(root, "conditions") {
             None if !root.contains_key("conditions") => self.err(
                 Some(0..0),
@@ -381,32 +489,51 @@ impl<'s> Cx<'s> {
                         "[conditions] needs a temperature, e.g. temperature = \"30 C\"".into(),
                     ),
                     Some(_) => {
-                        if let Some(v) = self.quantity(t, "temperature", Kind::Temperature, "conditions") {
+                        if let Some(v) =
+                            self.quantity(t, "temperature", Kind::Temperature, "conditions")
+                        {
                             conditions.temperature = v;
                         }
                     }
                 }
                 conditions.ph = self.number(t, "ph", "conditions").unwrap_or(7.0);
-                conditions.ionic_strength =
-                    self.quantity(t, "ionic_strength", Kind::IonicStrength, "conditions").unwrap_or(0.0);
+                conditions.ionic_strength = self
+                    .quantity(t, "ionic_strength", Kind::IonicStrength, "conditions")
+                    .unwrap_or(0.0);
                 reference.temperature = self
                     .quantity(t, "reference_temperature", Kind::Temperature, "conditions")
                     .unwrap_or(298.15);
                 reference.ph = self.number(t, "reference_ph", "conditions").unwrap_or(7.0);
                 reference.ionic_strength = self
-                    .quantity(t, "reference_ionic_strength", Kind::IonicStrength, "conditions")
+                    .quantity(
+                        t,
+                        "reference_ionic_strength",
+                        Kind::IonicStrength,
+                        "conditions",
+                    )
                     .unwrap_or(0.0);
                 for (k, v) in [
                     ("temperature", conditions.temperature),
                     ("reference_temperature", reference.temperature),
                 ] {
                     if v.is_finite() && v <= 0.0 {
-                        self.err(Self::value_span(t, k), format!("conditions.{k} is at or below absolute zero; write e.g. \"30 C\""));
+                        self.err(
+                            Self::value_span(t, k),
+                            format!(
+                                "conditions.{k} is at or below absolute zero; write e.g. \"30 C\""
+                            ),
+                        );
                     }
                 }
-                for (k, v) in [("ionic_strength", conditions.ionic_strength), ("reference_ionic_strength", reference.ionic_strength)] {
+                for (k, v) in [
+                    ("ionic_strength", conditions.ionic_strength),
+                    ("reference_ionic_strength", reference.ionic_strength),
+                ] {
                     if v < 0.0 {
-                        self.err(Self::value_span(t, k), format!("conditions.{k} cannot be negative; write e.g. \"0.15 M\""));
+                        self.err(
+                            Self::value_span(t, k),
+                            format!("conditions.{k} cannot be negative; write e.g. \"0.15 M\""),
+                        );
                     }
                 }
             }
@@ -417,13 +544,19 @@ impl<'s> Cx<'s> {
             self.known_keys(t, ANALYSIS, "[analysis]");
             if let Some(f) = self.quantity(t, "far", Kind::Energy, "analysis") {
                 if f >= 0.0 {
-                    self.err(Self::value_span(t, "far"), "analysis.far must be negative, e.g. far = \"-10 kJ/mol\"".into());
+                    self.err(
+                        Self::value_span(t, "far"),
+                        "analysis.far must be negative, e.g. far = \"-10 kJ/mol\"".into(),
+                    );
                 }
                 settings.far = f;
             }
             if let Some(n) = self.number(t, "near_factor", "analysis") {
                 if n <= 1.0 {
-                    self.err(Self::value_span(t, "near_factor"), "analysis.near_factor must be above 1, e.g. near_factor = 10".into());
+                    self.err(
+                        Self::value_span(t, "near_factor"),
+                        "analysis.near_factor must be above 1, e.g. near_factor = 10".into(),
+                    );
                 } else {
                     settings.near_factor = n;
                 }
@@ -452,7 +585,10 @@ impl<'s> Cx<'s> {
         // [[steps]]
         let mut raw_steps = Vec::new();
         match root.get("steps") {
-            None => self.err(Some(0..0), "no [[steps]]; add at least one [[steps]] with id, reaction and dg0".into()),
+            None => self.err(
+                Some(0..0),
+                "no [[steps]]; add at least one [[steps]] with id, reaction and dg0".into(),
+            ),
             Some(item) => match item.as_array_of_tables() {
                 Some(arr) => {
                     for t in arr.iter() {
@@ -461,14 +597,28 @@ impl<'s> Cx<'s> {
                         }
                     }
                 }
-                None => self.err(item.span(), "steps must be written as [[steps]] tables, one per step".into()),
+                None => self.err(
+                    item.span(),
+                    "steps must be written as [[steps]] tables, one per step".into(),
+                ),
             },
         }
-        self.resolve(name, description, route_ids, conditions, reference, settings, compounds, raw_steps)
+        self.resolve(
+            name,
+            description,
+            route_ids,
+            conditions,
+            reference,
+            settings,
+            compounds,
+            raw_steps,
+        )
     }
 
     fn table_span(root: &toml_edit::Table, k: &str) -> Span {
-        root.get(k).and_then(|i| i.as_table().and_then(|t| t.span()).or(i.span())).or_else(|| Self::key_span(root, k))
+        root.get(k)
+            .and_then(|i| i.as_table().and_then(|t| t.span()).or(i.span()))
+            .or_else(|| Self::key_span(root, k))
     }
 
     fn compound(&mut self, id: &str, item: &Item, kspan: Span) -> Option<Compound> {
@@ -482,7 +632,9 @@ impl<'s> Cx<'s> {
         };
         let what = format!("compound '{id}'");
         self.known_keys(t, COMPOUND, &what);
-        let name = self.string(t, "name", &what).unwrap_or_else(|| id.to_string());
+        let name = self
+            .string(t, "name", &what)
+            .unwrap_or_else(|| id.to_string());
         let role = match t.get("role") {
             None => None,
             Some(r) => match r.as_str() {
@@ -490,7 +642,9 @@ impl<'s> Cx<'s> {
                 Some("solvent") => Some(StatedRole::Solvent),
                 other => {
                     let got = other.unwrap_or("?");
-                    let hint = suggest(got, ["currency", "solvent"]).map(|s| format!("; did you mean '{s}'?")).unwrap_or_default();
+                    let hint = suggest(got, ["currency", "solvent"])
+                        .map(|s| format!("; did you mean '{s}'?"))
+                        .unwrap_or_default();
                     self.err(Self::value_span(t, "role"), format!("{what}: role '{got}' is not known; write role = \"currency\" or role = \"solvent\" (other roles are inferred){hint}"));
                     None
                 }
@@ -513,7 +667,10 @@ impl<'s> Cx<'s> {
         if let Some(v) = cv
             && v < 0.0
         {
-            self.err(Self::value_span(t, "cv"), format!("{what}: cv cannot be negative; write e.g. cv = 0.2 for 20 %"));
+            self.err(
+                Self::value_span(t, "cv"),
+                format!("{what}: cv cannot be negative; write e.g. cv = 0.2 for 20 %"),
+            );
         }
         Some(Compound {
             id: id.to_string(),
@@ -537,7 +694,10 @@ impl<'s> Cx<'s> {
             Some(id) => id,
             None => {
                 if t.get("id").is_none() {
-                    self.err(span.clone(), "a [[steps]] entry has no id; add id = \"s1\"".into());
+                    self.err(
+                        span.clone(),
+                        "a [[steps]] entry has no id; add id = \"s1\"".into(),
+                    );
                 }
                 return None;
             }
@@ -551,7 +711,10 @@ impl<'s> Cx<'s> {
             Some(r) => Some((r, Self::value_span(t, "reaction"))),
             None => {
                 if t.get("reaction").is_none() {
-                    self.err(span.clone(), format!("{what} has no reaction; add reaction = \"a + b -> c\""));
+                    self.err(
+                        span.clone(),
+                        format!("{what} has no reaction; add reaction = \"a + b -> c\""),
+                    );
                 }
                 None
             }
@@ -560,18 +723,29 @@ impl<'s> Cx<'s> {
         let keq = self.number(t, "keq", &what);
         let standard = match (t.get("dg0").is_some(), t.get("keq").is_some()) {
             (true, true) => {
-                self.err(Self::key_span(t, "keq"), format!("{what} gives both dg0 and keq; keep exactly one of them"));
+                self.err(
+                    Self::key_span(t, "keq"),
+                    format!("{what} gives both dg0 and keq; keep exactly one of them"),
+                );
                 None
             }
             (false, false) => {
-                self.err(span.clone(), format!("{what} has neither dg0 nor keq; add dg0 = \"-16.7 kJ/mol\" (or keq = 850)"));
+                self.err(
+                    span.clone(),
+                    format!(
+                        "{what} has neither dg0 nor keq; add dg0 = \"-16.7 kJ/mol\" (or keq = 850)"
+                    ),
+                );
                 None
             }
             (true, false) => dg0.map(Standard::Dg0),
             (false, true) => match keq {
                 Some(k) if k > 0.0 => Some(Standard::Keq(k)),
                 Some(_) => {
-                    self.err(Self::value_span(t, "keq"), format!("{what}: keq must be above zero; write e.g. keq = 850"));
+                    self.err(
+                        Self::value_span(t, "keq"),
+                        format!("{what}: keq must be above zero; write e.g. keq = 850"),
+                    );
                     None
                 }
                 None => None,
@@ -581,15 +755,22 @@ impl<'s> Cx<'s> {
         if let Some(sd) = dg0_sd
             && sd < 0.0
         {
-            self.err(Self::value_span(t, "dg0_sd"), format!("{what}: dg0_sd cannot be negative; write e.g. dg0_sd = \"1.5 kJ/mol\""));
+            self.err(
+                Self::value_span(t, "dg0_sd"),
+                format!("{what}: dg0_sd cannot be negative; write e.g. dg0_sd = \"1.5 kJ/mol\""),
+            );
         }
         let times = self.number(t, "times", &what);
         if let Some(x) = times
             && x <= 0.0
         {
-            self.err(Self::value_span(t, "times"), format!("{what}: times must be a positive number of turns, e.g. times = 2"));
+            self.err(
+                Self::value_span(t, "times"),
+                format!("{what}: times must be a positive number of turns, e.g. times = 2"),
+            );
         }
-        let link = |cx: &mut Self, k: &str| cx.string(t, k, &what).map(|s| (s, Self::value_span(t, k)));
+        let link =
+            |cx: &mut Self, k: &str| cx.string(t, k, &what).map(|s| (s, Self::value_span(t, k)));
         Some(RawStep {
             line,
             span,
@@ -626,7 +807,10 @@ impl<'s> Cx<'s> {
             if let Some(j) = raw[..i].iter().position(|o| o.id == s.id) {
                 self.err(
                     s.span.clone(),
-                    format!("step id '{}' is used twice (first at line {}); give each step its own id", s.id, raw[j].line),
+                    format!(
+                        "step id '{}' is used twice (first at line {}); give each step its own id",
+                        s.id, raw[j].line
+                    ),
                 );
             }
         }
@@ -634,8 +818,13 @@ impl<'s> Cx<'s> {
             match step_ids.iter().position(|s| *s == id) {
                 Some(i) => Some(i),
                 None => {
-                    let hint = suggest(id, step_ids.iter().copied()).map(|s| format!("; did you mean '{s}'?")).unwrap_or_default();
-                    cx.err(span.clone(), format!("{what} names step '{id}', which is not declared{hint}"));
+                    let hint = suggest(id, step_ids.iter().copied())
+                        .map(|s| format!("; did you mean '{s}'?"))
+                        .unwrap_or_default();
+                    cx.err(
+                        span.clone(),
+                        format!("{what} names step '{id}', which is not declared{hint}"),
+                    );
                     None
                 }
             }
@@ -651,7 +840,8 @@ impl<'s> Cx<'s> {
                         let mut left_ids = Vec::new();
                         for (sign, side) in [(-1.0, &eq.left), (1.0, &eq.right)] {
                             for term in side.iter() {
-                                let Some(ci) = compound_ids.iter().position(|c| *c == term.id) else {
+                                let Some(ci) = compound_ids.iter().position(|c| *c == term.id)
+                                else {
                                     let hint = suggest(&term.id, compound_ids.iter().copied())
                                         .map(|c| format!("did you mean '{c}'? Or declare it"))
                                         .unwrap_or_else(|| "declare it".to_string());
@@ -679,18 +869,36 @@ impl<'s> Cx<'s> {
                     }
                 }
             }
-            let couple = s.couple.as_ref().and_then(|(id, span)| find_step(self, id, span, &format!("{what}: couple")));
+            let couple = s
+                .couple
+                .as_ref()
+                .and_then(|(id, span)| find_step(self, id, span, &format!("{what}: couple")));
             if couple.is_some() && couple == step_ids.iter().position(|x| *x == s.id) {
-                self.err(s.couple.as_ref().and_then(|c| c.1.clone()), format!("{what} is coupled to itself; couple names the following step"));
+                self.err(
+                    s.couple.as_ref().and_then(|c| c.1.clone()),
+                    format!("{what} is coupled to itself; couple names the following step"),
+                );
             }
-            let bypass_of = s.bypass_of.as_ref().and_then(|(id, span)| find_step(self, id, span, &format!("{what}: bypass_of")));
+            let bypass_of = s
+                .bypass_of
+                .as_ref()
+                .and_then(|(id, span)| find_step(self, id, span, &format!("{what}: bypass_of")));
             if s.side && bypass_of.is_some() {
-                self.err(s.span.clone(), format!("{what} is both a side step and a bypass; keep one of side / bypass_of"));
+                self.err(
+                    s.span.clone(),
+                    format!(
+                        "{what} is both a side step and a bypass; keep one of side / bypass_of"
+                    ),
+                );
             }
             steps.push(Step {
                 id: s.id.clone(),
                 enzyme: s.enzyme.clone(),
-                reaction: s.reaction.as_ref().map(|r| r.0.trim().to_string()).unwrap_or_default(),
+                reaction: s
+                    .reaction
+                    .as_ref()
+                    .map(|r| r.0.trim().to_string())
+                    .unwrap_or_default(),
                 stoich,
                 standard: s.standard.unwrap_or(Standard::Dg0(0.0)),
                 dg0_sd: s.dg0_sd,
@@ -709,7 +917,10 @@ impl<'s> Cx<'s> {
             {
                 self.err(
                     s.bypass_of.as_ref().and_then(|x| x.1.clone()),
-                    format!("step '{}': bypass_of must name a step of the main route, not '{}'", s.id, steps[b].id),
+                    format!(
+                        "step '{}': bypass_of must name a step of the main route, not '{}'",
+                        s.id, steps[b].id
+                    ),
                 );
             }
         }
@@ -718,9 +929,14 @@ impl<'s> Cx<'s> {
         match route_ids {
             Some(ids) => {
                 for (id, span) in &ids {
-                    let Some(i) = find_step(self, id, span, "pathway.route") else { continue };
+                    let Some(i) = find_step(self, id, span, "pathway.route") else {
+                        continue;
+                    };
                     if route.contains(&i) {
-                        self.err(span.clone(), format!("pathway.route lists step '{id}' twice; list each step once"));
+                        self.err(
+                            span.clone(),
+                            format!("pathway.route lists step '{id}' twice; list each step once"),
+                        );
                     } else if steps[i].side {
                         self.err(span.clone(), format!("pathway.route lists '{id}', which is marked side = true; remove it from the route or drop side"));
                     } else if steps[i].bypass_of.is_some() {
@@ -730,10 +946,18 @@ impl<'s> Cx<'s> {
                     }
                 }
             }
-            None => route = (0..steps.len()).filter(|&i| !steps[i].side && steps[i].bypass_of.is_none()).collect(),
+            None => {
+                route = (0..steps.len())
+                    .filter(|&i| !steps[i].side && steps[i].bypass_of.is_none())
+                    .collect()
+            }
         }
         if route.is_empty() && !raw.is_empty() && self.problems.is_empty() {
-            self.err(None, "the main route has no steps; add steps that are neither side = true nor bypass_of".into());
+            self.err(
+                None,
+                "the main route has no steps; add steps that are neither side = true nor bypass_of"
+                    .into(),
+            );
         }
         let name = name?;
         if !conditions.temperature.is_finite() {
@@ -773,7 +997,12 @@ dg0 = -5
 "#;
 
     fn errors(text: &str) -> Vec<String> {
-        load_str(text, "x.toml").unwrap_err().problems.iter().map(|p| p.to_string()).collect()
+        load_str(text, "x.toml")
+            .unwrap_err()
+            .problems
+            .iter()
+            .map(|p| p.to_string())
+            .collect()
     }
 
     #[test]
@@ -798,12 +1027,20 @@ dg0 = -5
     #[test]
     fn unknown_field_suggests() {
         let e = errors(&GOOD.replace("branch = true", "brnch = true"));
-        assert!(e.iter().any(|m| m.contains("x.toml:8:") && m.contains("did you mean 'branch'")), "{e:?}");
+        assert!(
+            e.iter()
+                .any(|m| m.contains("x.toml:8:") && m.contains("did you mean 'branch'")),
+            "{e:?}"
+        );
     }
 
     #[test]
     fn unknown_compound_suggests() {
         let e = errors(&GOOD.replace("a + w", "aa + w"));
-        assert!(e.iter().any(|m| m.contains("unknown compound 'aa'") && m.contains("did you mean 'a'")), "{e:?}");
+        assert!(
+            e.iter()
+                .any(|m| m.contains("unknown compound 'aa'") && m.contains("did you mean 'a'")),
+            "{e:?}"
+        );
     }
 }

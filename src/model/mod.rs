@@ -7,7 +7,7 @@ mod load;
 pub mod reaction;
 pub mod units;
 
-pub use load::{load_file, load_str, MAX_FILE_BYTES};
+pub use load::{MAX_FILE_BYTES, load_file, load_str};
 
 use std::fmt;
 
@@ -164,7 +164,11 @@ pub struct Settings {
 
 impl Default for Settings {
     fn default() -> Self {
-        Settings { far: -10_000.0, near_factor: 10.0, bounds: (1e-6, 1e-2) }
+        Settings {
+            far: -10_000.0,
+            near_factor: 10.0,
+            bounds: (1e-6, 1e-2),
+        }
     }
 }
 
@@ -202,7 +206,10 @@ impl Pathway {
     }
     /// The concentrations stated in the file (solvents 1 M).
     pub fn file_concentrations(&self) -> Vec<f64> {
-        self.compounds.iter().map(|c| c.conc.unwrap_or(1.0)).collect()
+        self.compounds
+            .iter()
+            .map(|c| c.conc.unwrap_or(1.0))
+            .collect()
     }
     /// Optimisation bounds of a compound (its own, else the default).
     pub fn bounds_of(&self, i: usize) -> (f64, f64) {

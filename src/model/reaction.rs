@@ -45,7 +45,9 @@ pub fn parse(text: &str) -> Result<Equation, String> {
     };
     let (l, r) = (&text[..pos], &text[pos + arrow.len()..]);
     if ARROWS.iter().any(|a| r.contains(a)) {
-        return Err(format!("reaction '{text}' has more than one arrow; write exactly one"));
+        return Err(format!(
+            "reaction '{text}' has more than one arrow; write exactly one"
+        ));
     }
     let left = side(l, text)?;
     let right = side(r, text)?;
@@ -66,7 +68,9 @@ fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
     for raw in s.split(" + ").flat_map(|p| split_plus(p)) {
         let part = raw.trim();
         if part.is_empty() {
-            return Err(format!("reaction '{whole}' has an empty term (a stray '+'?)"));
+            return Err(format!(
+                "reaction '{whole}' has an empty term (a stray '+'?)"
+            ));
         }
         let mut words = part.split_whitespace();
         let first = words.next().unwrap_or("");
@@ -78,7 +82,9 @@ fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
                     ));
                 }
                 let c: f64 = first.parse().map_err(|_| {
-                    format!("'{first}' in reaction '{whole}' is not a number; write e.g. \"2 {second}\"")
+                    format!(
+                        "'{first}' in reaction '{whole}' is not a number; write e.g. \"2 {second}\""
+                    )
                 })?;
                 (c, second)
             }
@@ -99,7 +105,10 @@ fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
                 "'{id}' in reaction '{whole}' is not a valid compound id; ids start with a letter and contain letters, digits and '_'"
             ));
         }
-        out.push(Term { coef, id: id.to_string() });
+        out.push(Term {
+            coef,
+            id: id.to_string(),
+        });
     }
     Ok(out)
 }
@@ -179,7 +188,11 @@ mod tests {
         assert!(parse("-1 a -> b").unwrap_err().contains("positive"));
         assert!(parse("a b").unwrap_err().contains("no arrow"));
         assert!(parse("a -> ").unwrap_err().contains("both sides"));
-        assert!(parse("a -> b -> c").unwrap_err().contains("more than one arrow"));
+        assert!(
+            parse("a -> b -> c")
+                .unwrap_err()
+                .contains("more than one arrow")
+        );
         assert!(parse("a + + b -> c").unwrap_err().contains("empty term"));
         assert!(parse("2x a -> b").unwrap_err().contains("not a number"));
     }

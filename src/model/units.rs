@@ -51,7 +51,10 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         }
         let head = &t[..end];
         // Do not let "1e" or "inf"/"nan" count as numbers.
-        if head.chars().any(|c| c.is_ascii_alphabetic() && c != 'e' && c != 'E') {
+        if head
+            .chars()
+            .any(|c| c.is_ascii_alphabetic() && c != 'e' && c != 'E')
+        {
             break;
         }
         if let Ok(v) = head.parse::<f64>() {

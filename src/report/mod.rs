@@ -1,10 +1,10 @@
 //! Renderings of an `Analysis`: aligned table, JSON (a contract, see
 //! shared/design/cli.md), CSV and Markdown. Nothing here computes results.
 
-use crate::analysis::{control, Analysis, Class, Prepared, StepResult, VerdictKind};
+use crate::analysis::{Analysis, Class, Prepared, StepResult, VerdictKind, control};
 use crate::model::units;
 use crate::scenario::State;
-use serde_json::{json, Map, Value};
+use serde_json::{Map, Value, json};
 
 /// Energy unit for output.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -69,7 +69,11 @@ pub fn clean(x: f64) -> f64 {
 }
 
 fn num(x: f64) -> Value {
-    if x.is_finite() { json!(clean(x)) } else { Value::Null }
+    if x.is_finite() {
+        json!(clean(x))
+    } else {
+        Value::Null
+    }
 }
 
 /// The reaction as it runs (reversed steps have their sides swapped).
@@ -84,7 +88,11 @@ pub fn reaction_as_run(prep: &Prepared, s: &StepResult) -> String {
             .filter(|(_, nu)| (*nu * s.sign > 0.0) == want_pos)
             .map(|&(c, nu)| {
                 let id = &prep.pathway.compounds[c].id;
-                if (nu.abs() - 1.0).abs() < 1e-12 { id.clone() } else { format!("{} {id}", units::sig3(nu.abs())) }
+                if (nu.abs() - 1.0).abs() < 1e-12 {
+                    id.clone()
+                } else {
+                    format!("{} {id}", units::sig3(nu.abs()))
+                }
             })
             .collect::<Vec<_>>()
             .join(" + ")
@@ -92,17 +100,29 @@ pub fn reaction_as_run(prep: &Prepared, s: &StepResult) -> String {
     format!("{} -> {}", side(false), side(true))
 }
 
-fn step_json(prep: &Prepared, a: &Analysis, s: &StepResult, u: EnergyUnit, on_route: bool) -> Value {
+fn step_json(
+    prep: &Prepared,
+    a: &Analysis,
+    s: &StepResult,
+    u: EnergyUnit,
+    on_route: bool,
+) -> Value {
     let p = &prep.pathway;
     let st = &p.steps[s.step];
     let mut m = Map::new();
     m.insert("id".into(), json!(st.id));
-    m.insert("enzyme".into(), st.enzyme.as_ref().map_or(Value::Null, |e| json!(e)));
+    m.insert(
+        "enzyme".into(),
+        st.enzyme.as_ref().map_or(Value::Null, |e| json!(e)),
+    );
     m.insert("reaction".into(), json!(reaction_as_run(prep, s)));
     m.insert("times".into(), num(s.times));
     m.insert("dg0".into(), num(u.of(s.dg0)));
     m.insert("dg".into(), num(u.of(s.dg)));
-    m.insert("dg_sd".into(), s.dg_sd.map_or(Value::Null, |v| num(u.of(v))));
+    m.insert(
+        "dg_sd".into(),
+        s.dg_sd.map_or(Value::Null, |v| num(u.of(v))),
+    );
     m.insert("keq".into(), num(s.keq()));
     m.insert("q".into(), num(s.q()));
     m.insert("flux_ratio".into(), num(s.flux_ratio(a.rt)));
@@ -113,12 +133,21 @@ fn step_json(prep: &Prepared, a: &Analysis, s: &StepResult, u: EnergyUnit, on_ro
         m.insert("share".into(), num(s.share));
     }
     m.insert("reverse_share".into(), num(s.reverse_share(a.rt)));
-    m.insert("enzyme_factor".into(), s.enzyme_factor(a.rt).map_or(Value::Null, num));
+    m.insert(
+        "enzyme_factor".into(),
+        s.enzyme_factor(a.rt).map_or(Value::Null, num),
+    );
     m.insert("side".into(), json!(!on_route));
     m.insert("reversed".into(), json!(s.sign < 0.0));
-    m.insert("bypass_of".into(), s.replaces.map_or(Value::Null, |r| json!(p.steps[r].id)));
+    m.insert(
+        "bypass_of".into(),
+        s.replaces.map_or(Value::Null, |r| json!(p.steps[r].id)),
+    );
     if !s.class_sure {
-        m.insert("class_range".into(), json!([s.class_range.0.as_str(), s.class_range.1.as_str()]));
+        m.insert(
+            "class_range".into(),
+            json!([s.class_range.0.as_str(), s.class_range.1.as_str()]),
+        );
     }
     m.insert("dg0_kept_at_reference".into(), json!(s.kept_reference_dg0));
     Value::Object(m)
@@ -128,8 +157,16 @@ fn step_json(prep: &Prepared, a: &Analysis, s: &StepResult, u: EnergyUnit, on_ro
 pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> Value {
     let p = &prep.pathway;
     let c = &state.conditions;
-    let steps: Vec<Value> = a.steps.iter().map(|s| step_json(prep, a, s, u, true)).collect();
-    let side: Vec<Value> = a.side.iter().map(|s| step_json(prep, a, s, u, false)).collect();
+    let steps: Vec<Value> = a
+        .steps
+        .iter()
+        .map(|s| step_json(prep, a, s, u, true))
+        .collect();
+    let side: Vec<Value> = a
+        .side
+        .iter()
+        .map(|s| step_json(prep, a, s, u, false))
+        .collect();
     let groups: Vec<Value> = a
         .groups
         .iter()
@@ -177,7 +214,11 @@ pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -
         json!({ "dg0": num(u.of(a.total_dg0)), "dg": num(u.of(a.total_dg)), "dg_sd": a.total_sd.map_or(Value::Null, |v| num(u.of(v))) }),
     );
     doc.insert("net".into(), Value::Object(net));
-    doc.insert("largest_drop".into(), a.largest_drop.map_or(Value::Null, |k| json!(p.steps[a.steps[k].step].id)));
+    doc.insert(
+        "largest_drop".into(),
+        a.largest_drop
+            .map_or(Value::Null, |k| json!(p.steps[a.steps[k].step].id)),
+    );
     doc.insert("control".into(), Value::Array(control));
     if a.direction == crate::analysis::Direction::Reverse {
         let nb: Vec<Value> = a
@@ -214,7 +255,11 @@ pub struct TextOptions {
 }
 
 fn paint(s: &str, code: &str, on: bool) -> String {
-    if on { format!("\x1b[{code}m{s}\x1b[0m") } else { s.to_string() }
+    if on {
+        format!("\x1b[{code}m{s}\x1b[0m")
+    } else {
+        s.to_string()
+    }
 }
 
 fn class_color(c: Class) -> &'static str {
@@ -231,7 +276,11 @@ pub fn sci(x: f64) -> String {
     if !x.is_finite() {
         return if x > 0.0 { "inf".into() } else { "nan".into() };
     }
-    if x != 0.0 && (x.abs() >= 1e4 || x.abs() < 1e-2) { format!("{x:.2e}") } else { format!("{x:.3}") }
+    if x != 0.0 && (x.abs() >= 1e4 || x.abs() < 1e-2) {
+        format!("{x:.2e}")
+    } else {
+        format!("{x:.3}")
+    }
 }
 
 /// The aligned table with verdicts, notes and the closing caution.
@@ -288,12 +337,23 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
                 units::sig3(s.times),
                 format!("{:.2}", clean(u.of(s.dg0))),
                 format!("{:.2}", clean(u.of(s.dg))),
-                s.dg_sd.map(|v| format!("{:.2}", u.of(v))).unwrap_or_else(|| "-".into()),
+                s.dg_sd
+                    .map(|v| format!("{:.2}", u.of(v)))
+                    .unwrap_or_else(|| "-".into()),
                 sci(s.q()),
                 sci(s.keq()),
                 sci(s.flux_ratio(a.rt)),
-                format!("{} {}{}", class_symbol(s.class, o.ascii), s.class.as_str(), if s.class_sure { "" } else { "?" }),
-                if s.share > 0.0 { format!("{:.0} %", s.share * 100.0) } else { String::new() },
+                format!(
+                    "{} {}{}",
+                    class_symbol(s.class, o.ascii),
+                    s.class.as_str(),
+                    if s.class_sure { "" } else { "?" }
+                ),
+                if s.share > 0.0 {
+                    format!("{:.0} %", s.share * 100.0)
+                } else {
+                    String::new()
+                },
                 format!("{:.2}", clean(u.of(s.cumulative))),
                 verdict,
             ],
@@ -309,7 +369,9 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
                 String::new(),
                 format!("{:.2}", clean(u.of(s.dg0))),
                 format!("{:.2}", clean(u.of(s.dg))),
-                s.dg_sd.map(|v| format!("{:.2}", u.of(v))).unwrap_or_else(|| "-".into()),
+                s.dg_sd
+                    .map(|v| format!("{:.2}", u.of(v)))
+                    .unwrap_or_else(|| "-".into()),
                 sci(s.q()),
                 sci(s.keq()),
                 sci(s.flux_ratio(a.rt)),
@@ -331,14 +393,20 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
             w[i] = w[i].max(cell.chars().count());
         }
     }
-    let numeric = [false, false, true, true, true, true, true, true, true, false, true, true, false];
+    let numeric = [
+        false, false, true, true, true, true, true, true, true, false, true, true, false,
+    ];
     let fmt_row = |cells: &[String]| -> Vec<String> {
         cells
             .iter()
             .enumerate()
             .map(|(i, cell)| {
                 let pad = w[i] - cell.chars().count();
-                if numeric[i] { format!("{}{}", " ".repeat(pad), cell) } else { format!("{}{}", cell, " ".repeat(pad)) }
+                if numeric[i] {
+                    format!("{}{}", " ".repeat(pad), cell)
+                } else {
+                    format!("{}{}", cell, " ".repeat(pad))
+                }
             })
             .collect()
     };
@@ -358,7 +426,9 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         "\ntotal: dG'° {:.2} {ul}, dG' {:.2} {ul}{}",
         clean(u.of(a.total_dg0)),
         clean(u.of(a.total_dg)),
-        a.total_sd.map(|s| format!(" ± {:.2}", u.of(s))).unwrap_or_default()
+        a.total_sd
+            .map(|s| format!(" ± {:.2}", u.of(s)))
+            .unwrap_or_default()
     ));
     if let Some(k) = a.largest_drop {
         out.push_str(&format!(
@@ -369,13 +439,28 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
     }
     out.push('\n');
     for g in &a.groups {
-        let ids: Vec<&str> = g.members.iter().map(|&m| p.steps[a.steps[m].step].id.as_str()).collect();
-        out.push_str(&format!("coupled: {} together dG' {:.2} {ul}\n", ids.join(" + "), clean(u.of(g.dg))));
+        let ids: Vec<&str> = g
+            .members
+            .iter()
+            .map(|&m| p.steps[a.steps[m].step].id.as_str())
+            .collect();
+        out.push_str(&format!(
+            "coupled: {} together dG' {:.2} {ul}\n",
+            ids.join(" + "),
+            clean(u.of(g.dg))
+        ));
     }
     let net: Vec<String> = a
         .net
         .iter()
-        .map(|&(ci, v)| format!("{} {}{}", p.compounds[ci].id, if v > 0.0 { "+" } else { "" }, units::sig3(clean(v))))
+        .map(|&(ci, v)| {
+            format!(
+                "{} {}{}",
+                p.compounds[ci].id,
+                if v > 0.0 { "+" } else { "" },
+                units::sig3(clean(v))
+            )
+        })
         .collect();
     out.push_str(&format!("net per pass: {}\n", net.join(", ")));
     if !a.needs_bypass.is_empty() {
@@ -395,7 +480,11 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
                     "bypass {} replaces {}{}\n",
                     p.steps[s.step].id,
                     p.steps[r].id,
-                    if a.counterpart == Some(k) { " — counterpart of the forward prime step" } else { "" }
+                    if a.counterpart == Some(k) {
+                        " — counterpart of the forward prime step"
+                    } else {
+                        ""
+                    }
                 ));
             }
         }
@@ -425,9 +514,27 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
     let p = &prep.pathway;
     let mut w = csv::Writer::from_writer(Vec::new());
     let _ = w.write_record([
-        "step", "enzyme", "times", "dg0", "dg", "dg_sd", "keq", "q", "flux_ratio", "class", "cumulative", "share", "verdict", "side",
+        "step",
+        "enzyme",
+        "times",
+        "dg0",
+        "dg",
+        "dg_sd",
+        "keq",
+        "q",
+        "flux_ratio",
+        "class",
+        "cumulative",
+        "share",
+        "verdict",
+        "side",
     ]);
-    for (s, side) in a.steps.iter().map(|s| (s, false)).chain(a.side.iter().map(|s| (s, true))) {
+    for (s, side) in a
+        .steps
+        .iter()
+        .map(|s| (s, false))
+        .chain(a.side.iter().map(|s| (s, true)))
+    {
         let st = &p.steps[s.step];
         let _ = w.write_record([
             st.id.clone(),
@@ -435,14 +542,26 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
             format!("{}", clean(s.times)),
             format!("{}", clean(u.of(s.dg0))),
             format!("{}", clean(u.of(s.dg))),
-            s.dg_sd.map(|v| format!("{}", clean(u.of(v)))).unwrap_or_default(),
+            s.dg_sd
+                .map(|v| format!("{}", clean(u.of(v))))
+                .unwrap_or_default(),
             format!("{}", s.keq()),
             format!("{}", s.q()),
             format!("{}", s.flux_ratio(a.rt)),
             s.class.as_str().to_string(),
-            if side { String::new() } else { format!("{}", clean(u.of(s.cumulative))) },
-            if side { String::new() } else { format!("{}", clean(s.share)) },
-            s.verdict.map(|v| a.control[v].kind.as_str().to_string()).unwrap_or_default(),
+            if side {
+                String::new()
+            } else {
+                format!("{}", clean(u.of(s.cumulative)))
+            },
+            if side {
+                String::new()
+            } else {
+                format!("{}", clean(s.share))
+            },
+            s.verdict
+                .map(|v| a.control[v].kind.as_str().to_string())
+                .unwrap_or_default(),
             side.to_string(),
         ]);
     }
@@ -467,23 +586,40 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
         out.push_str(&format!(
             "| {}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} |\n",
             st.id,
-            if a.largest_drop == Some(k) { " **(largest drop)**" } else { "" },
+            if a.largest_drop == Some(k) {
+                " **(largest drop)**"
+            } else {
+                ""
+            },
             st.enzyme.clone().unwrap_or_default(),
             units::sig3(s.times),
             clean(u.of(s.dg0)),
             clean(u.of(s.dg)),
             class_symbol(s.class, false),
             s.class.as_str(),
-            if s.share > 0.0 { format!("{:.0} %", s.share * 100.0) } else { String::new() },
+            if s.share > 0.0 {
+                format!("{:.0} %", s.share * 100.0)
+            } else {
+                String::new()
+            },
             clean(u.of(s.cumulative)),
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or("")
         ));
     }
-    out.push_str(&format!("\n**Total:** dG'° {:.2} {ul}, dG' {:.2} {ul}\n", clean(u.of(a.total_dg0)), clean(u.of(a.total_dg))));
+    out.push_str(&format!(
+        "\n**Total:** dG'° {:.2} {ul}, dG' {:.2} {ul}\n",
+        clean(u.of(a.total_dg0)),
+        clean(u.of(a.total_dg))
+    ));
     if !a.control.is_empty() {
         out.push_str("\n### Control\n\n");
         for v in &a.control {
-            out.push_str(&format!("- **{}** `{}`: {}\n", p.steps[a.steps[v.position].step].id, v.kind.as_str(), v.reasons.join("; ")));
+            out.push_str(&format!(
+                "- **{}** `{}`: {}\n",
+                p.steps[a.steps[v.position].step].id,
+                v.kind.as_str(),
+                v.reasons.join("; ")
+            ));
         }
     }
     for n in &a.notes {
