@@ -10,5 +10,6 @@ mod properties;
 mod references;
 mod regressions;
 mod samples;
+mod save_crash;
 mod support;
 mod uncertainty;

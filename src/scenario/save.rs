@@ -170,8 +170,28 @@ pub fn render(original: &str, p: &Pathway, state: &State) -> Result<String, Save
     Ok(doc.to_string())
 }
 
+/// A point inside an atomic write, for tests that stop a save part-way.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum WritePoint {
+    /// The temporary file exists and holds the first half of the text.
+    HalfWritten,
+    /// The temporary file is complete and flushed; the rename has not happened.
+    BeforeRename,
+    /// The rename is done.
+    Renamed,
+}
+
 /// Writes `text` to `path` atomically: temporary file in the same folder, fsync, rename.
 pub fn write_atomic(path: &Path, text: &str) -> std::io::Result<()> {
+    write_atomic_observed(path, text, |_| {})
+}
+
+/// `write_atomic`, calling `at` at each `WritePoint` (tests use it to stop a save part-way).
+pub fn write_atomic_observed(
+    path: &Path,
+    text: &str,
+    mut at: impl FnMut(WritePoint),
+) -> std::io::Result<()> {
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => std::path::PathBuf::from("."),
@@ -180,16 +200,23 @@ pub fn write_atomic(path: &Path, text: &str) -> std::io::Result<()> {
         .prefix(".dgpath-save-")
         .suffix(".tmp")
         .tempfile_in(&dir)?;
-    tmp.write_all(text.as_bytes())?;
+    let bytes = text.as_bytes();
+    let half = bytes.len() / 2;
+    tmp.write_all(&bytes[..half])?;
+    tmp.flush()?;
+    at(WritePoint::HalfWritten);
+    tmp.write_all(&bytes[half..])?;
     tmp.as_file().sync_all()?;
     if let Ok(meta) = std::fs::metadata(path) {
         let _ = std::fs::set_permissions(tmp.path(), meta.permissions());
     }
+    at(WritePoint::BeforeRename);
     tmp.persist(path).map_err(|e| e.error)?;
     // Make the rename itself durable.
     if let Ok(d) = std::fs::File::open(&dir) {
         let _ = d.sync_all();
     }
+    at(WritePoint::Renamed);
     Ok(())
 }
 
