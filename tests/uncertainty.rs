@@ -124,3 +124,24 @@ fn a_class_that_can_flip_inside_the_interval_is_not_sure() {
     assert_eq!(a.steps[1].class, Class::Near);
     assert!(a.steps[1].class_sure);
 }
+
+#[test]
+fn the_notes_say_which_way_an_unsure_class_could_flip() {
+    let prep = prepared(TWO_STEPS);
+    let a = analyze(&prep, &State::from_pathway(&prep.pathway)).unwrap();
+    let note = a
+        .notes
+        .iter()
+        .find(|n| n.starts_with("s1 "))
+        .expect("a note on s1");
+    assert!(
+        note.contains("far, but not surely") && note.contains("could be moderate"),
+        "{note}"
+    );
+    assert!(note.contains("no verdict"), "{note}");
+    assert!(
+        !a.notes.iter().any(|n| n.starts_with("s2 ")),
+        "s2 is sure: {:?}",
+        a.notes
+    );
+}

@@ -524,11 +524,39 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
                     g.dg / 1e3
                 )),
                 _ => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol): it cannot carry forward flux alone; check its concentrations and dG'°, or couple it to the next step.",
+                    "{id} is uphill (dG' = {:+.1} kJ/mol): it cannot carry forward flux alone; unless it is coupled to a step that pays for it, the concentrations or dG'° may be inconsistent.",
                     s.dg / 1e3
                 )),
             }
         }
+    }
+    for s in a.steps.iter().chain(a.side.iter()) {
+        if s.class_sure {
+            continue;
+        }
+        let Some(sd) = s.dg_sd else { continue };
+        let (lo, hi) = (s.dg - Z95 * sd, s.dg + Z95 * sd);
+        let mut other: Vec<&str> = Vec::new();
+        for c in [s.class_range.0, s.class_range.1] {
+            if c != s.class && !other.contains(&c.as_str()) {
+                other.push(c.as_str());
+            }
+        }
+        out.push(format!(
+            "{} is {}, but not surely: within the 95 % interval of dG' ({:+.1} to {:+.1} kJ/mol) it could be {}{}.",
+            p.steps[s.step].id,
+            s.class.as_str(),
+            lo / 1e3,
+            hi / 1e3,
+            other.join(" or "),
+            if s.class == Class::Far {
+                ", and then it would get no verdict"
+            } else if other.contains(&"far") {
+                ", and then it would get a verdict"
+            } else {
+                ""
+            }
+        ));
     }
     out
 }
