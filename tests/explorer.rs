@@ -411,6 +411,41 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
 }
 
 #[test]
+fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
+    let bin = env!("CARGO_BIN_EXE_dgpath");
+    let root = env!("CARGO_MANIFEST_DIR");
+    let dir = tempfile::tempdir().unwrap();
+    let bad = dir.path().join("bad.csv");
+    std::fs::write(&bad, "sample,glc [mM]\nh00,40\nh01,forty\n").unwrap();
+    let out = std::process::Command::new(bin)
+        .args(["explore", "pathways/fermenter.toml", "--samples"])
+        .arg(&bad)
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.csv") && err.contains("forty"), "{err}");
+    assert!(
+        !err.contains("needs a terminal"),
+        "the table is read first: {err}"
+    );
+    // A good table gets as far as the terminal check.
+    let out = std::process::Command::new(bin)
+        .args([
+            "explore",
+            "pathways/fermenter.toml",
+            "--samples",
+            "pathways/fermenter-samples.csv",
+        ])
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("needs a terminal"));
+}
+
+#[test]
 fn snapshot_overview() {
     insta::assert_snapshot!("overview_120x36", screen(&demo(), 120, 36));
 }
@@ -496,6 +531,10 @@ fn bottleneck_marks_follow_the_optimisation() {
         assert!(!m.bottlenecks.is_empty());
         let buf = export::render_buffer(&app, 120, 36);
         let text = export::to_text(&buf);
+        let title = text.lines().next().unwrap();
+        let shown = format!("MDF {:+.1}", m.value / 1000.0).replace('-', "−");
+        assert!(title.contains(&shown), "{title} lacks {shown}");
+        assert_eq!(title.contains("cannot run"), m.value <= 0.0, "{title}");
         // Route steps are on rows 2.. (below the title and the column header);
         // the marker column follows the step id: lead (2) + id (5, "gapdh") + space.
         let x0 = 1 + 2 + 5 + 1;

@@ -20,7 +20,7 @@ pub const FINE_STEP: f64 = 1.258_925_411_794_167_2;
 
 /// Routes longer than this are not optimised on every edit (the optimisation
 /// would no longer fit in a keystroke's time budget); the screen says so.
-pub const LIVE_MDF_MAX_STEPS: usize = 250;
+pub const LIVE_MDF_MAX_STEPS: usize = 200;
 
 /// The driving-force optimisation for the current scenario.
 #[derive(Debug, Clone, PartialEq)]
@@ -817,9 +817,15 @@ impl App {
         }
         let k = next.clamp(0, n as isize - 1) as usize;
         let conc = self.samples[k].conc.clone();
+        let (was, was_edited) = (self.sample_at, self.sample_edited);
         self.sample_at = k;
         self.commit(|s| s.conc = conc);
-        self.sample_edited = self.state().conc != self.samples[k].conc;
+        if self.state().conc != self.samples[k].conc {
+            // The sample could not be analysed; `recompute` said why and undid it.
+            (self.sample_at, self.sample_edited) = (was, was_edited);
+            return;
+        }
+        self.sample_edited = false;
         self.say(
             format!(
                 "sample {} ({}/{n}): its concentrations loaded; u undoes",

@@ -336,6 +336,31 @@ mod tests {
     use super::*;
 
     #[test]
+    fn one_sd_is_a_whisker_when_it_spans_cells_else_a_number() {
+        // 21 cells over 0..-100: 5 units a cell; the rung of -50 is cell 10.
+        let mut cells: Vec<char> = track(0.0, -50.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -50.0, 10.0, -100.0, 0.0, &ASCII, "+-10.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "========[=|-]        ");
+        // sd 1 is a fifth of a cell: the number goes right of the rung.
+        let mut cells: Vec<char> = track(0.0, -50.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -50.0, 1.0, -100.0, 0.0, &ASCII, "+-1.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "==========|+-1.0     ");
+        // A rung at the right edge: the number goes left of the bar.
+        let mut cells: Vec<char> = track(-80.0, -100.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -100.0, 1.0, -100.0, 0.0, &ASCII, "+-1.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "          +-1.0 ====|");
+    }
+
+    #[test]
     fn bars_are_drawn_to_scale() {
         // A 10-cell track over 0..-90: each cell is 10 units.
         let s = track(0.0, -45.0, -90.0, 0.0, 10, '=', '|');
