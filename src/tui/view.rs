@@ -895,10 +895,9 @@ fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             },
         ),
         Span::raw(sep),
-        Span::raw(app.source.name.clone()),
     ];
+    // The sample comes before the (often long) file name so narrow screens keep it.
     if let Some(name) = app.sample_name() {
-        spans.push(Span::raw(sep));
         spans.push(Span::styled(
             format!(
                 "sample {name} ({}/{}){}",
@@ -908,7 +907,9 @@ fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             ),
             t.bold(),
         ));
+        spans.push(Span::raw(sep));
     }
+    spans.push(Span::raw(app.source.name.clone()));
     if app.dirty() {
         spans.push(Span::raw(sep));
         spans.push(Span::styled(
