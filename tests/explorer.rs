@@ -487,7 +487,7 @@ fn status_text(app: &App, w: u16, h: u16) -> String {
 
 #[test]
 fn o_loads_the_rounded_optimum_as_one_edit_and_u_restores() {
-    let mut app = demo();
+    let (_dir, path, mut app) = on_disk();
     let before = app.state().clone();
     let m = mdf::solve(&app.prep, app.state()).unwrap();
     keys(&mut app, "o");
@@ -520,6 +520,24 @@ fn o_loads_the_rounded_optimum_as_one_edit_and_u_restores() {
     assert!((now - m.value).abs() < 1.0, "{now} vs {}", m.value);
     keys(&mut app, "u");
     assert_eq!(app.state(), &before, "one u undoes the whole load");
+    // Saved, each optimal value is written with at most three figures.
+    keys(&mut app, "o s");
+    let text = std::fs::read_to_string(&path).unwrap();
+    let back = model::load_file(&path).unwrap();
+    for (i, c) in back.compounds.iter().enumerate() {
+        if m.parts[i] != Part::Free {
+            continue;
+        }
+        assert_eq!(c.conc, Some(app.state().conc[i]), "{} reads back", c.id);
+        let line = text
+            .lines()
+            .find(|l| l.starts_with(&format!("{} ", c.id)))
+            .unwrap();
+        let value = line.split("conc = \"").nth(1).unwrap();
+        let num = value.split(' ').next().unwrap();
+        let digits = num.trim_start_matches(['0', '.']).replace('.', "");
+        assert!(digits.trim_end_matches('0').len() <= 3, "{line}");
+    }
 }
 
 #[test]

@@ -46,38 +46,32 @@ impl LiveMdf {
     }
 }
 
-/// Rounds a positive number to three significant figures (dividing by an
-/// exact power of ten, so 0.00123 stays exactly the double nearest 0.00123).
-pub fn round_sig3(x: f64) -> f64 {
+/// Rounds a concentration (mol/L) to three significant figures in the unit
+/// it is shown and saved in (M, mM, uM, nM, pM), read back through the
+/// units parser so that saving writes exactly those three figures. Kept
+/// inside [lo, hi] by moving one step in the last figure towards the inside
+/// when rounding to nearest would leave it; unchanged when that fails too.
+pub fn round_conc_sig3(x: f64, lo: f64, hi: f64) -> f64 {
     if !(x.is_finite() && x > 0.0) {
         return x;
     }
-    let e = x.log10().floor() as i32 - 2;
-    if e >= 0 {
-        let f = 10f64.powi(e);
-        (x / f).round() * f
-    } else {
-        let f = 10f64.powi(-e);
-        (x * f).round() / f
+    let text = units::format_conc(x, true);
+    let read = |t: &str| units::parse(t, units::Kind::Concentration).ok();
+    let inside = |v: f64| v >= lo && v <= hi;
+    let Some(v) = read(&text) else { return x };
+    if inside(v) {
+        return v;
     }
-}
-
-/// `round_sig3`, kept inside [lo, hi] by rounding towards the inside when
-/// rounding to nearest would leave it.
-fn round_sig3_within(x: f64, lo: f64, hi: f64) -> f64 {
-    let r = round_sig3(x);
-    if r >= lo && r <= hi {
-        return r;
-    }
-    let e = x.log10().floor() as i32 - 2;
-    let (m, f) = if e >= 0 {
-        (x / 10f64.powi(e), 10f64.powi(e))
-    } else {
-        (x * 10f64.powi(-e), 10f64.powi(-e))
+    let Some((num, unit)) = text.split_once(' ') else {
+        return x;
     };
-    let m = if r > hi { m.floor() } else { m.ceil() };
-    let v = if e >= 0 { m * f } else { m / f };
-    if v >= lo && v <= hi { v } else { x }
+    let Ok(n) = num.parse::<f64>() else { return x };
+    let step = 10f64.powi(n.abs().log10().floor() as i32 - 2);
+    let n2 = if v > hi { n - step } else { n + step };
+    match read(&format!("{} {unit}", units::sig3(n2))) {
+        Some(v2) if inside(v2) => v2,
+        _ => x,
+    }
 }
 
 /// How the explorer draws.
@@ -755,7 +749,7 @@ impl App {
             .filter(|&i| m.parts[i] == Part::Free)
             .map(|i| {
                 let (lo, hi) = m.bounds[i];
-                (i, round_sig3_within(m.conc[i], lo, hi))
+                (i, round_conc_sig3(m.conc[i], lo, hi))
             })
             .collect();
         let changed = values
@@ -1284,6 +1278,16 @@ mod tests {
         assert_eq!(keys[0].code, KeyCode::Tab);
         assert_eq!(keys.last().unwrap().modifiers, KeyModifiers::CONTROL);
         assert!(parse_keys("C-rr").is_err());
+    }
+
+    #[test]
+    fn optimal_values_round_to_three_figures_inside_their_bounds() {
+        let mm = |t: &str| units::parse(t, units::Kind::Concentration).unwrap();
+        assert_eq!(round_conc_sig3(2.2345e-3, 1e-6, 0.02), mm("2.23 mM"));
+        assert_eq!(round_conc_sig3(6.7349e-5, 1e-6, 0.02), mm("67.3 uM"));
+        // At an upper bound that has more figures: one step down, not above it.
+        assert_eq!(round_conc_sig3(1.2399e-3, 1e-6, 1.2399e-3), mm("1.23 mM"));
+        assert_eq!(round_conc_sig3(1.0051e-6, 1.0051e-6, 0.02), mm("1.01 uM"));
     }
 
     #[test]

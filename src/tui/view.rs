@@ -1,6 +1,7 @@
 //! Drawing the explorer: a pure function of `App` into a ratatui `Buffer`.
-//! Step list, concentration pane, energy ladder, step detail, a message line
-//! and the status line; the key overlay on top when asked. Meaning is always
+//! Step list (with the MDF in its title and bottleneck flags), concentration
+//! pane, energy ladder, step detail, a message line and the status line
+//! (with the chosen sample); the key overlay on top when asked. Meaning is always
 //! carried by a symbol or word as well as by colour, so NO_COLOR and
 //! `--ascii` lose nothing.
 
