@@ -6,6 +6,7 @@ use clap::{Args, Parser, Subcommand, ValueEnum};
 use dgpath::analysis::{self, Direction, Prepared};
 use dgpath::model::{self, LoadError, units};
 use dgpath::report::{self, EnergyUnit, TextOptions};
+use dgpath::samples::Sample;
 use dgpath::scenario::State;
 use dgpath::tui::{self, Source};
 use std::io::{IsTerminal, Write};
@@ -458,16 +459,32 @@ fn load_source(file: &Path) -> Result<(Prepared, Source)> {
     Ok((prep, source))
 }
 
-fn explore(prep: Prepared, state: State, source: Source, c: &Common, ascii: bool) -> Result<()> {
-    if c.samples.is_some() {
-        bail!("--samples is not available in the explorer yet; use --set for one sample");
+/// Reads every sample of `--samples` for the explorer (errors before the screen opens).
+fn explorer_samples(prep: &Prepared, state: &State, c: &Common) -> Result<Vec<Sample>> {
+    let Some(path) = &c.samples else {
+        return Ok(Vec::new());
+    };
+    let all = dgpath::samples::SampleReader::open(path, &prep.pathway, &state.conc)?
+        .collect::<Result<Vec<Sample>, _>>()?;
+    if all.is_empty() {
+        bail!(
+            "{}: the table has a header but no samples; add one row per sample",
+            path.display()
+        );
     }
+    Ok(all)
+}
+
+fn explore(prep: Prepared, state: State, source: Source, c: &Common, ascii: bool) -> Result<()> {
+    let samples = explorer_samples(&prep, &state, c)?;
     let opts = tui::Options {
         ascii,
         color: std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
         unit: c.unit(),
     };
-    let app = tui::App::new(prep, state, source, opts).map_err(|e| anyhow!("{e}"))?;
+    let app = tui::App::new(prep, state, source, opts)
+        .and_then(|a| a.with_samples(samples))
+        .map_err(|e| anyhow!("{e}"))?;
     tui::run(app).map_err(|e| anyhow!("{e}"))
 }
 
@@ -482,13 +499,16 @@ fn screenshot(
     let (w, h) = tui::export::parse_size(size).map_err(|e| anyhow!("--size {e}"))?;
     let (prep, source) = load_source(file)?;
     let state = state_from(&prep, c)?;
+    let samples = explorer_samples(&prep, &state, c)?;
     // Pictures are always in colour: they are files, not a terminal.
     let opts = tui::Options {
         ascii,
         color: true,
         unit: c.unit(),
     };
-    let mut app = tui::App::new(prep, state, source, opts).map_err(|e| anyhow!("{e}"))?;
+    let mut app = tui::App::new(prep, state, source, opts)
+        .and_then(|a| a.with_samples(samples))
+        .map_err(|e| anyhow!("{e}"))?;
     let (txt, svg) =
         tui::export::screenshot(&mut app, keys, w, h).map_err(|e| anyhow!("--keys: {e}"))?;
     let with = |ext: &str| {

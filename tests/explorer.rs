@@ -2,12 +2,13 @@
 //! changes are asserted, and a few screens are snapshotted on a fixed-size
 //! buffer (text with insta; style checked on cells where meaning depends on it).
 
+use dgpath::analysis::mdf::{self, Part};
 use dgpath::analysis::{self, Direction};
 use dgpath::model;
 use dgpath::report::EnergyUnit;
 use dgpath::scenario::State;
 use dgpath::tui::app::{App, Mode, Options, Pane, Source, parse_keys};
-use dgpath::tui::export;
+use dgpath::tui::{export, view};
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use ratatui::style::Modifier;
 use std::path::Path;
@@ -249,6 +250,8 @@ fn find_cancelled_puts_the_selection_back_and_help_lists_the_keys() {
         "w ",
         "u / Ctrl-r",
         "s ",
+        "o ",
+        "[ / ]",
     ] {
         assert!(
             text.lines().any(|l| l.contains(&format!("│ {k}"))),
@@ -408,6 +411,41 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
 }
 
 #[test]
+fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
+    let bin = env!("CARGO_BIN_EXE_dgpath");
+    let root = env!("CARGO_MANIFEST_DIR");
+    let dir = tempfile::tempdir().unwrap();
+    let bad = dir.path().join("bad.csv");
+    std::fs::write(&bad, "sample,glc [mM]\nh00,40\nh01,forty\n").unwrap();
+    let out = std::process::Command::new(bin)
+        .args(["explore", "pathways/fermenter.toml", "--samples"])
+        .arg(&bad)
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.csv") && err.contains("forty"), "{err}");
+    assert!(
+        !err.contains("needs a terminal"),
+        "the table is read first: {err}"
+    );
+    // A good table gets as far as the terminal check.
+    let out = std::process::Command::new(bin)
+        .args([
+            "explore",
+            "pathways/fermenter.toml",
+            "--samples",
+            "pathways/fermenter-samples.csv",
+        ])
+        .current_dir(root)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("needs a terminal"));
+}
+
+#[test]
 fn snapshot_overview() {
     insta::assert_snapshot!("overview_120x36", screen(&demo(), 120, 36));
 }
@@ -427,6 +465,253 @@ fn snapshot_help_in_ascii() {
     let text = screen(&app, 100, 30);
     assert!(text.is_ascii(), "{text}");
     insta::assert_snapshot!("help_ascii_100x30", text);
+}
+
+/// The demo with the demo samples table, as `explore --samples` opens it.
+fn demo_with_samples() -> (App, Vec<dgpath::samples::Sample>) {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let app = demo();
+    let table = root.join("pathways/fermenter-samples.csv");
+    let samples: Vec<_> =
+        dgpath::samples::SampleReader::open(&table, app.pathway(), &app.state().conc)
+            .unwrap()
+            .collect::<Result<_, _>>()
+            .unwrap();
+    let app = app.with_samples(samples.clone()).unwrap();
+    (app, samples)
+}
+
+fn status_text(app: &App, w: u16, h: u16) -> String {
+    screen(app, w, h).lines().last().unwrap().to_string()
+}
+
+#[test]
+fn o_loads_the_rounded_optimum_as_one_edit_and_u_restores() {
+    let (_dir, path, mut app) = on_disk();
+    let before = app.state().clone();
+    let m = mdf::solve(&app.prep, app.state()).unwrap();
+    keys(&mut app, "o");
+    let after = app.state().clone();
+    let mut moved = 0;
+    for (i, c) in app.pathway().compounds.iter().enumerate() {
+        if m.parts[i] == Part::Free {
+            // Three significant figures: the value times a power of ten is a whole number below 1000.
+            let v = after.conc[i];
+            let scaled = v / 10f64.powi(v.log10().floor() as i32 - 2);
+            assert!((scaled - scaled.round()).abs() < 1e-6, "{}: {v}", c.id);
+            assert!(
+                (v / m.conc[i] - 1.0).abs() <= 5e-3,
+                "{}: {v} vs {}",
+                c.id,
+                m.conc[i]
+            );
+            let (lo, hi) = m.bounds[i];
+            assert!(v >= lo && v <= hi, "{}: {v} outside {lo}..{hi}", c.id);
+            moved += usize::from(v != before.conc[i]);
+        } else {
+            assert_eq!(after.conc[i], before.conc[i], "{} is held or absent", c.id);
+        }
+    }
+    assert!(moved > 0);
+    let msg = &app.status.as_ref().unwrap().0;
+    assert!(msg.contains("3 significant figures"), "{msg}");
+    // At the (rounded) optimum the MDF is the optimum's, up to the rounding.
+    let now = app.optimum().unwrap().value;
+    assert!((now - m.value).abs() < 1.0, "{now} vs {}", m.value);
+    keys(&mut app, "u");
+    assert_eq!(app.state(), &before, "one u undoes the whole load");
+    // Saved, each optimal value is written with at most three figures.
+    keys(&mut app, "o s");
+    let text = std::fs::read_to_string(&path).unwrap();
+    let back = model::load_file(&path).unwrap();
+    for (i, c) in back.compounds.iter().enumerate() {
+        if m.parts[i] != Part::Free {
+            continue;
+        }
+        assert_eq!(c.conc, Some(app.state().conc[i]), "{} reads back", c.id);
+        let line = text
+            .lines()
+            .find(|l| l.starts_with(&format!("{} ", c.id)))
+            .unwrap();
+        let value = line.split("conc = \"").nth(1).unwrap();
+        let num = value.split(' ').next().unwrap();
+        let digits = num.trim_start_matches(['0', '.']).replace('.', "");
+        assert!(digits.trim_end_matches('0').len() <= 3, "{line}");
+    }
+}
+
+#[test]
+fn bottleneck_marks_follow_the_optimisation() {
+    let mut app = demo();
+    for script in ["", "r", "Tab Down Down > > >"] {
+        keys(&mut app, script);
+        let m = mdf::solve(&app.prep, app.state()).unwrap();
+        assert!(!m.bottlenecks.is_empty());
+        let buf = export::render_buffer(&app, 120, 36);
+        let text = export::to_text(&buf);
+        let title = text.lines().next().unwrap();
+        let shown = format!("MDF {:+.1}", m.value / 1000.0).replace('-', "−");
+        assert!(title.contains(&shown), "{title} lacks {shown}");
+        assert_eq!(title.contains("cannot run"), m.value <= 0.0, "{title}");
+        // Route steps are on rows 2.. (below the title and the column header);
+        // the marker column follows the step id: lead (2) + id (5, "gapdh") + space.
+        let x0 = 1 + 2 + 5 + 1;
+        for k in 0..app.analysis.steps.len() {
+            let id = &app.pathway().steps[app.analysis.steps[k].step].id;
+            let row: String = (0..120)
+                .map(|x| buf[(x, 2 + k as u16)].symbol().to_string())
+                .collect();
+            assert!(row.contains(id.as_str()), "row {k} is {row}");
+            let marked = buf[(x0, 2 + k as u16)].symbol() == view::bottleneck_mark(false);
+            assert_eq!(marked, row.contains('■'), "{row}");
+            assert_eq!(
+                marked,
+                m.bottlenecks.contains(&k),
+                "{id}: marker {marked}, prices {:?}\n{text}",
+                m.prices
+            );
+            assert_eq!(app.is_bottleneck(k), m.prices[k] > 0.0);
+        }
+    }
+}
+
+#[test]
+fn a_failed_optimisation_is_shown_without_breaking_the_screen() {
+    // co2 is fixed at 1.2 mM; bounds that exclude it make the optimisation refuse.
+    let text = dgpath::DEMO.replace(
+        r#"co2   = { name = "carbon dioxide", conc = "1.2 mM", fixed = true }"#,
+        r#"co2   = { name = "carbon dioxide", conc = "1.2 mM", fixed = true, bounds = ["1 uM", "1 mM"] }"#,
+    );
+    assert_ne!(text, dgpath::DEMO);
+    let app = app_from(&text, Source::demo());
+    let shown = screen(&app, 120, 36);
+    assert!(shown.contains("MDF not solved"), "{shown}");
+    assert!(shown.contains("optimum: not solved"), "{shown}");
+    assert!(shown.contains("co2"), "{shown}");
+    // The rest of the screen is there.
+    assert!(shown.contains("Energy ladder") && shown.contains("? keys"));
+    let mut app = app;
+    keys(&mut app, "o");
+    assert!(
+        app.status
+            .as_ref()
+            .unwrap()
+            .0
+            .starts_with("no optimum to load")
+    );
+}
+
+#[test]
+fn samples_step_with_brackets_and_save_names_the_sample() {
+    let (mut app, samples) = demo_with_samples();
+    assert_eq!(samples.len(), 12);
+    assert_eq!(
+        app.state().conc,
+        samples[0].conc,
+        "opens on the first sample"
+    );
+    keys(&mut app, "] ] [");
+    assert_eq!(app.sample_at, 1);
+    assert_eq!(app.state().conc, samples[1].conc);
+    // Row h03 of pathways/fermenter-samples.csv: glc 34.3 mM.
+    assert_eq!(samples[1].name, "h03");
+    assert!((app.state().conc[ci(&app, "glc")] - 34.3e-3).abs() < 1e-12);
+    let status = status_text(&app, 120, 36);
+    assert!(status.contains("sample h03 (2/12)"), "{status}");
+    keys(&mut app, "u");
+    assert_eq!(app.state().conc, samples[2].conc, "u undoes the [");
+    assert!(status_text(&app, 120, 36).contains("sample h06 (3/12)"));
+    keys(&mut app, "[ [ [");
+    assert_eq!(app.sample_at, 0);
+    assert!(app.status.as_ref().unwrap().0.contains("first sample"));
+    // An edit after choosing a sample is shown.
+    keys(&mut app, "Tab +");
+    assert!(status_text(&app, 120, 36).contains("sample h00 (1/12) edited"));
+}
+
+#[test]
+fn saving_after_a_sample_says_which_sample() {
+    let (dir, path, app) = on_disk();
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let samples = dgpath::samples::read_str(
+        &std::fs::read_to_string(root.join("pathways/fermenter-samples.csv")).unwrap(),
+        "fermenter-samples.csv",
+        app.pathway(),
+        &app.state().conc,
+    )
+    .unwrap();
+    let mut app = app.with_samples(samples.clone()).unwrap();
+    keys(&mut app, "] ] ] s");
+    let msg = &app.status.as_ref().unwrap().0;
+    assert!(msg.contains("sample h09"), "{msg}");
+    let back = model::load_file(&path).unwrap();
+    let glc = back.compound("glc").unwrap();
+    // Row h09 of pathways/fermenter-samples.csv: glc 18.1 mM.
+    assert_eq!(back.compounds[glc].conc, Some(18.1e-3));
+    drop(dir);
+}
+
+#[test]
+fn the_ladder_marks_one_sd_only_where_a_step_has_one() {
+    // Invented two-step route; s2 has no dG'° sd and its compounds no cv.
+    let text = r#"
+format = 1
+[pathway]
+name = "sd check (invented)"
+[conditions]
+temperature = "25 C"
+ph = 7
+[compounds]
+a = { conc = "1 mM", cv = 0.2 }
+b = { conc = "0.1 mM" }
+c = { conc = "0.01 mM" }
+[[steps]]
+id = "s1"
+reaction = "a -> b"
+dg0 = "-20 kJ/mol"
+dg0_sd = "3 kJ/mol"
+[[steps]]
+id = "s2"
+reaction = "b -> c"
+dg0 = "-10 kJ/mol"
+"#;
+    let app = app_from(text, Source::demo());
+    assert!(app.analysis.steps[0].dg_sd.is_some());
+    assert_eq!(app.analysis.steps[1].dg_sd, None);
+    let buf = export::render_buffer(&app, 120, 36);
+    let txt = export::to_text(&buf);
+    let row_of = |id: &str| -> String {
+        let (y, _) = txt
+            .lines()
+            .enumerate()
+            .filter(|(_, l)| l.contains(&format!(" {id} ")))
+            .last()
+            .unwrap();
+        // The ladder is the left half of the lower panes.
+        (0..66)
+            .map(|x| buf[(x, y as u16)].symbol().to_string())
+            .collect()
+    };
+    let s1 = row_of("s1");
+    let s2 = row_of("s2");
+    let sd = app.analysis.steps[0].dg_sd.unwrap() / 1000.0;
+    assert!(
+        s1.contains(&format!("±{sd:.1}")) || (s1.contains('├') && s1.contains('┤')),
+        "{s1}\n{txt}"
+    );
+    assert!(
+        !s2.contains('±') && !s2.contains('├') && !s2.contains('┤'),
+        "{s2}"
+    );
+    // ASCII draws it too.
+    let mut app = app;
+    app.opts.ascii = true;
+    let txt = screen(&app, 120, 36);
+    let l = txt.lines().rfind(|l| l.contains(" s1 ")).unwrap();
+    assert!(
+        l.contains("+-") || (l.contains('[') && l.contains(']')),
+        "{l}"
+    );
 }
 
 #[test]

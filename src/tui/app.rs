@@ -1,12 +1,15 @@
 //! The explorer's state and its one place of change: `App` holds what the
 //! person sees and is doing (selection, focus, edit buffer, mode, messages),
 //! `handle_key` turns a key into a `Message`, and `update` applies it,
-//! recomputing the `Analysis` whenever the scenario changed. Drawing lives in
-//! `view`; nothing here touches a terminal.
+//! recomputing the `Analysis` and the driving-force optimisation whenever
+//! the scenario changed. Drawing lives in `view`; nothing here touches a
+//! terminal.
 
+use crate::analysis::mdf::{self, Mdf, Part};
 use crate::analysis::{self, Analysis, Direction, Prepared, StepResult};
 use crate::model::{self, Pathway, units};
 use crate::report::EnergyUnit;
+use crate::samples::Sample;
 use crate::scenario::save::{self, DiskStamp};
 use crate::scenario::{Scenario, State};
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
@@ -14,6 +17,62 @@ use std::path::PathBuf;
 
 /// One press of `+` / `-` multiplies or divides by 10^0.1.
 pub const FINE_STEP: f64 = 1.258_925_411_794_167_2;
+
+/// Routes longer than this are not optimised on every edit (the optimisation
+/// would no longer fit in a keystroke's time budget); the screen says so.
+pub const LIVE_MDF_MAX_STEPS: usize = 200;
+
+/// The driving-force optimisation for the current scenario.
+#[derive(Debug, Clone, PartialEq)]
+pub enum LiveMdf {
+    /// Solved.
+    Solved(Box<Mdf>),
+    /// Could not be run; the message says why.
+    Failed(String),
+    /// Not run on every edit: the route has this many steps.
+    Skipped(usize),
+}
+
+impl LiveMdf {
+    /// Solves for the scenario unless the route is too long to do so live.
+    pub fn solve(prep: &Prepared, state: &State, route_steps: usize) -> LiveMdf {
+        if route_steps > LIVE_MDF_MAX_STEPS {
+            return LiveMdf::Skipped(route_steps);
+        }
+        match mdf::solve(prep, state) {
+            Ok(m) => LiveMdf::Solved(Box::new(m)),
+            Err(e) => LiveMdf::Failed(e.to_string()),
+        }
+    }
+}
+
+/// Rounds a concentration (mol/L) to three significant figures in the unit
+/// it is shown and saved in (M, mM, uM, nM, pM), read back through the
+/// units parser so that saving writes exactly those three figures. Kept
+/// inside [lo, hi] by moving one step in the last figure towards the inside
+/// when rounding to nearest would leave it; unchanged when that fails too.
+pub fn round_conc_sig3(x: f64, lo: f64, hi: f64) -> f64 {
+    if !(x.is_finite() && x > 0.0) {
+        return x;
+    }
+    let text = units::format_conc(x, true);
+    let read = |t: &str| units::parse(t, units::Kind::Concentration).ok();
+    let inside = |v: f64| v >= lo && v <= hi;
+    let Some(v) = read(&text) else { return x };
+    if inside(v) {
+        return v;
+    }
+    let Some((num, unit)) = text.split_once(' ') else {
+        return x;
+    };
+    let Ok(n) = num.parse::<f64>() else { return x };
+    let step = 10f64.powi(n.abs().log10().floor() as i32 - 2);
+    let n2 = if v > hi { n - step } else { n + step };
+    match read(&format!("{} {unit}", units::sig3(n2))) {
+        Some(v2) if inside(v2) => v2,
+        _ => x,
+    }
+}
 
 /// How the explorer draws.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -149,6 +208,10 @@ pub enum Message {
     ToggleReverse,
     /// `w`: start or advance the walk along the route.
     Walk,
+    /// `o`: load the optimal concentrations of the driving-force optimisation.
+    LoadOptimum,
+    /// `[` / `]`: the previous / next sample of the samples table.
+    Sample(isize),
     /// `u`.
     Undo,
     /// Ctrl-r.
@@ -173,6 +236,14 @@ pub struct App {
     pub scenario: Scenario,
     /// Results for the current scenario.
     pub analysis: Analysis,
+    /// The driving-force optimisation for the current scenario.
+    pub mdf: LiveMdf,
+    /// Samples read from a samples table (empty without one).
+    pub samples: Vec<Sample>,
+    /// The sample last chosen (index into `samples`).
+    pub sample_at: usize,
+    /// True when the concentrations differ from the chosen sample's.
+    pub sample_edited: bool,
     /// Where the pathway came from.
     pub source: Source,
     /// Stamp of the file as last read or written.
@@ -265,6 +336,7 @@ impl App {
         opts: Options,
     ) -> Result<App, model::Problem> {
         let analysis = analysis::analyze(&prep, &state)?;
+        let mdf = LiveMdf::solve(&prep, &state, analysis.steps.len());
         let stamp = source
             .path
             .as_ref()
@@ -279,6 +351,10 @@ impl App {
             prep,
             scenario: Scenario::new(state),
             analysis,
+            mdf,
+            samples: Vec::new(),
+            sample_at: 0,
+            sample_edited: false,
             source,
             stamp,
             bad_stamp: None,
@@ -293,6 +369,50 @@ impl App {
             quit: false,
             find_from: (Pane::Steps, 0, comp_sel),
         })
+    }
+
+    /// Adds the samples of a samples table; the explorer starts on the first
+    /// one (its concentrations are the starting state, as `--set` values are).
+    pub fn with_samples(mut self, samples: Vec<Sample>) -> Result<App, model::Problem> {
+        if let Some(first) = samples.first() {
+            let mut state = self.state().clone();
+            state.conc = first.conc.clone();
+            self.analysis = analysis::analyze(&self.prep, &state)?;
+            self.mdf = LiveMdf::solve(&self.prep, &state, self.analysis.steps.len());
+            self.scenario = Scenario::new(state);
+        }
+        self.samples = samples;
+        self.sample_at = 0;
+        self.sample_edited = false;
+        Ok(self)
+    }
+
+    /// The solved optimisation, if any.
+    pub fn optimum(&self) -> Option<&Mdf> {
+        match &self.mdf {
+            LiveMdf::Solved(m) => Some(m),
+            _ => None,
+        }
+    }
+
+    /// Shadow price and driving force at the optimum (J/mol) of route position `k`.
+    pub fn price_at(&self, k: usize) -> Option<(f64, f64)> {
+        let m = self.optimum()?;
+        let s = self.analysis.steps.get(k)?;
+        if m.direction != self.analysis.direction || m.steps.get(k) != Some(&s.step) {
+            return None;
+        }
+        Some((*m.prices.get(k)?, *m.driving_forces.get(k)?))
+    }
+
+    /// True when route position `k` is a bottleneck of the optimisation (positive shadow price).
+    pub fn is_bottleneck(&self, k: usize) -> bool {
+        self.price_at(k).is_some_and(|(p, _)| p > 0.0)
+    }
+
+    /// The chosen sample's name, when a samples table was given.
+    pub fn sample_name(&self) -> Option<&str> {
+        self.samples.get(self.sample_at).map(|s| s.name.as_str())
     }
 
     /// The pathway.
@@ -396,6 +516,9 @@ impl App {
             KeyCode::Char('i') => Message::StartEdit(Target::IonicStrength),
             KeyCode::Char('r') => Message::ToggleReverse,
             KeyCode::Char('w') => Message::Walk,
+            KeyCode::Char('o') => Message::LoadOptimum,
+            KeyCode::Char('[') => Message::Sample(-1),
+            KeyCode::Char(']') => Message::Sample(1),
             KeyCode::Char('u') => Message::Undo,
             KeyCode::Char('s') => Message::Save,
             KeyCode::Esc => Message::Cancel,
@@ -545,6 +668,8 @@ impl App {
                 self.say(format!("route runs {}", next.as_str()), Tone::Info);
             }
             Message::Walk => self.walk_next(),
+            Message::LoadOptimum => self.load_optimum(),
+            Message::Sample(by) => self.step_sample(by),
             Message::Undo => {
                 if self.scenario.undo() {
                     self.recompute();
@@ -600,6 +725,128 @@ impl App {
             Pane::Detail => {
                 self.detail_scroll = (self.detail_scroll as isize + by).clamp(0, 200) as u16;
             }
+        }
+    }
+
+    fn load_optimum(&mut self) {
+        let m = match &self.mdf {
+            LiveMdf::Solved(m) => m.clone(),
+            LiveMdf::Failed(e) => {
+                self.say(format!("no optimum to load: {e}"), Tone::Warn);
+                return;
+            }
+            LiveMdf::Skipped(n) => {
+                self.say(
+                    format!(
+                        "no optimum to load: routes over {LIVE_MDF_MAX_STEPS} steps ({n} here) are not optimised live; run `dgpath mdf FILE`"
+                    ),
+                    Tone::Warn,
+                );
+                return;
+            }
+        };
+        let values: Vec<(usize, f64)> = (0..m.conc.len())
+            .filter(|&i| m.parts[i] == Part::Free)
+            .map(|i| {
+                let (lo, hi) = m.bounds[i];
+                (i, round_conc_sig3(m.conc[i], lo, hi))
+            })
+            .collect();
+        let changed = values
+            .iter()
+            .filter(|&&(i, v)| self.state().conc[i] != v)
+            .count();
+        let u = self.opts.unit;
+        if changed == 0 {
+            self.say(
+                format!(
+                    "already at the optimum (MDF {:.2} {})",
+                    u.of(m.value),
+                    u.label()
+                ),
+                Tone::Info,
+            );
+            return;
+        }
+        self.commit(|s| {
+            for &(i, v) in &values {
+                s.conc[i] = v;
+            }
+        });
+        self.say(
+            format!(
+                "loaded the optimal concentrations of {changed} compound{} (rounded to 3 significant figures; MDF {:.2} {}); u undoes",
+                if changed == 1 { "" } else { "s" },
+                u.of(m.value),
+                u.label()
+            ),
+            Tone::Info,
+        );
+    }
+
+    fn step_sample(&mut self, by: isize) {
+        let n = self.samples.len();
+        if n == 0 {
+            self.say(
+                "no samples: start with `dgpath explore FILE --samples TABLE.csv`",
+                Tone::Warn,
+            );
+            return;
+        }
+        let next = self.sample_at as isize + by;
+        if next < 0 || next >= n as isize {
+            let which = if next < 0 { "first" } else { "last" };
+            // Already on the end sample: load it again when it was edited.
+            if !self.sample_edited {
+                self.say(
+                    format!(
+                        "{} is the {which} sample ({}/{n})",
+                        self.samples[self.sample_at].name,
+                        self.sample_at + 1
+                    ),
+                    Tone::Info,
+                );
+                return;
+            }
+        }
+        let k = next.clamp(0, n as isize - 1) as usize;
+        let conc = self.samples[k].conc.clone();
+        let (was, was_edited) = (self.sample_at, self.sample_edited);
+        self.sample_at = k;
+        self.commit(|s| s.conc = conc);
+        if self.state().conc != self.samples[k].conc {
+            // The sample could not be analysed; `recompute` said why and undid it.
+            (self.sample_at, self.sample_edited) = (was, was_edited);
+            return;
+        }
+        self.sample_edited = false;
+        self.say(
+            format!(
+                "sample {} ({}/{n}): its concentrations loaded; u undoes",
+                self.samples[k].name,
+                k + 1
+            ),
+            Tone::Info,
+        );
+    }
+
+    /// After any change of state: which sample the concentrations are (the
+    /// chosen one or a neighbour, as after an undo), or that they were edited.
+    fn track_sample(&mut self) {
+        if self.samples.is_empty() {
+            return;
+        }
+        let conc = &self.scenario.state().conc;
+        let at = self.sample_at;
+        let found = [at, at.wrapping_sub(1), at + 1]
+            .into_iter()
+            .find(|&k| self.samples.get(k).is_some_and(|s| &s.conc == conc));
+        match found {
+            Some(k) => {
+                self.sample_at = k;
+                self.sample_edited = false;
+            }
+            None => self.sample_edited = true,
         }
     }
 
@@ -746,6 +993,9 @@ impl App {
         match analysis::analyze(&self.prep, self.scenario.state()) {
             Ok(a) => {
                 self.analysis = a;
+                self.mdf =
+                    LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
+                self.track_sample();
                 self.step_sel = self.step_sel.min(self.step_rows().saturating_sub(1));
                 if let Some(w) = self.walk {
                     self.walk = Some(w.min(self.analysis.steps.len().saturating_sub(1)));
@@ -804,7 +1054,14 @@ impl App {
                         self.stamp = DiskStamp::read(&path).ok();
                         self.bad_stamp = None;
                         self.recompute();
-                        self.say(format!("saved {}", self.source.name), Tone::Info);
+                        let what = match self.sample_name() {
+                            Some(name) if self.sample_edited => {
+                                format!(" (sample {name}'s concentrations with later edits)")
+                            }
+                            Some(name) => format!(" (the concentrations of sample {name})"),
+                            None => String::new(),
+                        };
+                        self.say(format!("saved {}{what}", self.source.name), Tone::Info);
                     }
                     Err(e) => self.say(
                         format!("saved, but the file does not read back: {e}"),
@@ -913,8 +1170,10 @@ impl App {
                     }
                     Ok(a) => {
                         self.prep = prep;
+                        self.mdf = LiveMdf::solve(&self.prep, &next, a.steps.len());
                         self.analysis = a;
                         self.scenario = Scenario::new(next);
+                        self.track_sample();
                         self.source.text = text;
                         self.stamp = stamp_now;
                         self.bad_stamp = None;
@@ -1019,6 +1278,16 @@ mod tests {
         assert_eq!(keys[0].code, KeyCode::Tab);
         assert_eq!(keys.last().unwrap().modifiers, KeyModifiers::CONTROL);
         assert!(parse_keys("C-rr").is_err());
+    }
+
+    #[test]
+    fn optimal_values_round_to_three_figures_inside_their_bounds() {
+        let mm = |t: &str| units::parse(t, units::Kind::Concentration).unwrap();
+        assert_eq!(round_conc_sig3(2.2345e-3, 1e-6, 0.02), mm("2.23 mM"));
+        assert_eq!(round_conc_sig3(6.7349e-5, 1e-6, 0.02), mm("67.3 uM"));
+        // At an upper bound that has more figures: one step down, not above it.
+        assert_eq!(round_conc_sig3(1.2399e-3, 1e-6, 1.2399e-3), mm("1.23 mM"));
+        assert_eq!(round_conc_sig3(1.0051e-6, 1.0051e-6, 0.02), mm("1.01 uM"));
     }
 
     #[test]

@@ -1,8 +1,10 @@
 //! The energy ladder as text: one rung per route step at its cumulative
 //! level (each step weighted by its turns), the step's drop drawn as a bar to
 //! scale from the previous rung, the largest drop marked, coupled groups
-//! bracketed, and the standard-state ladder (dG'° at the conditions) beside
-//! it on the same scale. Pure: it turns an `App` into lines for a given size.
+//! bracketed, ± one sd of the step's dG' around the rung (a whisker when it
+//! spans a cell, else the number beside the rung), and the standard-state
+//! ladder (dG'° at the conditions) beside it on the same scale. Pure: it
+//! turns an `App` into lines for a given size.
 
 use super::app::App;
 use super::view::{Theme, fit, tenth};
@@ -22,6 +24,10 @@ struct Glyphs {
     close: char,
     mark: &'static str,
     join: char,
+    w_open: char,
+    w_line: char,
+    w_close: char,
+    pm: &'static str,
 }
 
 const UNICODE: Glyphs = Glyphs {
@@ -36,6 +42,10 @@ const UNICODE: Glyphs = Glyphs {
     close: '└',
     mark: "◀",
     join: '┊',
+    w_open: '├',
+    w_line: '─',
+    w_close: '┤',
+    pm: "±",
 };
 
 const ASCII: Glyphs = Glyphs {
@@ -50,6 +60,10 @@ const ASCII: Glyphs = Glyphs {
     close: '\\',
     mark: "<",
     join: ':',
+    w_open: '[',
+    w_line: '-',
+    w_close: ']',
+    pm: "+-",
 };
 
 /// Column of energy `e` on a track `w` cells wide spanning [lo, hi] (hi on the left).
@@ -76,6 +90,44 @@ fn track(from: f64, to: f64, lo: f64, hi: f64, w: usize, bar: char, rung: char) 
             }
         })
         .collect()
+}
+
+/// Marks ± `sd` around the rung at energy `at` on a drawn track: a whisker
+/// from `at − sd` to `at + sd` when its ends fall on other cells than the
+/// rung, else `label` (e.g. "±1.3") in blank cells beside the rung, right
+/// side first. Nothing when neither fits.
+fn mark_sd(cells: &mut [char], at: f64, sd: f64, lo: f64, hi: f64, g: &Glyphs, label: &str) {
+    let w = cells.len();
+    let c = col(at, lo, hi, w);
+    let (l, r) = (col(at + sd, lo, hi, w), col(at - sd, lo, hi, w));
+    if l < c && r > c {
+        for (x, cell) in cells.iter_mut().enumerate().take(r + 1).skip(l) {
+            if x == l {
+                *cell = g.w_open;
+            } else if x == r {
+                *cell = g.w_close;
+            } else if *cell == ' ' {
+                *cell = g.w_line;
+            }
+        }
+        return;
+    }
+    let n = label.chars().count();
+    let blank = |from: usize, to: usize| (from..to).all(|x| cells[x] == ' ');
+    // Right of the rung, straight after it.
+    if c + 1 + n <= w && blank(c + 1, c + 1 + n) {
+        for (i, ch) in label.chars().enumerate() {
+            cells[c + 1 + i] = ch;
+        }
+        return;
+    }
+    // Left of whatever is drawn there.
+    let left = cells.iter().position(|&x| x != ' ').unwrap_or(c);
+    if left > n {
+        for (i, ch) in label.chars().enumerate() {
+            cells[left - 1 - n + i] = ch;
+        }
+    }
 }
 
 /// The ladder's lines for an area `width` × `height` (header included).
@@ -233,10 +285,31 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         if largest {
             bar_style = bar_style.add_modifier(Modifier::BOLD);
         }
-        spans.push(Span::styled(
-            track(from, s.cumulative, lo, hi, tw, bar, g.rung),
-            bar_style,
-        ));
+        let drawn = track(from, s.cumulative, lo, hi, tw, bar, g.rung);
+        match s.dg_sd.filter(|sd| *sd > 0.0) {
+            Some(sd) => {
+                let mut cells: Vec<char> = drawn.chars().collect();
+                let label = format!("{}{:.1}", g.pm, u.of(sd));
+                mark_sd(&mut cells, s.cumulative, sd, lo, hi, g, &label);
+                // Split so the bar keeps its class colour and the sd reads as a note.
+                let plain: Vec<char> = drawn.chars().collect();
+                let mut cur = String::new();
+                let mut cur_sd = false;
+                for (x, ch) in cells.iter().enumerate() {
+                    let is_sd = plain[x] != *ch;
+                    if is_sd != cur_sd && !cur.is_empty() {
+                        let st = if cur_sd { t.bold() } else { bar_style };
+                        spans.push(Span::styled(std::mem::take(&mut cur), st));
+                    }
+                    cur_sd = is_sd;
+                    cur.push(*ch);
+                }
+                if !cur.is_empty() {
+                    spans.push(Span::styled(cur, if cur_sd { t.bold() } else { bar_style }));
+                }
+            }
+            None => spans.push(Span::styled(drawn, bar_style)),
+        }
         let mark = if largest { g.mark } else { " " };
         spans.push(Span::styled(
             format!("{:>valw$.1}", tenth(u.of(s.cumulative))),
@@ -261,6 +334,31 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn one_sd_is_a_whisker_when_it_spans_cells_else_a_number() {
+        // 21 cells over 0..-100: 5 units a cell; the rung of -50 is cell 10.
+        let mut cells: Vec<char> = track(0.0, -50.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -50.0, 10.0, -100.0, 0.0, &ASCII, "+-10.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "========[=|-]        ");
+        // sd 1 is a fifth of a cell: the number goes right of the rung.
+        let mut cells: Vec<char> = track(0.0, -50.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -50.0, 1.0, -100.0, 0.0, &ASCII, "+-1.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "==========|+-1.0     ");
+        // A rung at the right edge: the number goes left of the bar.
+        let mut cells: Vec<char> = track(-80.0, -100.0, -100.0, 0.0, 21, '=', '|')
+            .chars()
+            .collect();
+        mark_sd(&mut cells, -100.0, 1.0, -100.0, 0.0, &ASCII, "+-1.0");
+        let s: String = cells.iter().collect();
+        assert_eq!(s, "          +-1.0 ====|");
+    }
 
     #[test]
     fn bars_are_drawn_to_scale() {

@@ -2,7 +2,8 @@
 //! step's numbers, classes, verdicts and the energy ladder change in the same
 //! frame. Elm pattern: `app::App` is the state, `app::Message` what can
 //! happen, `App::update` the one place of change (it recomputes the
-//! `Analysis` when the scenario changed), `view::render` a pure drawing.
+//! `Analysis` and the driving-force optimisation when the scenario
+//! changed), `view::render` a pure drawing.
 //!
 //! Module map: `app` (state, keys → messages, update, saving and reloading
 //! through `scenario::save`), `view` (panes and status line), `ladder` (the

@@ -1,10 +1,11 @@
 //! Drawing the explorer: a pure function of `App` into a ratatui `Buffer`.
-//! Step list, concentration pane, energy ladder, step detail, a message line
-//! and the status line; the key overlay on top when asked. Meaning is always
+//! Step list (with the MDF in its title and bottleneck flags), concentration
+//! pane, energy ladder, step detail, a message line and the status line
+//! (with the chosen sample); the key overlay on top when asked. Meaning is always
 //! carried by a symbol or word as well as by colour, so NO_COLOR and
 //! `--ascii` lose nothing.
 
-use super::app::{App, Mode, Pane, Target, Tone};
+use super::app::{App, LIVE_MDF_MAX_STEPS, LiveMdf, Mode, Pane, Target, Tone};
 use super::ladder;
 use crate::analysis::{Class, Role, StepResult, VerdictKind};
 use crate::model::units;
@@ -29,8 +30,13 @@ const ASCII_BORDER: border::Set = border::Set {
     horizontal_bottom: "-",
 };
 
-/// Width kept free in the step list for a future per-step marker (e.g. a bottleneck flag).
+/// Width of the step list's marker column (the bottleneck flag).
 pub const MARKER_COLUMN: usize = 2;
+
+/// The bottleneck flag in the marker column, Unicode and ASCII.
+pub fn bottleneck_mark(ascii: bool) -> &'static str {
+    if ascii { "@" } else { "■" }
+}
 
 /// Styles, with colour only when allowed.
 #[derive(Debug, Clone, Copy)]
@@ -193,6 +199,16 @@ fn asciify(area: Rect, buf: &mut Buffer) {
 }
 
 fn block<'a>(app: &App, t: &Theme, pane: Pane, title: &'a str) -> Block<'a> {
+    block_with(app, t, pane, title, Vec::new())
+}
+
+fn block_with<'a>(
+    app: &App,
+    t: &Theme,
+    pane: Pane,
+    title: &'a str,
+    extra: Vec<Span<'a>>,
+) -> Block<'a> {
     let focused = app.focus == pane;
     let mark = match (focused, app.opts.ascii) {
         (true, false) => "▸ ",
@@ -201,10 +217,15 @@ fn block<'a>(app: &App, t: &Theme, pane: Pane, title: &'a str) -> Block<'a> {
     };
     let b = Block::default()
         .borders(Borders::ALL)
-        .title(Line::from(vec![
-            Span::styled(mark, t.bold()),
-            Span::styled(title, if focused { t.bold() } else { Style::default() }),
-        ]))
+        .title(Line::from(
+            [
+                Span::styled(mark, t.bold()),
+                Span::styled(title, if focused { t.bold() } else { Style::default() }),
+            ]
+            .into_iter()
+            .chain(extra)
+            .collect::<Vec<_>>(),
+        ))
         .border_style(if focused {
             t.fg(Color::Cyan).add_modifier(Modifier::BOLD)
         } else {
@@ -250,7 +271,8 @@ fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         },
         a.direction.as_str()
     );
-    let b = block(app, t, Pane::Steps, &title);
+    let room = (area.width as usize).saturating_sub(title.chars().count() + 4);
+    let b = block_with(app, t, Pane::Steps, &title, mdf_title(app, t, room));
     let inner = b.inner(area);
     b.render(area, buf);
     let w = inner.width as usize;
@@ -316,7 +338,16 @@ fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         };
         let mut spans = vec![Span::styled(lead, row_style)];
         spans.push(Span::styled(pad(&st.id, idw, ascii), row_style));
-        spans.push(Span::styled(format!(" {:MARKER_COLUMN$}", ""), row_style));
+        let marker = if !side && app.is_bottleneck(k) {
+            bottleneck_mark(ascii)
+        } else {
+            ""
+        };
+        spans.push(Span::styled(" ", row_style));
+        spans.push(Span::styled(
+            format!("{marker:MARKER_COLUMN$}"),
+            row_style.patch(t.warn()),
+        ));
         if show_enz {
             let enz = match (side, s.replaces) {
                 (true, _) => format!("{} (side)", st.enzyme.as_deref().unwrap_or("")),
@@ -374,6 +405,49 @@ fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         lines.push(Line::from(spans));
     }
     Paragraph::new(lines).render(inner, buf);
+}
+
+/// The MDF for the step list's title, in at most `room` characters.
+fn mdf_title(app: &App, t: &Theme, room: usize) -> Vec<Span<'static>> {
+    let u = app.opts.unit;
+    let ascii = app.opts.ascii;
+    let sep = if ascii { " | " } else { " · " };
+    let (long, short, style) = match &app.mdf {
+        LiveMdf::Solved(m) => {
+            let v = tenth(u.of(m.value));
+            let num = format!("MDF {v:+.1} {}", u.label());
+            if m.value > 0.0 {
+                (num.clone(), format!("MDF {v:+.1}"), t.bold())
+            } else {
+                (
+                    format!("{num}: cannot run within the bounds"),
+                    format!("MDF {v:+.1}: cannot run"),
+                    t.warn(),
+                )
+            }
+        }
+        LiveMdf::Failed(_) => (
+            "MDF not solved (see step detail)".to_string(),
+            "MDF failed".to_string(),
+            t.warn(),
+        ),
+        LiveMdf::Skipped(_) => (
+            format!("MDF off (over {LIVE_MDF_MAX_STEPS} steps)"),
+            "MDF off".to_string(),
+            t.dim(),
+        ),
+    };
+    let pick = [long, short]
+        .into_iter()
+        .find(|x| x.chars().count() + sep.chars().count() < room);
+    match pick {
+        Some(text) => vec![
+            Span::raw(sep),
+            Span::styled(text.replace('-', if ascii { "-" } else { "−" }), style),
+            Span::raw(" "),
+        ],
+        None => Vec::new(),
+    }
 }
 
 fn role_text(r: Role, compact: bool) -> &'static str {
@@ -620,6 +694,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             t.warn(),
         )),
     }
+    out.push(optimum_line(app, t, s));
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
         out.push(Line::styled(
             format!("verdict: {}", v.kind.as_str().replace('_', " ")),
@@ -672,6 +747,44 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
         )));
     }
     out
+}
+
+/// The selected step at the driving-force optimum.
+fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
+    let u = app.opts.unit;
+    let a = &app.analysis;
+    match &app.mdf {
+        LiveMdf::Failed(e) => Line::styled(format!("optimum: not solved — {e}"), t.warn()),
+        LiveMdf::Skipped(n) => Line::styled(
+            format!(
+                "optimum: not computed live for routes over {LIVE_MDF_MAX_STEPS} steps ({n} here); run `dgpath mdf FILE`"
+            ),
+            t.dim(),
+        ),
+        LiveMdf::Solved(_) => {
+            let pos = a.steps.iter().position(|x| std::ptr::eq(x, s));
+            match pos.and_then(|k| app.price_at(k).map(|pf| (k, pf))) {
+                None => Line::styled(
+                    "optimum: side steps are not part of the driving-force optimisation",
+                    t.dim(),
+                ),
+                Some((k, (price, force))) => {
+                    let mut l = kv("shadow price", format!("{price:.2}"));
+                    l.extend(kv(
+                        "driving force at optimum",
+                        format!("{:.2} {}", u.of(force), u.label()),
+                    ));
+                    if app.is_bottleneck(k) {
+                        l.push(Span::styled(
+                            format!("{} bottleneck", bottleneck_mark(app.opts.ascii)),
+                            t.warn(),
+                        ));
+                    }
+                    Line::from(l)
+                }
+            }
+        }
+    }
 }
 
 fn detail_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
@@ -783,8 +896,21 @@ fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             },
         ),
         Span::raw(sep),
-        Span::raw(app.source.name.clone()),
     ];
+    // The sample comes before the (often long) file name so narrow screens keep it.
+    if let Some(name) = app.sample_name() {
+        spans.push(Span::styled(
+            format!(
+                "sample {name} ({}/{}){}",
+                app.sample_at + 1,
+                app.samples.len(),
+                if app.sample_edited { " edited" } else { "" }
+            ),
+            t.bold(),
+        ));
+        spans.push(Span::raw(sep));
+    }
+    spans.push(Span::raw(app.source.name.clone()));
     if app.dirty() {
         spans.push(Span::raw(sep));
         spans.push(Span::styled(
@@ -830,6 +956,11 @@ pub const KEYS: &[(&str, &str)] = &[
     ("t / p / i", "edit temperature / pH / ionic strength"),
     ("r", "reverse route on/off"),
     ("w", "walk the route one step at a time (Esc ends)"),
+    (
+        "o",
+        "load the optimal concentrations (MDF; rounded to 3 figures)",
+    ),
+    ("[ / ]", "previous / next sample (with --samples TABLE.csv)"),
     ("u / Ctrl-r", "undo / redo"),
     ("s", "save concentrations and conditions into the file"),
     ("Ctrl-c", "quit at once"),
@@ -862,14 +993,14 @@ fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         })
         .collect();
     lines.push(Line::styled(
-        " symbols: ▼ far  ↘ moderate  ≈ near  ▲ uphill  ? class unsure  ◀ largest drop",
+        " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck ± 1 sd",
         t.dim(),
     ));
     if app.opts.ascii {
         lines = lines.into_iter().map(ascii_line).collect();
         if let Some(last) = lines.last_mut() {
             *last = Line::styled(
-                " symbols: v far  \\ moderate  ~ near  ^ uphill  ? class unsure  < largest drop",
+                " v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck +- 1 sd",
                 t.dim(),
             );
         }
