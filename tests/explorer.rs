@@ -778,3 +778,19 @@ fn split_args(s: &str) -> Vec<String> {
     }
     out
 }
+
+#[test]
+fn the_detail_says_which_way_an_unsure_class_could_flip() {
+    let mut app = demo();
+    // pfk in the demo: far, with a 95 % interval that reaches the moderate band.
+    keys(&mut app, "/ pfk Enter");
+    let text = screen(&app, 120, 48);
+    assert!(
+        text.contains("not sure: within 95 % it could be moderate"),
+        "{text}"
+    );
+    // hxk is surely far: no such line.
+    keys(&mut app, "/ hxk Enter");
+    let text = screen(&app, 120, 48);
+    assert!(!text.contains("not sure:"), "{text}");
+}

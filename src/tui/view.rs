@@ -677,6 +677,18 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             t.dim(),
         ));
     }
+    if !s.class_sure {
+        let mut could: Vec<&str> = Vec::new();
+        for c in [s.class_range.0, s.class_range.1] {
+            if c != s.class && !could.contains(&c.as_str()) {
+                could.push(c.as_str());
+            }
+        }
+        out.push(Line::styled(
+            format!("  not sure: within 95 % it could be {}", could.join(" or ")),
+            t.bold(),
+        ));
+    }
     let mut l = kv("J+/J−", sci(s.flux_ratio(rt)));
     if ascii {
         l[0] = Span::raw("J+/J- ");
