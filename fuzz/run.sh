@@ -15,7 +15,7 @@ secs="${1:-20}"
 shift || true
 targets=("$@")
 if [ ${#targets[@]} -eq 0 ]; then
-    targets=(load reaction units)
+    targets=(load reaction units keys)
 fi
 case "$secs" in
     '' | *[!0-9]*) echo "usage: fuzz/run.sh [SECONDS] [TARGET...]" >&2; exit 2 ;;
@@ -43,6 +43,11 @@ for t in "${targets[@]}"; do
     fi
     if [ "$t" = load ]; then
         args+=(-max_len=16384)
+    fi
+    if [ "$t" = keys ]; then
+        # Long key sequences from the start (no slow growth of the length
+        # limit) reach edits inside edits, undo chains and walks.
+        args+=(-max_len=256 -len_control=0)
     fi
     echo "== fuzz target $t, $secs s"
     if ! cargo fuzz run "${flags[@]}" "$t" "fuzz/corpus/$t" "fuzz/seeds/$t" -- "${args[@]}"; then

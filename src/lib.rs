@@ -10,6 +10,7 @@
 
 pub mod analysis;
 pub mod model;
+#[cfg(feature = "plot")]
 pub mod plot;
 pub mod report;
 pub mod samples;

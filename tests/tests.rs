@@ -5,6 +5,7 @@ mod explorer_tmux;
 mod library;
 mod limits;
 mod mdf;
+#[cfg(feature = "plot")]
 mod plot;
 mod properties;
 mod references;

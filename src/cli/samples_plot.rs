@@ -139,13 +139,37 @@ pub fn run_plot(prep: &Prepared, common: &Common, output: &Path) -> Result<()> {
         Some(path) => Some(summarise(prep, &state, path)?),
         None => None,
     };
-    let svg = dgpath::plot::svg(prep, &a, sum.as_ref(), common.unit())?;
-    let bytes = if png {
-        dgpath::plot::png(&svg)?
-    } else {
-        svg.into_bytes()
-    };
+    let bytes = picture(prep, &a, sum.as_ref(), common, png)?;
     std::fs::write(output, bytes)
         .with_context(|| format!("{}: cannot write the picture", output.display()))?;
     super::emit(&format!("wrote {}\n", output.display()))
+}
+
+/// The plot as SVG text or PNG bytes.
+#[cfg(feature = "plot")]
+fn picture(
+    prep: &Prepared,
+    a: &analysis::Analysis,
+    sum: Option<&Summary>,
+    common: &Common,
+    png: bool,
+) -> Result<Vec<u8>> {
+    let svg = dgpath::plot::svg(prep, a, sum, common.unit())?;
+    Ok(if png {
+        dgpath::plot::png(&svg)?
+    } else {
+        svg.into_bytes()
+    })
+}
+
+/// Without the `plot` feature there is nothing to draw with.
+#[cfg(not(feature = "plot"))]
+fn picture(
+    _: &Prepared,
+    _: &analysis::Analysis,
+    _: Option<&Summary>,
+    _: &Common,
+    _: bool,
+) -> Result<Vec<u8>> {
+    bail!("this dgpath was built without the `plot` feature: rebuild it with default features")
 }
