@@ -89,9 +89,13 @@ impl Tmux {
             std::thread::sleep(Duration::from_millis(30));
         }
     }
+    /// Polls until the pane's process has ended and tmux knows how (the pane can
+    /// read as dead a moment before its exit status or signal is filled in).
     fn wait_dead(&self) {
         let t0 = Instant::now();
-        while self.var("pane_dead") != "1" {
+        while self.var("pane_dead") != "1"
+            || (self.var("pane_dead_status").is_empty() && self.var("pane_dead_signal").is_empty())
+        {
             assert!(
                 t0.elapsed() < Duration::from_secs(20),
                 "the explorer did not end:\n{}",
@@ -259,5 +263,10 @@ fn a_panic_in_the_explorer_restores_the_terminal() {
         !s.contains("Steps ("),
         "no explorer screen left behind:\n{s}"
     );
-    assert_eq!(t.var("pane_dead_status"), "101", "a panic exits with 101");
+    assert_eq!(
+        t.var("pane_dead_status"),
+        "101",
+        "a panic exits with 101 (signal: '{}')",
+        t.var("pane_dead_signal")
+    );
 }

@@ -336,6 +336,29 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         format!("cumul. [{ul}]"),
         "verdict".to_string(),
     ];
+    // The cells both kinds of rows share: energies, ratios, flux-force, class.
+    let middle = |s: &StepResult| -> Vec<String> {
+        vec![
+            format!("{:.2}", clean(u.of(s.dg0))),
+            format!("{:.2}", clean(u.of(s.dg))),
+            s.dg_sd
+                .map(|v| format!("{:.2}", u.of(v)))
+                .unwrap_or_else(|| "-".into()),
+            sci(s.q()),
+            sci(s.keq()),
+            sci(s.flux_ratio(a.rt)),
+            undone(s, a.rt),
+            s.enzyme_factor(a.rt)
+                .map(|f| format!("{f:.3}"))
+                .unwrap_or_else(|| "-".into()),
+            format!(
+                "{} {}{}",
+                class_symbol(s.class, o.ascii),
+                s.class.as_str(),
+                if s.class_sure { "" } else { "?" }
+            ),
+        ]
+    };
     let mut rows: Vec<(Vec<String>, Option<Class>)> = Vec::new();
     for (k, s) in a.steps.iter().enumerate() {
         let st = &p.steps[s.step];
@@ -353,66 +376,31 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
             Some(v) => verdict_symbol(a.control[v].kind, o.ascii).to_string(),
             None => String::new(),
         };
-        rows.push((
-            vec![
-                id,
-                st.enzyme.clone().unwrap_or_default(),
-                units::sig3(s.times),
-                format!("{:.2}", clean(u.of(s.dg0))),
-                format!("{:.2}", clean(u.of(s.dg))),
-                s.dg_sd
-                    .map(|v| format!("{:.2}", u.of(v)))
-                    .unwrap_or_else(|| "-".into()),
-                sci(s.q()),
-                sci(s.keq()),
-                sci(s.flux_ratio(a.rt)),
-                undone(s, a.rt),
-                s.enzyme_factor(a.rt)
-                    .map(|f| format!("{f:.3}"))
-                    .unwrap_or_else(|| "-".into()),
-                format!(
-                    "{} {}{}",
-                    class_symbol(s.class, o.ascii),
-                    s.class.as_str(),
-                    if s.class_sure { "" } else { "?" }
-                ),
-                if s.share > 0.0 {
-                    format!("{:.0} %", s.share * 100.0)
-                } else {
-                    String::new()
-                },
-                format!("{:.2}", clean(u.of(s.cumulative))),
-                verdict,
-            ],
-            Some(s.class),
-        ));
+        let mut cells = vec![
+            id,
+            st.enzyme.clone().unwrap_or_default(),
+            units::sig3(s.times),
+        ];
+        cells.extend(middle(s));
+        cells.push(if s.share > 0.0 {
+            format!("{:.0} %", s.share * 100.0)
+        } else {
+            String::new()
+        });
+        cells.push(format!("{:.2}", clean(u.of(s.cumulative))));
+        cells.push(verdict);
+        rows.push((cells, Some(s.class)));
     }
     for s in &a.side {
         let st = &p.steps[s.step];
-        rows.push((
-            vec![
-                format!("{} (side)", st.id),
-                st.enzyme.clone().unwrap_or_default(),
-                String::new(),
-                format!("{:.2}", clean(u.of(s.dg0))),
-                format!("{:.2}", clean(u.of(s.dg))),
-                s.dg_sd
-                    .map(|v| format!("{:.2}", u.of(v)))
-                    .unwrap_or_else(|| "-".into()),
-                sci(s.q()),
-                sci(s.keq()),
-                sci(s.flux_ratio(a.rt)),
-                undone(s, a.rt),
-                s.enzyme_factor(a.rt)
-                    .map(|f| format!("{f:.3}"))
-                    .unwrap_or_else(|| "-".into()),
-                format!("{} {}", class_symbol(s.class, o.ascii), s.class.as_str()),
-                String::new(),
-                String::new(),
-                String::new(),
-            ],
-            Some(s.class),
-        ));
+        let mut cells = vec![
+            format!("{} (side)", st.id),
+            st.enzyme.clone().unwrap_or_default(),
+            String::new(),
+        ];
+        cells.extend(middle(s));
+        cells.extend([String::new(), String::new(), String::new()]);
+        rows.push((cells, Some(s.class)));
     }
     let ncol = head.len();
     let mut w = vec![0usize; ncol];
