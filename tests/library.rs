@@ -412,3 +412,52 @@ fn state_from_pathway_uses_the_files_values() {
     close(thermo::rt(s.conditions.temperature), a.rt, 0.0);
     close(step(&prep, &a, "pgi").dg, -step(&prep, &f, "pgi").dg, 1e-9);
 }
+
+/// pathway-format.md: branch points are every non-currency compound a side
+/// step uses — read literally, that includes a solvent; cli.md rule 2 then
+/// applies to a far step whose product it is.
+#[test]
+fn a_solvent_used_by_a_side_step_is_a_branch_point_as_the_format_says() {
+    let text = r#"format = 1
+[pathway]
+name = "water branch (test)"
+[conditions]
+temperature = "25 C"
+[compounds]
+a = { conc = "10 mM" }
+b = { conc = "1 uM" }
+c = { conc = "1 uM" }
+d = { conc = "1 uM" }
+w = { role = "solvent" }
+[[steps]]
+id = "s1"
+reaction = "a -> b + w"
+dg0 = "-20 kJ/mol"
+[[steps]]
+id = "s2"
+reaction = "b -> c"
+dg0 = "-20 kJ/mol"
+[[steps]]
+id = "s3"
+reaction = "c -> d"
+dg0 = "-20 kJ/mol"
+[[steps]]
+id = "leak"
+reaction = "d + w -> a"
+dg0 = "-5 kJ/mol"
+side = true
+"#;
+    let prep = dgpath::analysis::prepare(dgpath::model::load_str(text, "w.toml").unwrap()).unwrap();
+    let a = dgpath::analysis::analyze(&prep, &dgpath::scenario::State::from_pathway(&prep.pathway))
+        .unwrap();
+    let w = prep.pathway.compound("w").unwrap();
+    assert!(a.branch[w], "water is used by the side step");
+    let kinds: Vec<&str> = a.control.iter().map(|v| v.kind.as_str()).collect();
+    // s1 makes water (a branch point): not_here; s2 is the first left: prime; s3 is last.
+    assert_eq!(kinds, ["not_here", "prime", "not_here"]);
+    assert!(
+        a.control[0].reasons[0].contains("w is a branch point"),
+        "{:?}",
+        a.control[0].reasons
+    );
+}

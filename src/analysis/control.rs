@@ -59,9 +59,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
         let products: Vec<usize> = st
             .stoich
             .iter()
-            .filter(|&&(c, nu)| {
-                nu * s.sign > 0.0 && !matches!(a.roles[c], Role::Currency | Role::Solvent)
-            })
+            .filter(|&&(c, nu)| nu * s.sign > 0.0 && a.roles[c] != Role::Currency)
             .map(|&(c, _)| c)
             .collect();
         let branching: Vec<&str> = products

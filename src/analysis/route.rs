@@ -227,7 +227,7 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
     for &s in &side {
         for &(c, _) in &p.steps[s].stoich {
             let comp = &p.compounds[c];
-            if !comp.is_currency() && !comp.is_solvent() {
+            if !comp.is_currency() {
                 branch[c] = true;
             }
         }
