@@ -461,3 +461,38 @@ side = true
         a.control[0].reasons
     );
 }
+
+#[test]
+fn a_step_left_out_of_an_explicit_route_is_named_in_the_notes() {
+    let text = r#"format = 1
+[pathway]
+name = "route subset (test)"
+route = ["s1"]
+[conditions]
+temperature = "25 C"
+[compounds]
+a = { conc = "1 mM" }
+b = { conc = "1 mM" }
+c = { conc = "1 mM" }
+[[steps]]
+id = "s1"
+reaction = "a -> b"
+dg0 = -3
+[[steps]]
+id = "s2"
+reaction = "b -> c"
+dg0 = -3
+"#;
+    let prep = dgpath::analysis::prepare(dgpath::model::load_str(text, "r.toml").unwrap()).unwrap();
+    let a = dgpath::analysis::analyze(&prep, &dgpath::scenario::State::from_pathway(&prep.pathway))
+        .unwrap();
+    assert_eq!(a.steps.len(), 1);
+    assert!(
+        a.notes
+            .iter()
+            .any(|n| n.starts_with("s2 is not in pathway.route")
+                && n.contains("mark it side = true")),
+        "{:?}",
+        a.notes
+    );
+}

@@ -530,6 +530,21 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
             }
         }
     }
+    let left_out: Vec<&str> = (0..p.steps.len())
+        .filter(|&i| !p.route.contains(&i) && !p.steps[i].side && p.steps[i].bypass_of.is_none())
+        .map(|i| p.steps[i].id.as_str())
+        .collect();
+    if !left_out.is_empty() {
+        let (is, it) = if left_out.len() == 1 {
+            ("is", "it")
+        } else {
+            ("are", "them")
+        };
+        out.push(format!(
+            "{} {is} not in pathway.route and not marked side = true, so not analysed; add {it} to the route or mark {it} side = true.",
+            list(&left_out)
+        ));
+    }
     for s in a.steps.iter().chain(a.side.iter()) {
         if s.class_sure {
             continue;
