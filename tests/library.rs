@@ -447,9 +447,8 @@ reaction = "d + w -> a"
 dg0 = "-5 kJ/mol"
 side = true
 "#;
-    let prep = dgpath::analysis::prepare(dgpath::model::load_str(text, "w.toml").unwrap()).unwrap();
-    let a = dgpath::analysis::analyze(&prep, &dgpath::scenario::State::from_pathway(&prep.pathway))
-        .unwrap();
+    let prep = prepare_str(text, "w.toml");
+    let a = analyze(&prep);
     let w = prep.pathway.compound("w").unwrap();
     assert!(a.branch[w], "water is used by the side step");
     let kinds: Vec<&str> = a.control.iter().map(|v| v.kind.as_str()).collect();
@@ -483,9 +482,8 @@ id = "s2"
 reaction = "b -> c"
 dg0 = -3
 "#;
-    let prep = dgpath::analysis::prepare(dgpath::model::load_str(text, "r.toml").unwrap()).unwrap();
-    let a = dgpath::analysis::analyze(&prep, &dgpath::scenario::State::from_pathway(&prep.pathway))
-        .unwrap();
+    let prep = prepare_str(text, "r.toml");
+    let a = analyze(&prep);
     assert_eq!(a.steps.len(), 1);
     assert!(
         a.notes
