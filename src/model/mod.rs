@@ -14,10 +14,6 @@ use std::fmt;
 
 /// Highest temperature (K) a file or option may state (see `check`).
 pub const MAX_TEMPERATURE: f64 = check::MAX_TEMPERATURE;
-/// Most steps a pathway file may have (the mass balance is a dense matrix).
-pub const MAX_STEPS: usize = 2000;
-/// Most compounds a pathway file may declare.
-pub const MAX_COMPOUNDS: usize = 5000;
 
 /// One mistake in an input, with where it is and how to fix it.
 #[derive(Debug, Clone, PartialEq)]
