@@ -6,15 +6,14 @@
 //! changed), `view::render` a pure drawing.
 //!
 //! Module map: `app` (state, keys → messages, update, saving and reloading
-//! through `scenario::save`), `view` (panes and status line), `ladder` (the
-//! text energy ladder), `export` (buffer → text / SVG for screenshots).
+//! through `scenario::save`), `view` (panes, energy ladder, status line and
+//! key overlay, one file each), `export` (buffer → text / SVG for screenshots).
 //! This file owns the terminal: the `IsTerminal` check, init and restore
 //! (on quit, error and panic) and the event loop, which redraws only when
 //! something changed and polls the file on disk about every 500 ms.
 
 pub mod app;
 pub mod export;
-pub mod ladder;
 pub mod view;
 
 pub use app::{App, Message, Options, Source};
