@@ -13,7 +13,6 @@ pub mod model;
 #[cfg(feature = "plot")]
 pub mod plot;
 pub mod report;
-pub mod samples;
 pub mod scenario;
 pub mod thermo;
 pub mod tui;

@@ -5,8 +5,8 @@
 use super::args::Common;
 use anyhow::{Context, Result, anyhow, bail};
 use dgpath::analysis::{self, Direction, Prepared};
+use dgpath::model::samples::Sample;
 use dgpath::model::{self, LoadError, units};
-use dgpath::samples::Sample;
 use dgpath::scenario::State;
 use dgpath::tui::Source;
 use std::path::Path;
@@ -116,7 +116,7 @@ pub fn explorer_samples(prep: &Prepared, state: &State, c: &Common) -> Result<Ve
     let Some(path) = &c.samples else {
         return Ok(Vec::new());
     };
-    let all = dgpath::samples::SampleReader::open(path, &prep.pathway, &state.conc)?
+    let all = dgpath::model::samples::SampleReader::open(path, &prep.pathway, &state.conc)?
         .collect::<Result<Vec<Sample>, _>>()?;
     if all.is_empty() {
         bail!(

@@ -8,9 +8,9 @@
 pub use super::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
 use crate::analysis::mdf::Mdf;
 use crate::analysis::{self, Analysis, Direction, Prepared, StepResult};
+use crate::model::samples::Sample;
 use crate::model::{self, Pathway, units};
 use crate::report::EnergyUnit;
-use crate::samples::Sample;
 use crate::scenario::save::{self, DiskStamp};
 use crate::scenario::{Scenario, State};
 use std::path::PathBuf;

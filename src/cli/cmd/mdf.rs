@@ -6,8 +6,8 @@ use crate::cli::output::{colour_ok, emit};
 use crate::cli::request::state_from;
 use anyhow::{Result, anyhow, bail};
 use dgpath::analysis::{self, Prepared};
+use dgpath::model::samples::SampleReader;
 use dgpath::report::{self, TextOptions};
-use dgpath::samples::SampleReader;
 use dgpath::scenario::State;
 use std::path::Path;
 
