@@ -1,7 +1,7 @@
 //! The command line as clap sees it: commands, shared options, formats.
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
-use dgpath::report::EnergyUnit;
+use dgpath::present::EnergyUnit;
 use std::path::PathBuf;
 
 /// Gibbs energies of pathway steps at your cell's conditions, live.

@@ -3,10 +3,11 @@
 //! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
 //! beyond unit conversion.
 
+use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
-use crate::report::{EnergyUnit, TextOptions, clean};
+use crate::present::{EnergyUnit, clean};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 

@@ -10,7 +10,7 @@ use crate::analysis::mdf::Mdf;
 use crate::analysis::{self, Analysis, Direction, Prepared, StepResult};
 use crate::model::samples::Sample;
 use crate::model::{self, Pathway, units};
-use crate::report::EnergyUnit;
+use crate::present::EnergyUnit;
 use crate::scenario::save::{self, DiskStamp};
 use crate::scenario::{Scenario, State};
 use std::path::PathBuf;

@@ -5,7 +5,7 @@ use super::theme::bottleneck_mark;
 use super::theme::{Theme, block};
 use crate::analysis::{Class, StepResult};
 use crate::model::units;
-use crate::report::{self, sci};
+use crate::present::{self, sci};
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
 use crate::tui::optimum::LiveMdf;
 use ratatui::buffer::Buffer;
@@ -38,12 +38,12 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
         head.push(Span::raw("  "));
         head.push(Span::styled(
-            report::verdict_symbol(v.kind, ascii).to_string(),
+            present::verdict_symbol(v.kind, ascii).to_string(),
             t.verdict(v.kind),
         ));
     }
     out.push(Line::from(head));
-    let mut rx = report::reaction_as_run(&app.prep, s);
+    let mut rx = present::reaction_as_run(&app.prep, s);
     if !ascii {
         rx = rx.replace("->", "→").replace("<=>", "⇌");
     }

@@ -5,7 +5,7 @@ use super::text::fit;
 use super::text::{class_text, pad, rpad, tenth, window};
 use super::theme::{MARKER_COLUMN, Theme, block_with, bottleneck_mark};
 use crate::model::units;
-use crate::report;
+use crate::present;
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
 use crate::tui::optimum::LiveMdf;
 use ratatui::buffer::Buffer;
@@ -152,7 +152,7 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             row_style,
         ));
         if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
-            let full = report::verdict_symbol(v.kind, ascii);
+            let full = present::verdict_symbol(v.kind, ascii);
             let txt = if compact {
                 full.split(' ').next().unwrap_or("").to_string()
             } else {

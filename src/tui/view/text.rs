@@ -2,7 +2,7 @@
 //! for display, scrolling windows and the ASCII stand-ins.
 
 use crate::analysis::{Role, StepResult};
-use crate::report::class_symbol;
+use crate::present::class_symbol;
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;
 use ratatui::style::{Modifier, Style};
