@@ -173,7 +173,11 @@ mod tests {
             assert_eq!(ids(&e.left), vec![(1.0, "a"), (1.0, "b")], "{text}");
             assert_eq!(ids(&e.right), vec![(1.0, "c")], "{text}");
         }
-        assert!(parse("a → b → c").unwrap_err().contains("more than one arrow"));
+        assert!(
+            parse("a → b → c")
+                .unwrap_err()
+                .contains("more than one arrow")
+        );
     }
 
     fn ids(terms: &[Term]) -> Vec<(f64, &str)> {

@@ -134,7 +134,9 @@ pub fn conc_divisor(unit: &str) -> Option<f64> {
     Some(match unit {
         "M" | "mol/L" | "mol/l" => 1.0,
         "" | "mM" | "mmol/L" | "mmol/l" => 1e3,
-        "uM" | "µM" | "μM" | "umol/L" | "µmol/L" | "μmol/L" | "umol/l" | "µmol/l" | "μmol/l" => 1e6,
+        "uM" | "µM" | "μM" | "umol/L" | "µmol/L" | "μmol/L" | "umol/l" | "µmol/l" | "μmol/l" => {
+            1e6
+        }
         "nM" | "nmol/L" | "nmol/l" => 1e9,
         "pM" | "pmol/L" | "pmol/l" => 1e12,
         _ => return None,
@@ -160,9 +162,8 @@ fn unknown_unit(unit: &str, kind: Kind) -> String {
     if let Some(rest) = unit.strip_prefix(',')
         && rest.starts_with(|c: char| c.is_ascii_digit())
     {
-        return format!(
-            "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")"
-        );
+        return "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")"
+            .to_string();
     }
     format!("unknown unit '{}'; use {}", shorten(unit), kind.units())
 }
