@@ -3,7 +3,8 @@
 //! the reaction as it runs. Front ends use this module, never each other.
 
 use crate::analysis::{Class, Prepared, StepResult, VerdictKind};
-use crate::model::units;
+use crate::model::{Conditions, units};
+use crate::scenario::Direction;
 
 /// Energy unit for output.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -101,4 +102,17 @@ pub fn sci(x: f64) -> String {
     } else {
         format!("{x:.3}")
     }
+}
+
+/// The headline of the text renderings: name, direction and conditions
+/// (with the blank line after it).
+pub fn headline(name: &str, direction: Direction, c: &Conditions) -> String {
+    format!(
+        "{} — {} route, {:.2} °C, pH {}, I = {} M\n\n",
+        name,
+        direction.as_str(),
+        c.temperature - 273.15,
+        c.ph,
+        c.ionic_strength
+    )
 }

@@ -7,7 +7,7 @@ use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
-use crate::present::{EnergyUnit, clean};
+use crate::present::{EnergyUnit, clean, headline};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 
@@ -183,14 +183,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     let u = o.unit;
     let ul = u.label();
     let c = &state.conditions;
-    let mut out = format!(
-        "{} — {} route, {:.2} °C, pH {}, I = {} M\n\n",
-        p.name,
-        m.direction.as_str(),
-        c.temperature - 273.15,
-        c.ph,
-        c.ionic_strength
-    );
+    let mut out = headline(&p.name, m.direction, c);
     let v = two(u.of(m.value));
     let way = match m.direction {
         Direction::Forward => "forward",

@@ -2,7 +2,7 @@
 
 use crate::analysis::{Analysis, Class, Prepared, StepResult, control};
 use crate::model::units;
-use crate::present::{EnergyUnit, class_symbol, clean, sci, verdict_symbol};
+use crate::present::{EnergyUnit, class_symbol, clean, headline, sci, verdict_symbol};
 use crate::scenario::State;
 
 /// Options for the text renderings.
@@ -48,14 +48,7 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
     let u = o.unit;
     let c = &state.conditions;
     let mut out = String::new();
-    out.push_str(&format!(
-        "{} — {} route, {:.2} °C, pH {}, I = {} M\n\n",
-        p.name,
-        a.direction.as_str(),
-        c.temperature - 273.15,
-        c.ph,
-        c.ionic_strength
-    ));
+    out.push_str(&headline(&p.name, a.direction, c));
     let ul = u.label();
     let head = vec![
         "step".to_string(),
