@@ -162,8 +162,7 @@ fn unknown_unit(unit: &str, kind: Kind) -> String {
     if let Some(rest) = unit.strip_prefix(',')
         && rest.starts_with(|c: char| c.is_ascii_digit())
     {
-        return "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")"
-            .to_string();
+        return "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")".to_string();
     }
     format!("unknown unit '{}'; use {}", shorten(unit), kind.units())
 }
