@@ -4,33 +4,8 @@
 //! depends on concentrations, so it is built once per file.
 
 use crate::model::{LoadError, Pathway, Problem};
-
-/// Which way the route runs.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
-pub enum Direction {
-    /// As written.
-    #[default]
-    Forward,
-    /// Backward, with bypasses in place of the steps they replace.
-    Reverse,
-}
-
-impl Direction {
-    /// "forward" or "reverse".
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Direction::Forward => "forward",
-            Direction::Reverse => "reverse",
-        }
-    }
-    /// The other direction.
-    pub fn flipped(self) -> Self {
-        match self {
-            Direction::Forward => Direction::Reverse,
-            Direction::Reverse => Direction::Forward,
-        }
-    }
-}
+/// Which way a route runs (it belongs to the scenario; re-exported here).
+pub use crate::scenario::Direction;
 
 /// A compound's role on one route.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
