@@ -1,3 +1,7 @@
+//! dgpath's integration tests, one binary: each module tests what a user sees
+//! (the command line, references with their sources, the explorer, properties,
+//! bad inputs, limits, saving).
+
 mod bad_input;
 mod cli;
 mod explorer;

@@ -349,11 +349,11 @@ fn weighted_sd(
         }
     }
     for (c, &coef) in per_compound.iter().enumerate() {
-        if let Some(cv) = p.compounds[c].cv {
-            if used_by[c] {
-                any = true;
-                var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
-            }
+        if let Some(cv) = p.compounds[c].cv
+            && used_by[c]
+        {
+            any = true;
+            var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
         }
     }
     any.then(|| var.sqrt())
