@@ -1,0 +1,763 @@
+//! Flux control estimated from the thermodynamics (science.md §7): scaled
+//! flux control coefficients of the route steps over the route's flux, from
+//! reversible mass-action elasticities fixed by each step's dG' (the matrix
+//! method of metabolic control analysis), and the 5–95 % range of each
+//! coefficient over sampled enzyme saturation with a fixed seed.
+//!
+//! Route intermediates are the variables; every other compound is held.
+//! Route step j carries times_j·J at the steady state. A simple chain (each
+//! intermediate made by one step and used by the next) uses the closed form,
+//! in O(n); any other route uses the matrix method with a dense LU, with
+//! conserved moieties among the intermediates removed through the link
+//! matrix (N = L·N_R).
+
+use super::{Analysis, Role, VerdictKind};
+use crate::model::Pathway;
+use rand_chacha::ChaCha8Rng;
+use rand_chacha::rand_core::{RngCore, SeedableRng};
+
+/// Saturation draws behind `control_coefficient_range` unless asked otherwise.
+pub const DEFAULT_DRAWS: usize = 2000;
+/// Seed of the saturation draws (ChaCha8, `seed_from_u64`), fixed so the same file gives the same range.
+pub const SEED: u64 = 0x6467_7061_7468_4d43;
+/// Most intermediates of a route that is not a simple chain for which the estimate is computed.
+pub const DENSE_MAX: usize = 300;
+/// Most intermediates of a route that is not a simple chain for which the range is computed.
+pub const RANGE_DENSE_MAX: usize = 80;
+/// Most stored values (route steps × draws) for the range of a chain (8 bytes each).
+pub const RANGE_MAX_VALUES: usize = 8_000_000;
+/// Lower and upper percentile of the range.
+pub const RANGE_PERCENTILES: (f64, f64) = (0.05, 0.95);
+
+/// One route step's reactants among the intermediates: (variable, signed coefficient as run).
+type Terms = Vec<(usize, f64)>;
+
+/// The thermodynamic control model of one route at one scenario.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Model {
+    /// Compound index of each variable (route intermediate), in order of first use.
+    pub vars: Vec<usize>,
+    /// Per route step: its intermediates with signed coefficients as run.
+    terms: Vec<Terms>,
+    /// Per route step: 1/(1 − e^{dG'/RT}).
+    a: Vec<f64>,
+    /// Per route step: e^{dG'/RT}/(1 − e^{dG'/RT}).
+    b: Vec<f64>,
+    /// Turns per pass.
+    times: Vec<f64>,
+    /// The route is a simple chain (closed form).
+    chain: bool,
+    /// Link data for the matrix method (None for chains).
+    link: Option<Link>,
+}
+
+/// Independent rows of the stoichiometry and the scaled link matrix.
+#[derive(Debug, Clone, PartialEq)]
+struct Link {
+    /// For each variable: its index among the independent ones, if independent.
+    indep: Vec<Option<usize>>,
+    /// Number of independent variables.
+    m0: usize,
+    /// Scaled link matrix rows: for each variable, (independent index, L_ik·S_k/S_i).
+    rows: Vec<Vec<(usize, f64)>>,
+}
+
+/// Why a set of coefficients could not be computed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Failure {
+    /// The intermediates' balance has no unique steady state with these elasticities.
+    Singular,
+}
+
+impl Model {
+    /// Builds the model from raw parts: per route step its intermediates
+    /// (variable index, signed coefficient as run), turns and dG'/RT (< 0),
+    /// and each variable's concentration (for conserved moieties). None when
+    /// a step has dG'/RT ≥ 0 or is not finite.
+    pub fn from_parts(
+        vars: Vec<usize>,
+        conc: &[f64],
+        terms: Vec<Vec<(usize, f64)>>,
+        times: Vec<f64>,
+        g: &[f64],
+    ) -> Option<Model> {
+        if g.iter().any(|&x| x.is_nan() || x >= 0.0) || times.len() != terms.len() {
+            return None;
+        }
+        // 1 − e^g computed without cancellation; a = 1/(1 − e^g), b = e^g/(1 − e^g) = 1/(e^{−g} − 1).
+        let a: Vec<f64> = g.iter().map(|&x| 1.0 / -x.exp_m1()).collect();
+        let b: Vec<f64> = g.iter().map(|&x| 1.0 / (-x).exp_m1()).collect();
+        let chain = is_chain(&terms, vars.len());
+        let link = if chain {
+            None
+        } else {
+            Some(link(&terms, conc, vars.len()))
+        };
+        Some(Model {
+            vars,
+            terms,
+            a,
+            b,
+            times,
+            chain,
+            link,
+        })
+    }
+
+    /// Number of route steps.
+    pub fn len(&self) -> usize {
+        self.terms.len()
+    }
+
+    /// True when the route has no steps.
+    pub fn is_empty(&self) -> bool {
+        self.terms.is_empty()
+    }
+
+    /// True when the route is a simple chain (closed form, O(n)).
+    pub fn is_chain(&self) -> bool {
+        self.chain
+    }
+
+    /// Number of independent intermediates (the size of the matrix method's system).
+    pub fn independent(&self) -> usize {
+        self.link.as_ref().map_or(self.vars.len(), |l| l.m0)
+    }
+
+    /// Scaled elasticity of route step `k` to each of its intermediates
+    /// (compound index, value) under saturation (θ_S, θ_P); (0, 0) is mass action.
+    pub fn elasticities(&self, k: usize, sat: (f64, f64)) -> Vec<(usize, f64)> {
+        self.terms[k]
+            .iter()
+            .map(|&(v, nu)| (self.vars[v], self.elasticity(k, nu, sat)))
+            .collect()
+    }
+
+    fn elasticity(&self, k: usize, nu: f64, (ts, tp): (f64, f64)) -> f64 {
+        if nu < 0.0 {
+            -nu * (self.a[k] - ts)
+        } else {
+            -nu * (self.b[k] + tp)
+        }
+    }
+
+    /// Scaled flux control coefficients of the route steps over the route's
+    /// flux, at mass action (`sat` None) or with saturation (θ_S, θ_P) per step.
+    pub fn coefficients(&self, sat: Option<&[(f64, f64)]>) -> Result<Vec<f64>, Failure> {
+        if self.chain {
+            Ok(self.chain_coefficients(sat))
+        } else {
+            self.matrix_coefficients(sat)
+        }
+    }
+
+    /// The matrix method whatever the route's shape (for checking the closed form).
+    pub fn matrix_method(&self, sat: Option<&[(f64, f64)]>) -> Result<Vec<f64>, Failure> {
+        self.matrix_coefficients(sat)
+    }
+
+    /// Chain: C_k ∝ Π_{j<k} (−ε_{j,product}) · Π_{j>k} ε_{j,substrate}, in logs.
+    fn chain_coefficients(&self, sat: Option<&[(f64, f64)]>) -> Vec<f64> {
+        let n = self.terms.len();
+        let s = |k: usize| sat.map_or((0.0, 0.0), |v| v[k]);
+        // ln(−ε of step j to its product) for j < n−1; ln(ε of step j to its substrate) for j ≥ 1.
+        let mut log_n = vec![0.0; n];
+        let mut acc = 0.0;
+        for k in 0..n {
+            log_n[k] = acc;
+            if k + 1 < n {
+                let nu = self.terms[k]
+                    .iter()
+                    .find(|t| t.1 > 0.0)
+                    .map_or(0.0, |t| t.1);
+                acc += (-self.elasticity(k, nu, s(k))).ln();
+            }
+        }
+        let mut acc = 0.0;
+        for k in (0..n).rev() {
+            log_n[k] += acc;
+            if k > 0 {
+                let nu = self.terms[k]
+                    .iter()
+                    .find(|t| t.1 < 0.0)
+                    .map_or(0.0, |t| t.1);
+                acc += self.elasticity(k, nu, s(k)).ln();
+            }
+        }
+        let max = log_n.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let mut c: Vec<f64> = log_n.iter().map(|&l| (l - max).exp()).collect();
+        let sum: f64 = c.iter().sum();
+        for x in &mut c {
+            *x /= sum;
+        }
+        c
+    }
+
+    /// Reder's matrix method, row of the route's first step:
+    /// c = e_r − T N_Rᵀ z with (N_R T ε L̃)ᵀ z = (ε L̃)ᵀ e_r.
+    fn matrix_coefficients(&self, sat: Option<&[(f64, f64)]>) -> Result<Vec<f64>, Failure> {
+        let n = self.terms.len();
+        let identity;
+        let link = match &self.link {
+            Some(l) => l,
+            None => {
+                identity = Link {
+                    indep: (0..self.vars.len()).map(Some).collect(),
+                    m0: self.vars.len(),
+                    rows: (0..self.vars.len()).map(|i| vec![(i, 1.0)]).collect(),
+                };
+                &identity
+            }
+        };
+        let m0 = link.m0;
+        let mut out = vec![0.0; n];
+        if n == 0 {
+            return Ok(out);
+        }
+        out[0] = 1.0;
+        if m0 == 0 {
+            return Ok(out);
+        }
+        let s = |k: usize| sat.map_or((0.0, 0.0), |v| v[k]);
+        // Rows of ε L̃ per step, accumulated densely in a scratch row.
+        let mut at = vec![0.0; m0 * m0];
+        let mut u = vec![0.0; m0];
+        let mut scratch = vec![0.0; m0];
+        let mut touched: Vec<usize> = Vec::new();
+        for j in 0..n {
+            touched.clear();
+            for &(v, nu) in &self.terms[j] {
+                let e = self.elasticity(j, nu, s(j));
+                for &(l, w) in &link.rows[v] {
+                    if scratch[l] == 0.0 {
+                        touched.push(l);
+                    }
+                    scratch[l] += e * w;
+                }
+            }
+            if j == 0 {
+                for &l in &touched {
+                    u[l] = scratch[l];
+                }
+            }
+            let t = self.times[j];
+            for &(v, nu) in &self.terms[j] {
+                if let Some(k) = link.indep[v] {
+                    for &l in &touched {
+                        at[l * m0 + k] += nu * t * scratch[l];
+                    }
+                }
+            }
+            for &l in &touched {
+                scratch[l] = 0.0;
+            }
+        }
+        let z = solve(at, m0, u).ok_or(Failure::Singular)?;
+        for (i, c) in out.iter_mut().enumerate() {
+            let mut acc = 0.0;
+            for &(v, nu) in &self.terms[i] {
+                if let Some(k) = link.indep[v] {
+                    acc += z[k] * nu;
+                }
+            }
+            *c -= self.times[i] * acc;
+        }
+        let sum: f64 = out.iter().sum();
+        if out.iter().all(|x| x.is_finite()) && (sum - 1.0).abs() < 1e-6 {
+            Ok(out)
+        } else {
+            Err(Failure::Singular)
+        }
+    }
+
+    /// The 5th and 95th percentiles of each coefficient over `draws`
+    /// saturation draws (θ_S, θ_P uniform on θ_S + θ_P < 1 per step, ChaCha8
+    /// seeded with `seed`). Draws whose system is singular are left out; None
+    /// when none is left.
+    pub fn ranges(&self, draws: usize, seed: u64) -> Option<Vec<(f64, f64)>> {
+        let n = self.terms.len();
+        let mut rng = ChaCha8Rng::seed_from_u64(seed);
+        let mut sat = vec![(0.0, 0.0); n];
+        let mut per_step: Vec<Vec<f64>> = (0..n).map(|_| Vec::with_capacity(draws)).collect();
+        for _ in 0..draws {
+            for s in sat.iter_mut() {
+                let (x, y) = (unit(&mut rng), unit(&mut rng));
+                *s = if x + y < 1.0 {
+                    (x, y)
+                } else {
+                    (1.0 - x, 1.0 - y)
+                };
+            }
+            if let Ok(c) = self.coefficients(Some(&sat)) {
+                for (v, x) in per_step.iter_mut().zip(c) {
+                    v.push(x);
+                }
+            }
+        }
+        if per_step.first().is_none_or(|v| v.is_empty()) {
+            return None;
+        }
+        let (lo, hi) = RANGE_PERCENTILES;
+        Some(
+            per_step
+                .iter_mut()
+                .map(|v| {
+                    v.sort_by(f64::total_cmp);
+                    (quantile(v, lo), quantile(v, hi))
+                })
+                .collect(),
+        )
+    }
+}
+
+/// A uniform number in [0, 1) from the top 53 bits of one 64-bit output.
+fn unit(rng: &mut ChaCha8Rng) -> f64 {
+    (rng.next_u64() >> 11) as f64 * (1.0 / (1u64 << 53) as f64)
+}
+
+/// Quantile of sorted values by linear interpolation between order statistics (h = (n − 1)p).
+fn quantile(sorted: &[f64], p: f64) -> f64 {
+    let h = (sorted.len() - 1) as f64 * p;
+    let i = h.floor() as usize;
+    let f = h - i as f64;
+    match sorted.get(i + 1) {
+        Some(&next) => sorted[i] + f * (next - sorted[i]),
+        None => sorted[i],
+    }
+}
+
+/// A simple chain: step 0 makes variable v0 only, step k uses v_{k−1} and
+/// makes v_k, the last step uses v_{n−2} only, and there are n − 1 variables.
+fn is_chain(terms: &[Terms], nvars: usize) -> bool {
+    let n = terms.len();
+    if nvars + 1 != n {
+        return false;
+    }
+    let mut prev: Option<usize> = None;
+    let mut seen = vec![false; nvars];
+    for (k, t) in terms.iter().enumerate() {
+        let subs: Vec<usize> = t.iter().filter(|x| x.1 < 0.0).map(|x| x.0).collect();
+        let prods: Vec<usize> = t.iter().filter(|x| x.1 > 0.0).map(|x| x.0).collect();
+        if subs.as_slice() != prev.as_slice() {
+            return false;
+        }
+        if k + 1 == n {
+            return prods.is_empty();
+        }
+        match prods.as_slice() {
+            [p] if !seen[*p] => {
+                seen[*p] = true;
+                prev = Some(*p);
+            }
+            _ => return false,
+        }
+    }
+    true
+}
+
+/// Finds independent rows of the intermediates' stoichiometry (in variable
+/// order) and expresses the others through them, scaled by concentrations:
+/// d ln S_i = Σ_k L_ik (S_k / S_i) d ln S_k.
+fn link(terms: &[Terms], conc: &[f64], nvars: usize) -> Link {
+    let n = terms.len();
+    let mut rows = vec![vec![0.0; n]; nvars];
+    for (j, t) in terms.iter().enumerate() {
+        for &(v, nu) in t {
+            rows[v][j] += nu;
+        }
+    }
+    // Basis: reduced row (pivot entry 1), pivot column, and the row as a
+    // combination of the independent originals.
+    let mut basis: Vec<(Vec<f64>, usize, Vec<f64>)> = Vec::new();
+    let mut indep: Vec<Option<usize>> = vec![None; nvars];
+    let mut indep_vars: Vec<usize> = Vec::new();
+    let mut deps: Vec<(usize, Vec<f64>)> = Vec::new();
+    for (i, row) in rows.iter().enumerate() {
+        let scale = row.iter().fold(0.0f64, |m, x| m.max(x.abs())).max(1.0);
+        let mut r = row.clone();
+        let mut acc = vec![0.0; indep_vars.len()];
+        for (brow, pc, combo) in &basis {
+            let f = r[*pc];
+            if f != 0.0 {
+                for (x, y) in r.iter_mut().zip(brow) {
+                    *x -= f * y;
+                }
+                for (x, y) in acc.iter_mut().zip(combo) {
+                    *x += f * y;
+                }
+            }
+        }
+        let (pc, pv) =
+            r.iter().enumerate().fold(
+                (0, 0.0f64),
+                |b, (j, &x)| if x.abs() > b.1.abs() { (j, x) } else { b },
+            );
+        if pv.abs() <= 1e-9 * scale {
+            deps.push((i, acc));
+        } else {
+            let k = indep_vars.len();
+            indep[i] = Some(k);
+            indep_vars.push(i);
+            let mut combo: Vec<f64> = acc.iter().map(|x| -x / pv).collect();
+            combo.push(1.0 / pv);
+            for (_, _, c) in basis.iter_mut() {
+                c.push(0.0);
+            }
+            for x in r.iter_mut() {
+                *x /= pv;
+            }
+            basis.push((r, pc, combo));
+        }
+    }
+    let m0 = indep_vars.len();
+    let mut lrows: Vec<Vec<(usize, f64)>> = (0..nvars)
+        .map(|i| indep[i].map(|k| vec![(k, 1.0)]).unwrap_or_default())
+        .collect();
+    for (i, acc) in deps {
+        lrows[i] = acc
+            .iter()
+            .enumerate()
+            .filter(|(_, x)| x.abs() > 1e-12)
+            .map(|(k, &x)| (k, x * conc[indep_vars[k]] / conc[i]))
+            .collect();
+    }
+    Link {
+        indep,
+        m0,
+        rows: lrows,
+    }
+}
+
+/// Solves A x = b for dense row-major A (n × n) by LU with partial pivoting; None when singular.
+fn solve(mut a: Vec<f64>, n: usize, mut b: Vec<f64>) -> Option<Vec<f64>> {
+    let scale = a.iter().fold(0.0f64, |m, x| m.max(x.abs()));
+    if !scale.is_finite() || scale == 0.0 {
+        return None;
+    }
+    for k in 0..n {
+        let (mut p, mut pv) = (k, a[k * n + k].abs());
+        for i in k + 1..n {
+            let v = a[i * n + k].abs();
+            if v > pv {
+                p = i;
+                pv = v;
+            }
+        }
+        if pv <= scale * 1e-15 {
+            return None;
+        }
+        if p != k {
+            for j in 0..n {
+                a.swap(k * n + j, p * n + j);
+            }
+            b.swap(k, p);
+        }
+        let d = a[k * n + k];
+        for i in k + 1..n {
+            let f = a[i * n + k] / d;
+            if f != 0.0 {
+                for j in k + 1..n {
+                    a[i * n + j] -= f * a[k * n + j];
+                }
+                b[i] -= f * b[k];
+            }
+        }
+    }
+    for k in (0..n).rev() {
+        let mut s = b[k];
+        for j in k + 1..n {
+            s -= a[k * n + j] * b[j];
+        }
+        b[k] = s / a[k * n + k];
+    }
+    b.iter().all(|x| x.is_finite()).then_some(b)
+}
+
+/// The flux control estimate of one analysis.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Estimate {
+    /// Per route step, its scaled flux control coefficient over the route's flux at mass action; None when there is no estimate.
+    pub coefficients: Option<Vec<f64>>,
+    /// Per route step, the 5–95 % range over sampled saturation; None until computed or when none can be given.
+    pub ranges: Option<Vec<(f64, f64)>>,
+    /// Saturation draws behind `ranges` (0 while not computed).
+    pub draws: usize,
+    /// Why there is no estimate or no range, and where the estimate and the verdicts disagree.
+    pub notes: Vec<String>,
+    /// The model, kept for the range and the elasticities.
+    pub model: Option<Model>,
+}
+
+impl Estimate {
+    /// The coefficient of the route step at `position`.
+    pub fn coefficient(&self, position: usize) -> Option<f64> {
+        self.coefficients
+            .as_ref()
+            .and_then(|c| c.get(position).copied())
+    }
+    /// The 5–95 % range of the route step at `position`.
+    pub fn range(&self, position: usize) -> Option<(f64, f64)> {
+        self.ranges.as_ref().and_then(|c| c.get(position).copied())
+    }
+    /// True when an estimate exists and its range has not been computed yet.
+    pub fn range_pending(&self) -> bool {
+        self.coefficients.is_some() && self.draws == 0
+    }
+    /// Mass-action elasticities of the route step at `position` to its intermediates (compound, value).
+    pub fn elasticities(&self, position: usize) -> Vec<(usize, f64)> {
+        match (&self.model, &self.coefficients) {
+            (Some(m), Some(_)) if position < m.len() => m.elasticities(position, (0.0, 0.0)),
+            _ => Vec::new(),
+        }
+    }
+    /// Position of the route step with the largest coefficient.
+    pub fn top(&self) -> Option<usize> {
+        let c = self.coefficients.as_ref()?;
+        (0..c.len()).max_by(|&i, &j| c[i].total_cmp(&c[j]))
+    }
+}
+
+/// The estimate for an analysed route at these concentrations (mol/L,
+/// indexed like the compounds): coefficients and notes; the range is added
+/// by `add_ranges`.
+pub fn estimate(p: &Pathway, a: &Analysis, conc: &[f64]) -> Estimate {
+    let mut est = Estimate::default();
+    let up: Vec<&str> = a
+        .steps
+        .iter()
+        .filter(|s| s.dg.is_nan() || s.dg >= 0.0)
+        .map(|s| p.steps[s.step].id.as_str())
+        .collect();
+    if !up.is_empty() {
+        let has = if up.len() == 1 { "has" } else { "have" };
+        est.notes.push(format!(
+            "no flux control estimate: {} {has} dG' ≥ 0 as run, so the route has no forward steady state at these concentrations to estimate control in.",
+            super::list(&up)
+        ));
+        return est;
+    }
+    let mut var_of: Vec<Option<usize>> = vec![None; p.compounds.len()];
+    let mut vars: Vec<usize> = Vec::new();
+    let mut terms: Vec<Terms> = Vec::with_capacity(a.steps.len());
+    for s in &a.steps {
+        let mut t: Terms = Vec::new();
+        for &(c, nu) in &p.steps[s.step].stoich {
+            if a.roles[c] != Role::Intermediate || nu == 0.0 {
+                continue;
+            }
+            let v = *var_of[c].get_or_insert_with(|| {
+                vars.push(c);
+                vars.len() - 1
+            });
+            match t.iter_mut().find(|x| x.0 == v) {
+                Some(x) => x.1 += nu * s.sign,
+                None => t.push((v, nu * s.sign)),
+            }
+        }
+        t.retain(|x| x.1 != 0.0);
+        terms.push(t);
+    }
+    let var_conc: Vec<f64> = vars.iter().map(|&c| conc[c]).collect();
+    let times: Vec<f64> = a.steps.iter().map(|s| s.times).collect();
+    let g: Vec<f64> = a.steps.iter().map(|s| s.dg / a.rt).collect();
+    if !is_chain(&terms, vars.len()) && vars.len() > DENSE_MAX {
+        est.notes.push(format!(
+            "no flux control estimate: the route is not a simple chain and has {} intermediates; the estimate is computed for chains of any length and for other routes up to {DENSE_MAX} intermediates.",
+            vars.len()
+        ));
+        return est;
+    }
+    let Some(model) = Model::from_parts(vars, &var_conc, terms, times, &g) else {
+        return est;
+    };
+    match model.coefficients(None) {
+        Ok(c) => est.coefficients = Some(c),
+        Err(Failure::Singular) => {
+            est.notes.push("no flux control estimate: the balance of the intermediates has no unique steady state with these elasticities (a conserved total the route cannot change, or a part of the route cut off from the rest).".into());
+            return est;
+        }
+    }
+    est.model = Some(model);
+    if let Some(s) = disagreement(p, a, &est) {
+        est.notes.push(s);
+    }
+    est
+}
+
+/// One sentence when the verdicts and the estimate disagree: the control
+/// point carries less than half of the largest coefficient, or a step with
+/// no verdict carries the most.
+fn disagreement(p: &Pathway, a: &Analysis, est: &Estimate) -> Option<String> {
+    let top = est.top()?;
+    let ct = est.coefficient(top)?;
+    let id = |k: usize| p.steps[a.steps[k].step].id.as_str();
+    let point = a
+        .control
+        .iter()
+        .find(|v| v.kind == VerdictKind::Prime)
+        .map(|v| v.position);
+    let top_has_verdict = a.control.iter().any(|v| v.position == top);
+    match point {
+        Some(pp) if pp == top => None,
+        Some(pp) => {
+            let cp = est.coefficient(pp)?;
+            if cp < ct / 2.0 {
+                Some(format!(
+                    "The verdict and the estimate disagree: the control point {} carries {:.2} of the flux control by the thermodynamic estimate, while {}{} carries the most ({:.2}).",
+                    id(pp),
+                    cp,
+                    id(top),
+                    if top_has_verdict {
+                        ""
+                    } else {
+                        ", a step without a verdict,"
+                    },
+                    ct
+                ))
+            } else if !top_has_verdict {
+                Some(format!(
+                    "The verdict and the estimate differ: {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.2}; the control point {} carries {:.2}).",
+                    id(top),
+                    ct,
+                    id(pp),
+                    cp
+                ))
+            } else {
+                None
+            }
+        }
+        None if !top_has_verdict => Some(format!(
+            "No step is the control point, and {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.2}).",
+            id(top),
+            ct
+        )),
+        None => None,
+    }
+}
+
+/// Computes the 5–95 % range of each coefficient over `draws` saturation
+/// draws (fixed seed) into the analysis' estimate; a note says when the
+/// route is too large for it.
+pub fn add_ranges(a: &mut Analysis, draws: usize) {
+    let est = &mut a.control_estimate;
+    if est.coefficients.is_none() || est.draws == draws.max(1) {
+        return;
+    }
+    let Some(model) = &est.model else { return };
+    let draws = draws.max(1);
+    est.draws = draws;
+    let values = model.len().saturating_mul(draws);
+    let note = if !model.is_chain() && model.independent() > RANGE_DENSE_MAX {
+        Some(format!(
+            "no range for the flux control estimate: the route is not a simple chain and has {} independent intermediates; the range is computed for chains and for other routes up to {RANGE_DENSE_MAX}.",
+            model.independent()
+        ))
+    } else if values > RANGE_MAX_VALUES {
+        Some(format!(
+            "no range for the flux control estimate: {} route steps × {draws} draws is more than {RANGE_MAX_VALUES} values; ask for fewer draws.",
+            model.len()
+        ))
+    } else {
+        None
+    };
+    match note {
+        Some(n) => {
+            est.ranges = None;
+            a.notes.push(n);
+        }
+        None => est.ranges = model.ranges(draws, SEED),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The worked case of science.md §7 [C]: X0 -> S1 -> S2 -> X3 with
+    /// Γ/K' = 13/28, 11/26, 7/22 gives C^J = (4/7, 2/7, 1/7).
+    fn worked() -> Model {
+        let g = [
+            (13.0f64 / 28.0).ln(),
+            (11.0f64 / 26.0).ln(),
+            (7.0f64 / 22.0).ln(),
+        ];
+        let terms = vec![vec![(0, 1.0)], vec![(0, -1.0), (1, 1.0)], vec![(1, -1.0)]];
+        Model::from_parts(
+            vec![10, 11],
+            &[13.0 / 14.0, 11.0 / 14.0],
+            terms,
+            vec![1.0; 3],
+            &g,
+        )
+        .unwrap()
+    }
+
+    #[test]
+    fn worked_case_by_both_methods() {
+        let m = worked();
+        assert!(m.is_chain());
+        for c in [
+            m.coefficients(None).unwrap(),
+            m.matrix_method(None).unwrap(),
+        ] {
+            for (x, want) in c.iter().zip([4.0 / 7.0, 2.0 / 7.0, 1.0 / 7.0]) {
+                assert!((x - want).abs() < 1e-12, "{c:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn a_conserved_pair_uses_the_link_matrix() {
+        // s1: X + c -> A + d, s2: A + d -> Y + c, with c and d on the route
+        // only: A + c and c + d are conserved, one independent variable.
+        let terms = vec![
+            vec![(0, 1.0), (1, -1.0), (2, 1.0)],
+            vec![(0, -1.0), (1, 1.0), (2, -1.0)],
+        ];
+        let m = Model::from_parts(
+            vec![0, 1, 2],
+            &[1e-3, 2e-3, 5e-4],
+            terms,
+            vec![1.0, 1.0],
+            &[-1.0, -2.0],
+        )
+        .unwrap();
+        assert!(!m.is_chain());
+        assert_eq!(m.independent(), 1);
+        let c = m.coefficients(None).unwrap();
+        assert!((c[0] + c[1] - 1.0).abs() < 1e-12);
+        assert!(c.iter().all(|x| (0.0..=1.0).contains(x)), "{c:?}");
+    }
+
+    #[test]
+    fn quantile_interpolates_between_order_statistics() {
+        let v: Vec<f64> = (0..=100).map(f64::from).collect();
+        assert_eq!(quantile(&v, 0.05), 5.0);
+        assert_eq!(quantile(&v, 0.95), 95.0);
+        assert_eq!(quantile(&[1.0, 2.0], 0.5), 1.5);
+        assert_eq!(quantile(&[3.0], 0.95), 3.0);
+    }
+
+    #[test]
+    fn ranges_are_reproducible_and_hold_the_coefficients_between_zero_and_one() {
+        let m = worked();
+        let r1 = m.ranges(500, SEED).unwrap();
+        let r2 = m.ranges(500, SEED).unwrap();
+        assert_eq!(r1, r2);
+        for &(lo, hi) in &r1 {
+            assert!(0.0 <= lo && lo <= hi && hi <= 1.0, "{r1:?}");
+        }
+        // Another seed gives other numbers (the seed is used).
+        assert_ne!(m.ranges(500, SEED + 1).unwrap(), r1);
+    }
+
+    #[test]
+    fn a_step_at_or_above_equilibrium_has_no_model() {
+        let terms = vec![vec![(0, 1.0)], vec![(0, -1.0)]];
+        assert!(
+            Model::from_parts(vec![0], &[1e-3], terms.clone(), vec![1.0; 2], &[-1.0, 0.0])
+                .is_none()
+        );
+        assert!(Model::from_parts(vec![0], &[1e-3], terms, vec![1.0; 2], &[-1.0, 0.5]).is_none());
+    }
+}
