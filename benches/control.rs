@@ -22,7 +22,8 @@ fn cases() -> Vec<(String, mca::Model)> {
         a.control_estimate.model.expect("an estimate"),
     ));
     let text = std::fs::read_to_string("pathways/succinate.toml").expect("succinate");
-    let p = analysis::prepare(model::load_str(&text, "succinate.toml").expect("loads")).expect("prepares");
+    let p = analysis::prepare(model::load_str(&text, "succinate.toml").expect("loads"))
+        .expect("prepares");
     let a = analysis::analyze(&p, &State::from_pathway(&p.pathway)).expect("analyses");
     out.push((
         "succinate".to_string(),
@@ -59,7 +60,7 @@ fn chain(n: usize) -> mca::Model {
 fn main() {
     for (name, m) in cases() {
         println!("{name}: {} steps, chain: {}", m.len(), m.is_chain());
-        for draws in [250, 500, 1000, 2000, 4000] {
+        for draws in [1000, 4000, 16000, 24000, 32000] {
             let seeds = 20u64;
             let runs: Vec<Vec<(f64, f64)>> = (0..seeds)
                 .map(|s| m.ranges(draws, 1000 + s).expect("range"))
@@ -105,7 +106,9 @@ fn main() {
             t0.elapsed().as_secs_f64() * 1e2
         );
         let t0 = Instant::now();
-        std::hint::black_box(m.ranges(mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n), mca::SEED));
+        std::hint::black_box(
+            m.ranges(mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n), mca::SEED),
+        );
         println!(
             "  range with {} draws: {:.1} ms",
             mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n),

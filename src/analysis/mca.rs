@@ -17,7 +17,7 @@ use rand_chacha::ChaCha8Rng;
 use rand_chacha::rand_core::{RngCore, SeedableRng};
 
 /// Saturation draws behind `control_coefficient_range` unless asked otherwise.
-pub const DEFAULT_DRAWS: usize = 2000;
+pub const DEFAULT_DRAWS: usize = 24_000;
 /// Seed of the saturation draws (ChaCha8, `seed_from_u64`), fixed so the same file gives the same range.
 pub const SEED: u64 = 0x6467_7061_7468_4d43;
 /// Most intermediates of a route that is not a simple chain for which the estimate is computed.
@@ -275,31 +275,70 @@ impl Model {
     /// seeded with `seed`). Draws whose system is singular are left out; None
     /// when none is left.
     pub fn ranges(&self, draws: usize, seed: u64) -> Option<Vec<(f64, f64)>> {
-        let n = self.terms.len();
-        let mut rng = ChaCha8Rng::seed_from_u64(seed);
-        let mut sat = vec![(0.0, 0.0); n];
-        let mut per_step: Vec<Vec<f64>> = (0..n).map(|_| Vec::with_capacity(draws)).collect();
-        for _ in 0..draws {
-            for s in sat.iter_mut() {
-                let (x, y) = (unit(&mut rng), unit(&mut rng));
+        let mut job = RangeJob::new(self.len(), draws, seed);
+        job.run(self, draws);
+        job.result()
+    }
+}
+
+/// A range computation that can run in parts (the explorer runs it between
+/// keys); the result is the same however it is split.
+#[derive(Debug, Clone)]
+pub struct RangeJob {
+    rng: ChaCha8Rng,
+    sat: Vec<(f64, f64)>,
+    values: Vec<Vec<f64>>,
+    done: usize,
+    total: usize,
+}
+
+impl RangeJob {
+    /// A job of `draws` draws for a route of `steps` steps.
+    pub fn new(steps: usize, draws: usize, seed: u64) -> Self {
+        RangeJob {
+            rng: ChaCha8Rng::seed_from_u64(seed),
+            sat: vec![(0.0, 0.0); steps],
+            values: (0..steps).map(|_| Vec::with_capacity(draws)).collect(),
+            done: 0,
+            total: draws,
+        }
+    }
+
+    /// Runs up to `budget` more draws; true when all are done.
+    pub fn run(&mut self, model: &Model, budget: usize) -> bool {
+        let end = self.total.min(self.done.saturating_add(budget));
+        while self.done < end {
+            for s in self.sat.iter_mut() {
+                let (x, y) = (unit(&mut self.rng), unit(&mut self.rng));
                 *s = if x + y < 1.0 {
                     (x, y)
                 } else {
                     (1.0 - x, 1.0 - y)
                 };
             }
-            if let Ok(c) = self.coefficients(Some(&sat)) {
-                for (v, x) in per_step.iter_mut().zip(c) {
+            if let Ok(c) = model.coefficients(Some(&self.sat)) {
+                for (v, x) in self.values.iter_mut().zip(c) {
                     v.push(x);
                 }
             }
+            self.done += 1;
         }
-        if per_step.first().is_none_or(|v| v.is_empty()) {
+        self.finished()
+    }
+
+    /// True when every draw is done.
+    pub fn finished(&self) -> bool {
+        self.done >= self.total
+    }
+
+    /// The percentiles, once finished; None before, or when every draw was singular.
+    pub fn result(&mut self) -> Option<Vec<(f64, f64)>> {
+        if !self.finished() || self.values.first().is_none_or(|v| v.is_empty()) {
             return None;
         }
         let (lo, hi) = RANGE_PERCENTILES;
         Some(
-            per_step
+            self.values
                 .iter_mut()
                 .map(|v| {
                     v.sort_by(f64::total_cmp);
@@ -639,34 +678,53 @@ fn disagreement(p: &Pathway, a: &Analysis, est: &Estimate) -> Option<String> {
 /// draws (fixed seed) into the analysis' estimate; a note says when the
 /// route is too large for it.
 pub fn add_ranges(a: &mut Analysis, draws: usize) {
-    let est = &mut a.control_estimate;
-    if est.coefficients.is_none() || est.draws == draws.max(1) {
-        return;
+    if let Some(mut job) = start_ranges(a, draws) {
+        let total = job.total;
+        if let Some(m) = &a.control_estimate.model {
+            job.run(m, total);
+        }
+        finish_ranges(a, job);
     }
-    let Some(model) = &est.model else { return };
+}
+
+/// Starts the range of the analysis' estimate as a job that can run in
+/// parts; None when there is nothing to compute (no estimate, the range is
+/// already there, or the route is too large for it: then a note says so).
+pub fn start_ranges(a: &mut Analysis, draws: usize) -> Option<RangeJob> {
     let draws = draws.max(1);
+    let est = &mut a.control_estimate;
+    if est.coefficients.is_none() || est.draws == draws {
+        return None;
+    }
+    let model = est.model.as_ref()?;
     est.draws = draws;
-    let values = model.len().saturating_mul(draws);
+    est.ranges = None;
     let note = if !model.is_chain() && model.independent() > RANGE_DENSE_MAX {
         Some(format!(
             "no range for the flux control estimate: the route is not a simple chain and has {} independent intermediates; the range is computed for chains and for other routes up to {RANGE_DENSE_MAX}.",
             model.independent()
         ))
-    } else if values > RANGE_MAX_VALUES {
+    } else if model.len().saturating_mul(draws) > RANGE_MAX_VALUES {
         Some(format!(
-            "no range for the flux control estimate: {} route steps × {draws} draws is more than {RANGE_MAX_VALUES} values; ask for fewer draws.",
-            model.len()
+            "no range for the flux control estimate: {} route steps × {draws} draws is more than {RANGE_MAX_VALUES} values; ask for fewer draws (at most {}).",
+            model.len(),
+            RANGE_MAX_VALUES / model.len().max(1)
         ))
     } else {
         None
     };
     match note {
         Some(n) => {
-            est.ranges = None;
             a.notes.push(n);
+            None
         }
-        None => est.ranges = model.ranges(draws, SEED),
+        None => Some(RangeJob::new(model.len(), draws, SEED)),
     }
+}
+
+/// Stores a finished job's range in the analysis' estimate.
+pub fn finish_ranges(a: &mut Analysis, mut job: RangeJob) {
+    a.control_estimate.ranges = job.result();
 }
 
 #[cfg(test)]
