@@ -727,6 +727,54 @@ pub fn finish_ranges(a: &mut Analysis, mut job: RangeJob) {
     a.control_estimate.ranges = job.result();
 }
 
+/// Lines for a step's detail: the estimate and its range, the step's
+/// mass-action elasticities, and (on a chain) how its share compares with
+/// the next step's, which is what the elasticities decide.
+pub fn explain(p: &Pathway, a: &Analysis, position: usize) -> Vec<String> {
+    let est = &a.control_estimate;
+    let Some(c) = est.coefficient(position) else {
+        return vec!["flux control (estimate): none, the route has no forward steady state here (a step at dG' ≥ 0)".into()];
+    };
+    let range = match est.range(position) {
+        Some((lo, hi)) => format!(
+            ", {lo:.3}–{hi:.3} over saturation (5–95 %, {} draws)",
+            est.draws
+        ),
+        None if est.range_pending() => ", range: computing…".into(),
+        None => String::new(),
+    };
+    let mut out = vec![format!("flux control (estimate): {c:.3}{range}")];
+    let id = |c: usize| p.compounds[c].id.as_str();
+    let el = est.elasticities(position);
+    if !el.is_empty() {
+        let parts: Vec<String> = el
+            .iter()
+            .map(|&(c, e)| format!("{} {e:+.3}", id(c)))
+            .collect();
+        out.push(format!("elasticities (mass action): {}", parts.join(", ")));
+    }
+    if let Some(m) = &est.model
+        && m.is_chain()
+        && position + 1 < a.steps.len()
+        && let (Some(&(prod, ep)), Some(&(_, es))) = (
+            el.iter().find(|x| x.1 < 0.0 || x.1 == 0.0),
+            est.elasticities(position + 1).iter().find(|x| x.1 > 0.0),
+        )
+        && let Some(next) = est.coefficient(position + 1)
+    {
+        let nid = &p.steps[a.steps[position + 1].step].id;
+        let ratio = if next > 0.0 { c / next } else { f64::INFINITY };
+        out.push(format!(
+            "against {nid} after it: {:.3} / {:.3} = {} times its share ({nid}'s elasticity to {} over this step's, negated); a step that hardly feels its product keeps control from the steps after it",
+            es,
+            -ep,
+            if ratio.is_finite() { format!("{ratio:.3}") } else { "infinitely many".into() },
+            id(prod)
+        ));
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
