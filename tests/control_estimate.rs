@@ -450,3 +450,47 @@ proptest! {
         }
     }
 }
+
+/// A chain whose first step is moderately displaced (−8 kJ/mol, no
+/// verdict) and hardly feels its product, before the control point (−20):
+/// the estimate puts nearly all control on the first step [C, closed form:
+/// C1/C2 = ε2,S/(−ε1,P) ≈ 1.0/0.041], and a note says the two disagree.
+#[test]
+fn a_sentence_says_when_the_verdict_and_the_estimate_disagree() {
+    let one = |id: &str| (id.to_string(), 1e-3, None);
+    let text = file(
+        &[one("x0"), one("a"), one("b"), one("c"), one("x4")],
+        &[
+            ("s1".into(), "x0 -> a".into(), -8e3),
+            ("s2".into(), "a -> b".into(), -20e3),
+            ("s3".into(), "b -> c".into(), -5e3),
+            ("s4".into(), "c -> x4".into(), -3e3),
+        ],
+    );
+    let prep = prepare_str(&text, "disagree.toml");
+    let a = analyze(&prep);
+    assert_eq!(a.control[0].position, 1, "s2 is the control point");
+    let c = coefficients(&a);
+    let rho = |g: f64| (g / rt25()).exp();
+    let ratio = (1.0 / (1.0 - rho(-20e3))) / (rho(-8e3) / (1.0 - rho(-8e3)));
+    close(c[0] / c[1], ratio, 1e-9 * ratio);
+    assert!(c[0] > 0.9 && c[1] < 0.05, "{c:?}");
+    let said: Vec<&String> = a.notes.iter().filter(|n| n.contains("disagree")).collect();
+    assert_eq!(said.len(), 1, "{:?}", a.notes);
+    assert!(
+        said[0].contains("control point s2") && said[0].contains("s1, a step without a verdict"),
+        "{}",
+        said[0]
+    );
+    // The detail explains s1's share against s2 by their elasticities.
+    let lines = mca::explain(&prep.pathway, &a, 0);
+    assert!(
+        lines[0].starts_with(&format!("flux control (estimate): {:.3}", c[0])),
+        "{lines:?}"
+    );
+    assert!(
+        lines[1].contains("a -0.041") || lines[1].contains("a −0.041"),
+        "{lines:?}"
+    );
+    assert!(lines[2].contains(&format!("{ratio:.3} times")), "{lines:?}");
+}

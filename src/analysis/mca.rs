@@ -519,8 +519,10 @@ pub struct Estimate {
     pub coefficients: Option<Vec<f64>>,
     /// Per route step, the 5–95 % range over sampled saturation; None until computed or when none can be given.
     pub ranges: Option<Vec<(f64, f64)>>,
-    /// Saturation draws behind `ranges` (0 while not computed).
+    /// Saturation draws asked for `ranges` (0 while not asked).
     pub draws: usize,
+    /// Why no range is given although it was asked for.
+    pub range_note: Option<String>,
     /// Why there is no estimate or no range, and where the estimate and the verdicts disagree.
     pub notes: Vec<String>,
     /// The model, kept for the range and the elasticities.
@@ -538,9 +540,16 @@ impl Estimate {
     pub fn range(&self, position: usize) -> Option<(f64, f64)> {
         self.ranges.as_ref().and_then(|c| c.get(position).copied())
     }
-    /// True when an estimate exists and its range has not been computed yet.
+    /// True when an estimate exists and its range has not been asked for yet.
     pub fn range_pending(&self) -> bool {
         self.coefficients.is_some() && self.draws == 0
+    }
+    /// True when the range has been asked for and is not there yet.
+    pub fn range_computing(&self) -> bool {
+        self.coefficients.is_some()
+            && self.draws > 0
+            && self.ranges.is_none()
+            && self.range_note.is_none()
     }
     /// Mass-action elasticities of the route step at `position` to its intermediates (compound, value).
     pub fn elasticities(&self, position: usize) -> Vec<(usize, f64)> {
@@ -715,6 +724,7 @@ pub fn start_ranges(a: &mut Analysis, draws: usize) -> Option<RangeJob> {
     };
     match note {
         Some(n) => {
+            est.range_note = Some(n.clone());
             a.notes.push(n);
             None
         }
@@ -724,7 +734,13 @@ pub fn start_ranges(a: &mut Analysis, draws: usize) -> Option<RangeJob> {
 
 /// Stores a finished job's range in the analysis' estimate.
 pub fn finish_ranges(a: &mut Analysis, mut job: RangeJob) {
-    a.control_estimate.ranges = job.result();
+    let est = &mut a.control_estimate;
+    est.ranges = job.result();
+    if est.ranges.is_none() {
+        let n = "no range for the flux control estimate: every saturation draw left the intermediates without a unique steady state.".to_string();
+        est.range_note = Some(n.clone());
+        a.notes.push(n);
+    }
 }
 
 /// Lines for a step's detail: the estimate and its range, the step's
@@ -740,7 +756,7 @@ pub fn explain(p: &Pathway, a: &Analysis, position: usize) -> Vec<String> {
             ", {lo:.3}–{hi:.3} over saturation (5–95 %, {} draws)",
             est.draws
         ),
-        None if est.range_pending() => ", range: computing…".into(),
+        None if est.range_pending() || est.range_computing() => ", range: computing…".into(),
         None => String::new(),
     };
     let mut out = vec![format!("flux control (estimate): {c:.3}{range}")];
