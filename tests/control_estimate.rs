@@ -125,10 +125,11 @@ fn newton(x0: &[f64], f: &dyn Fn(&[f64]) -> Vec<f64>) -> Vec<f64> {
                 .unwrap();
             jac.swap(k, p);
             b.swap(k, p);
+            let pivot_row = jac[k].clone();
             for i in k + 1..n {
-                let m = jac[i][k] / jac[k][k];
-                for j in k..n {
-                    jac[i][j] -= m * jac[k][j];
+                let m = jac[i][k] / pivot_row[k];
+                for (x, y) in jac[i][k..].iter_mut().zip(&pivot_row[k..]) {
+                    *x -= m * y;
                 }
                 b[i] -= m * b[k];
             }

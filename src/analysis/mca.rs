@@ -163,8 +163,8 @@ impl Model {
         // ln(−ε of step j to its product) for j < n−1; ln(ε of step j to its substrate) for j ≥ 1.
         let mut log_n = vec![0.0; n];
         let mut acc = 0.0;
-        for k in 0..n {
-            log_n[k] = acc;
+        for (k, slot) in log_n.iter_mut().enumerate() {
+            *slot = acc;
             if k + 1 < n {
                 let nu = self.terms[k]
                     .iter()
@@ -773,7 +773,7 @@ pub fn explain(p: &Pathway, a: &Analysis, position: usize) -> Vec<String> {
         && m.is_chain()
         && position + 1 < a.steps.len()
         && let (Some(&(prod, ep)), Some(&(_, es))) = (
-            el.iter().find(|x| x.1 < 0.0 || x.1 == 0.0),
+            el.iter().find(|x| x.1 <= 0.0),
             est.elasticities(position + 1).iter().find(|x| x.1 > 0.0),
         )
         && let Some(next) = est.coefficient(position + 1)
