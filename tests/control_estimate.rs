@@ -495,3 +495,205 @@ fn a_sentence_says_when_the_verdict_and_the_estimate_disagree() {
     );
     assert!(lines[2].contains(&format!("{ratio:.3} times")), "{lines:?}");
 }
+
+/// The binary on tests/data/chain.toml (worked in tests/cli.rs: dG' = −10.708010
+/// and −3.708010 kJ/mol at 25 °C): two steps, C1 = ε2,S / (ε2,S − ε1,P)
+/// [C, closed form of science.md §7].
+#[test]
+fn report_formats_carry_the_estimate_and_its_range() {
+    let c = crate::support::path("data/chain.toml");
+    let c = c.to_str().unwrap();
+    let out = crate::support::run(&["report", c, "--format", "json"]);
+    let (so, err) = crate::support::texts(&out);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    let again = crate::support::run(&["report", c, "--format", "json"]);
+    assert_eq!(
+        so,
+        String::from_utf8_lossy(&again.stdout),
+        "two runs, same JSON"
+    );
+    let d: serde_json::Value = serde_json::from_str(&so).unwrap();
+    let rho = |g: f64| (g * 1e3 / rt25()).exp();
+    let (r1, r2) = (rho(-10.708010), rho(-3.708010));
+    let c1 = (1.0 / (1.0 - r2)) / (1.0 / (1.0 - r2) + r1 / (1.0 - r1));
+    let steps = d["steps"].as_array().unwrap();
+    close(steps[0]["control_coefficient"].as_f64().unwrap(), c1, 1e-6);
+    close(
+        steps[1]["control_coefficient"].as_f64().unwrap(),
+        1.0 - c1,
+        1e-6,
+    );
+    for s in steps {
+        let r = s["control_coefficient_range"].as_array().unwrap();
+        let (lo, hi) = (r[0].as_f64().unwrap(), r[1].as_f64().unwrap());
+        assert!(0.0 <= lo && lo <= hi && hi <= 1.0, "{r:?}");
+    }
+    // Fewer draws: another (still well-formed) range; the estimate itself is the same.
+    let few = crate::support::run(&["report", c, "--format", "json", "--draws", "50"]);
+    let f: serde_json::Value = serde_json::from_slice(&few.stdout).unwrap();
+    assert_eq!(
+        f["steps"][0]["control_coefficient"],
+        d["steps"][0]["control_coefficient"]
+    );
+    assert_ne!(
+        f["steps"][0]["control_coefficient_range"],
+        d["steps"][0]["control_coefficient_range"]
+    );
+    let bad = crate::support::run(&["report", c, "--draws", "0"]);
+    assert_eq!(bad.status.code(), Some(2), "--draws 0 is a usage error");
+    // Table, Markdown and CSV show it too.
+    let (t, _) = crate::support::texts(&crate::support::run(&["report", c]));
+    assert!(
+        t.contains("control") && t.contains(&format!("{c1:.3}")),
+        "{t}"
+    );
+    assert!(t.contains(&format!("flux control estimate {c1:.3}")), "{t}");
+    let (m, _) = crate::support::texts(&crate::support::run(&["report", c, "--format", "md"]));
+    assert!(
+        m.contains("| control | 5–95 % |") && m.contains(&format!("{c1:.3}")),
+        "{m}"
+    );
+    let (v, _) = crate::support::texts(&crate::support::run(&["report", c, "--format", "csv"]));
+    let mut rd = csv::Reader::from_reader(v.as_bytes());
+    let head = rd.headers().unwrap().clone();
+    let col = head
+        .iter()
+        .position(|h| h == "control_coefficient")
+        .unwrap();
+    let row = rd.records().next().unwrap().unwrap();
+    close(row[col].parse::<f64>().unwrap(), c1, 1e-6);
+    // A backward step (c raised 1000-fold: s2 at +13.4 kJ/mol): null and a note.
+    let up = crate::support::run(&["report", c, "--format", "json", "--set", "c=10mM"]);
+    let u: serde_json::Value = serde_json::from_slice(&up.stdout).unwrap();
+    for s in u["steps"].as_array().unwrap() {
+        assert!(s["control_coefficient"].is_null() && s["control_coefficient_range"].is_null());
+    }
+    assert!(
+        u["notes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|n| n.as_str().unwrap().contains("no flux control estimate: s2")),
+        "{}",
+        u["notes"]
+    );
+}
+
+/// The samples summary carries the median estimate per step; a sample with
+/// a backward step has none and is counted out.
+#[test]
+fn samples_summary_has_the_median_estimate() {
+    let dir = tempfile::tempdir().unwrap();
+    let table = dir.path().join("s.csv");
+    // b as in the file, ten times lower, and c so high that s2 runs backward.
+    std::fs::write(
+        &table,
+        "sample,b [mM],c [mM]\nt1,0.1,0.01\nt2,0.01,0.001\nt3,0.1,10\n",
+    )
+    .unwrap();
+    let c = crate::support::path("data/chain.toml");
+    let out = crate::support::run(&[
+        "report",
+        c.to_str().unwrap(),
+        "--samples",
+        table.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    let (so, err) = crate::support::texts(&out);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    let d: serde_json::Value = serde_json::from_str(&so).unwrap();
+    let s1 = &d["summary"]["steps"][0];
+    assert_eq!(s1["control_samples"], 2);
+    // Median of two values is their mean; t1 is the file's state (worked in
+    // tests/cli.rs), t2 has b and c ten times lower: s1 −10.708 − 5.708, s2 −3.708.
+    let rho = |g: f64| (g * 1e3 / rt25()).exp();
+    let c1 = |g1: f64, g2: f64| {
+        let (r1, r2) = (rho(g1), rho(g2));
+        (1.0 / (1.0 - r2)) / (1.0 / (1.0 - r2) + r1 / (1.0 - r1))
+    };
+    let want = 0.5 * (c1(-10.708010, -3.708010) + c1(-16.416020, -3.708010));
+    close(
+        s1["control_coefficient_median"].as_f64().unwrap(),
+        want,
+        1e-6,
+    );
+    let t = crate::support::run(&[
+        "report",
+        c.to_str().unwrap(),
+        "--samples",
+        table.to_str().unwrap(),
+    ]);
+    let (t, _) = crate::support::texts(&t);
+    assert!(
+        t.contains("median control") && t.contains(&format!("{want:.3} (2)")),
+        "{t}"
+    );
+}
+
+/// The explorer computes the range between keys, in parts, and gets the
+/// same numbers as the report; an edit starts it again; the step list shows
+/// a bar and the detail the estimate with its range.
+#[test]
+fn the_explorer_shows_the_estimate_and_fills_in_the_range_between_keys() {
+    use dgpath::tui::app::{App, IDLE_DRAWS, Options, Source};
+    use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("pathways/succinate.toml");
+    let text = std::fs::read_to_string(&path).unwrap();
+    let prep = prepare_str(&text, "succinate.toml");
+    let state = dgpath::scenario::State::from_pathway(&prep.pathway);
+    let src = Source {
+        path: None,
+        name: "succinate.toml".into(),
+        text: text.clone(),
+    };
+    let opts = Options {
+        ascii: false,
+        color: false,
+        unit: dgpath::present::EnergyUnit::KJ,
+    };
+    let draws = 3 * IDLE_DRAWS + 7;
+    let mut app = App::new(prep.clone(), state, src, opts)
+        .unwrap()
+        .with_draws(draws);
+    assert!(app.busy() && app.analysis.control_estimate.coefficients.is_some());
+    // A tall screen, so the detail shows everything below the verdict.
+    let screen =
+        |app: &App| dgpath::tui::export::to_text(&dgpath::tui::export::render_buffer(app, 120, 70));
+    let first = screen(&app);
+    let c0 = app.analysis.control_estimate.coefficient(0).unwrap();
+    assert!(first.contains(&format!("◆ prime  ctrl {c0:.3}")), "{first}");
+    assert!(
+        screen(&app).contains("range: computing"),
+        "{}",
+        screen(&app)
+    );
+    let mut calls = 0;
+    while app.busy() {
+        app.idle_work();
+        calls += 1;
+        assert!(calls < 100);
+    }
+    assert_eq!(calls, 4, "three full parts and a short one");
+    let mut fresh = analyze(&prep);
+    mca::add_ranges(&mut fresh, draws);
+    assert_eq!(
+        app.analysis.control_estimate.ranges,
+        fresh.control_estimate.ranges
+    );
+    let shown = screen(&app);
+    let (lo, hi) = fresh.control_estimate.range(0).unwrap();
+    assert!(
+        shown.contains(&format!(
+            "flux control (estimate): {c0:.3}, 5–95 % {lo:.3}–{hi:.3}"
+        )),
+        "{shown}"
+    );
+    assert!(shown.chars().any(|ch| "▁▂▃▄▅▆▇█".contains(ch)), "{shown}");
+    // An edit of a concentration recomputes the estimate and asks for the range again.
+    app.handle_key(KeyEvent::new(KeyCode::Tab, KeyModifiers::NONE));
+    app.handle_key(KeyEvent::new(KeyCode::Char('>'), KeyModifiers::NONE));
+    assert!(app.busy());
+    app.finish_idle_work();
+    assert!(!app.busy() && app.analysis.control_estimate.ranges.is_some());
+}

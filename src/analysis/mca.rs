@@ -651,7 +651,7 @@ fn disagreement(p: &Pathway, a: &Analysis, est: &Estimate) -> Option<String> {
             let cp = est.coefficient(pp)?;
             if cp < ct / 2.0 {
                 Some(format!(
-                    "The verdict and the estimate disagree: the control point {} carries {:.2} of the flux control by the thermodynamic estimate, while {}{} carries the most ({:.2}).",
+                    "The verdict and the estimate disagree: the control point {} carries {:.3} of the flux control by the thermodynamic estimate, while {}{} carries the most ({:.3}).",
                     id(pp),
                     cp,
                     id(top),
@@ -664,7 +664,7 @@ fn disagreement(p: &Pathway, a: &Analysis, est: &Estimate) -> Option<String> {
                 ))
             } else if !top_has_verdict {
                 Some(format!(
-                    "The verdict and the estimate differ: {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.2}; the control point {} carries {:.2}).",
+                    "The verdict and the estimate differ: {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.3}; the control point {} carries {:.3}).",
                     id(top),
                     ct,
                     id(pp),
@@ -675,7 +675,7 @@ fn disagreement(p: &Pathway, a: &Analysis, est: &Estimate) -> Option<String> {
             }
         }
         None if !top_has_verdict => Some(format!(
-            "No step is the control point, and {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.2}).",
+            "No step is the control point, and {}, a step without a verdict, carries the most flux control by the thermodynamic estimate ({:.3}).",
             id(top),
             ct
         )),
@@ -749,13 +749,10 @@ pub fn finish_ranges(a: &mut Analysis, mut job: RangeJob) {
 pub fn explain(p: &Pathway, a: &Analysis, position: usize) -> Vec<String> {
     let est = &a.control_estimate;
     let Some(c) = est.coefficient(position) else {
-        return vec!["flux control (estimate): none, the route has no forward steady state here (a step at dG' ≥ 0)".into()];
+        return vec!["flux control (estimate): none (some dG' ≥ 0)".into()];
     };
     let range = match est.range(position) {
-        Some((lo, hi)) => format!(
-            ", {lo:.3}–{hi:.3} over saturation (5–95 %, {} draws)",
-            est.draws
-        ),
+        Some((lo, hi)) => format!(", 5–95 % {lo:.3}–{hi:.3}"),
         None if est.range_pending() || est.range_computing() => ", range: computing…".into(),
         None => String::new(),
     };

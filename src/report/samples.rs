@@ -152,6 +152,8 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
                 "classes": Value::Object(classes),
                 "largest_drop": s.largest,
                 "prime": s.prime,
+                "control_coefficient_median": s.control_median.map_or(Value::Null, num),
+                "control_samples": s.control_samples,
             })
         })
         .collect();
@@ -289,7 +291,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         .unwrap_or(4)
         .max(4);
     let head = format!(
-        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}",
+        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}",
         "step",
         format!("dG'° [{ul}]"),
         format!("median dG' [{ul}]"),
@@ -299,7 +301,8 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         "near",
         "uphill",
         "largest drop",
-        "prime"
+        "prime",
+        "median control"
     );
     let width = head.chars().count();
     out.push_str(&head);
@@ -309,7 +312,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
     let n = sum.samples;
     for s in &sum.steps {
         out.push_str(&format!(
-            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}\n",
+            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -320,6 +323,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            control_cell(s),
         ));
     }
     out.push('\n');
@@ -335,7 +339,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         }
     }
     out.push_str(&format!(
-        "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; per-sample rows: --format csv or json\n"
+        "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; median control is the median flux control estimate (mass action) over the samples where every route step runs forward, their number in brackets when not all; per-sample rows: --format csv or json\n"
     ));
     out.push_str(&format!("\n{}\n", crate::analysis::control::CAUTION));
     out
@@ -346,7 +350,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -354,7 +358,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -366,6 +370,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            control_cell(s),
         ));
     }
     out.push('\n');
@@ -377,4 +382,19 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     }
     out.push_str(&format!("\n_{}_\n", crate::analysis::control::CAUTION));
     out
+}
+
+/// Median flux control estimate of a step across samples, with the number
+/// of samples behind it when some had none ("-" when none had one).
+fn control_cell(s: &StepSpread) -> String {
+    match s.control_median {
+        None => "-".into(),
+        Some(m)
+            if s.control_samples
+                == s.classes.far + s.classes.moderate + s.classes.near + s.classes.uphill =>
+        {
+            format!("{m:.3}")
+        }
+        Some(m) => format!("{m:.3} ({})", s.control_samples),
+    }
 }
