@@ -603,6 +603,10 @@ fn samples_summary_has_the_median_estimate() {
     let (so, err) = crate::support::texts(&out);
     assert_eq!(out.status.code(), Some(0), "{err}");
     let d: serde_json::Value = serde_json::from_str(&so).unwrap();
+    // Each sample's steps carry their own estimate (null for t3).
+    let per = d["samples"].as_array().unwrap();
+    assert!(per[0]["steps"][0]["control_coefficient"].is_number());
+    assert!(per[2]["steps"][0]["control_coefficient"].is_null());
     let s1 = &d["summary"]["steps"][0];
     assert_eq!(s1["control_samples"], 2);
     // Median of two values is their mean; t1 is the file's state (worked in

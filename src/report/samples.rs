@@ -24,7 +24,7 @@ fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
 
 /// The header line of `report --samples --format csv`.
 pub fn csv_header() -> String {
-    "sample,step,dg0,dg,class,verdict,cumulative\n".to_string()
+    "sample,step,dg0,dg,class,verdict,cumulative,control_coefficient\n".to_string()
 }
 
 /// One CSV row per route step of one sample.
@@ -32,7 +32,7 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
     let mut w = csv::WriterBuilder::new()
         .has_headers(false)
         .from_writer(Vec::with_capacity(64 * a.steps.len()));
-    for s in &a.steps {
+    for (k, s) in a.steps.iter().enumerate() {
         let _ = w.write_record([
             name,
             &prep.pathway.steps[s.step].id,
@@ -41,6 +41,10 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
             s.class.as_str(),
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
             &format!("{}", clean(u.of(s.cumulative))),
+            &a.control_estimate
+                .coefficient(k)
+                .map(|c| format!("{}", clean(c)))
+                .unwrap_or_default(),
         ]);
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
@@ -54,6 +58,7 @@ struct StepRow<'a> {
     class: &'static str,
     verdict: Option<&'static str>,
     cumulative: Option<f64>,
+    control_coefficient: Option<f64>,
 }
 
 #[derive(serde::Serialize)]
@@ -80,13 +85,15 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
         steps: a
             .steps
             .iter()
-            .map(|s| StepRow {
+            .enumerate()
+            .map(|(k, s)| StepRow {
                 id: &prep.pathway.steps[s.step].id,
                 dg0: opt(u.of(s.dg0)),
                 dg: opt(u.of(s.dg)),
                 class: s.class.as_str(),
                 verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
                 cumulative: opt(u.of(s.cumulative)),
+                control_coefficient: a.control_estimate.coefficient(k).and_then(opt),
             })
             .collect(),
         total: Total {
