@@ -467,8 +467,21 @@ fn link(terms: &[Terms], conc: &[f64], nvars: usize) -> Link {
     }
 }
 
-/// Solves A x = b for dense row-major A (n × n) by LU with partial pivoting; None when singular.
-fn solve(mut a: Vec<f64>, n: usize, mut b: Vec<f64>) -> Option<Vec<f64>> {
+/// Solves A x = b for dense row-major A (n × n) by LU with partial
+/// pivoting; None when singular or so nearly singular that the answer
+/// cannot be trusted: ‖x‖·‖A‖ / ‖b‖ (a lower bound of the condition number)
+/// above 1e13. The summation theorem holds for any solution, so it cannot
+/// serve as the check.
+fn solve(a: Vec<f64>, n: usize, b: Vec<f64>) -> Option<Vec<f64>> {
+    let an = a.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+    let bn = b.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+    let x = lu_solve(a, n, b)?;
+    let xn = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+    (xn * an <= 1e13 * bn || bn == 0.0).then_some(x)
+}
+
+/// LU with partial pivoting and the two triangular solves.
+fn lu_solve(mut a: Vec<f64>, n: usize, mut b: Vec<f64>) -> Option<Vec<f64>> {
     let scale = a.iter().fold(0.0f64, |m, x| m.max(x.abs()));
     if !scale.is_finite() || scale == 0.0 {
         return None;
@@ -846,6 +859,16 @@ mod tests {
         let c = m.coefficients(None).unwrap();
         assert!((c[0] + c[1] - 1.0).abs() < 1e-12);
         assert!(c.iter().all(|x| (0.0..=1.0).contains(x)), "{c:?}");
+    }
+
+    #[test]
+    fn solve_refuses_singular_and_nearly_singular_systems() {
+        // x + 2y = 5, 3x + 4y = 6 -> x = -4, y = 4.5 (by hand).
+        let x = solve(vec![1.0, 2.0, 3.0, 4.0], 2, vec![5.0, 6.0]).unwrap();
+        assert!((x[0] + 4.0).abs() < 1e-12 && (x[1] - 4.5).abs() < 1e-12);
+        assert!(solve(vec![1.0, 1.0, 1.0, 1.0], 2, vec![1.0, 1.0]).is_none());
+        assert!(solve(vec![1.0, 1.0, 1.0, 1.0 + 1e-15], 2, vec![1.0, 0.0]).is_none());
+        assert_eq!(solve(vec![2.0], 1, vec![0.0]), Some(vec![0.0]));
     }
 
     #[test]
