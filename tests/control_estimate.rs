@@ -701,3 +701,60 @@ fn the_explorer_shows_the_estimate_and_fills_in_the_range_between_keys() {
     app.finish_idle_work();
     assert!(!app.busy() && app.analysis.control_estimate.ranges.is_some());
 }
+
+/// A long route with splits (150 blocks c -> e + f, e -> f, 2 f -> c', so
+/// 449 intermediates, past the dense limit) is solved as a banded system:
+/// the coefficients sum to 1, and the range is left out with a note.
+#[test]
+fn a_long_route_with_splits_gets_an_estimate() {
+    let k = 150;
+    let mut comps: Vec<(String, f64, Option<&str>)> = Vec::new();
+    for i in 0..=k {
+        comps.push((format!("c{i}"), 1e-3, None));
+    }
+    for i in 0..k {
+        comps.push((format!("e{i}"), 1e-3, None));
+        comps.push((format!("f{i}"), 1e-3, None));
+    }
+    let rt = rt25();
+    let ln_mm = (1e-3f64).ln();
+    let mut steps = Vec::new();
+    for i in 0..k {
+        // Invented dG' targets between −0.5 and −8 kJ/mol; dg0 = dG' − RT ln Q at 1 mM.
+        let dg = |j: usize| -500.0 - ((3 * i + j) * 37 % 75) as f64 * 100.0;
+        steps.push((
+            format!("a{i}"),
+            format!("c{i} -> e{i} + f{i}"),
+            dg(0) - rt * ln_mm,
+        ));
+        steps.push((format!("b{i}"), format!("e{i} -> f{i}"), dg(1)));
+        steps.push((
+            format!("d{i}"),
+            format!("2 f{i} -> c{}", i + 1),
+            dg(2) + rt * ln_mm,
+        ));
+    }
+    let prep = prepare_str(&file(&comps, &steps), "long.toml");
+    let mut a = analyze(&prep);
+    for s in &a.steps {
+        close(s.times, 1.0, 1e-12);
+        assert!(s.dg < 0.0);
+    }
+    let model = a.control_estimate.model.clone().unwrap();
+    assert!(
+        !model.is_chain() && model.vars.len() == 3 * k - 1 && model.vars.len() > mca::DENSE_MAX
+    );
+    let c = coefficients(&a);
+    close(c.iter().sum::<f64>(), 1.0, 1e-9);
+    assert!(
+        c.iter().all(|x| (-1e-12..=1.0 + 1e-12).contains(x)),
+        "{c:?}"
+    );
+    mca::add_ranges(&mut a, 100);
+    assert!(a.control_estimate.ranges.is_none());
+    assert!(
+        a.notes
+            .iter()
+            .any(|n| n.starts_with("no range for the flux control estimate"))
+    );
+}
