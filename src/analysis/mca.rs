@@ -238,7 +238,16 @@ impl Model {
         let s = |k: usize| sat.map_or((0.0, 0.0), |v| v[k]);
         // Rows of (N_R T ε L̃)ᵀ as (column, value) lists, and u = (ε L̃)ᵀ e_r;
         // each step's row of ε L̃ is accumulated in a scratch row.
-        let mut at: Vec<Vec<(usize, f64)>> = vec![Vec::new(); m0];
+        let mut at: Vec<Vec<(usize, f64)>> = if dense {
+            Vec::new()
+        } else {
+            vec![Vec::new(); m0]
+        };
+        let mut dense_at = if dense {
+            vec![0.0; m0 * m0]
+        } else {
+            Vec::new()
+        };
         let mut u = vec![0.0; m0];
         let mut scratch = vec![0.0; m0];
         let mut mark = vec![false; m0];
@@ -264,7 +273,11 @@ impl Model {
             for &(v, nu) in &self.terms[j] {
                 if let Some(k) = link.indep[v] {
                     for &l in &touched {
-                        at[l].push((k, nu * t * scratch[l]));
+                        if dense {
+                            dense_at[l * m0 + k] += nu * t * scratch[l];
+                        } else {
+                            at[l].push((k, nu * t * scratch[l]));
+                        }
                     }
                 }
             }
@@ -274,13 +287,7 @@ impl Model {
             }
         }
         let z = if dense {
-            let mut dense = vec![0.0; m0 * m0];
-            for (l, row) in at.iter().enumerate() {
-                for &(k, x) in row {
-                    dense[l * m0 + k] += x;
-                }
-            }
-            solve(dense, m0, u)
+            solve(dense_at, m0, u)
         } else {
             band_solve(at, u)?
         }
