@@ -567,7 +567,7 @@ fn band_solve(rows: Vec<Vec<(usize, f64)>>, mut b: Vec<f64>) -> Result<Option<Ve
                 }
             }
         }
-        if !(bv > an * 1e-15) {
+        if bv <= an * 1e-15 {
             return Ok(None);
         }
         win.swap(k, best);
