@@ -721,7 +721,7 @@ pub fn estimate(p: &Pathway, a: &Analysis, conc: &[f64]) -> Estimate {
         let has = if up.len() == 1 { "has" } else { "have" };
         est.notes.push(format!(
             "no flux control estimate: {} {has} dG' ≥ 0 as run, so the route has no forward steady state at these concentrations to estimate control in.",
-            super::list(&up)
+            id_list(&up)
         ));
         return est;
     }
@@ -771,6 +771,15 @@ pub fn estimate(p: &Pathway, a: &Analysis, conc: &[f64]) -> Estimate {
         est.notes.push(s);
     }
     est
+}
+
+/// Ids joined by commas, at most six and then how many more.
+fn id_list(ids: &[&str]) -> String {
+    if ids.len() > 6 {
+        format!("{} and {} more", ids[..6].join(", "), ids.len() - 6)
+    } else {
+        ids.join(", ")
+    }
 }
 
 /// One sentence when the verdicts and the estimate disagree: the control
