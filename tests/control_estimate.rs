@@ -758,3 +758,37 @@ fn a_long_route_with_splits_gets_an_estimate() {
             .any(|n| n.starts_with("no range for the flux control estimate"))
     );
 }
+
+/// A chain too long for the default draws within the memory bound gets a
+/// range from fewer draws, and a note says how many.
+#[test]
+fn a_long_chain_gets_a_range_from_fewer_draws() {
+    let n = 200;
+    let comps: Vec<(String, f64, Option<&str>)> =
+        (0..=n).map(|i| (format!("c{i}"), 1e-3, None)).collect();
+    // Invented dG' between −0.5 and −8 kJ/mol (1:1 steps at equal concentrations: dG' = dG'°).
+    let steps: Vec<(String, String, f64)> = (0..n)
+        .map(|i| {
+            (
+                format!("s{i}"),
+                format!("c{i} -> c{}", i + 1),
+                -500.0 - (i * 37 % 75) as f64 * 100.0,
+            )
+        })
+        .collect();
+    let prep = prepare_str(&file(&comps, &steps), "chain200.toml");
+    let mut a = analyze(&prep);
+    mca::add_ranges(&mut a, mca::DEFAULT_DRAWS);
+    let used = mca::RANGE_MAX_VALUES / n;
+    assert!(used < mca::DEFAULT_DRAWS);
+    assert_eq!(a.control_estimate.draws, used);
+    assert_eq!(a.control_estimate.ranges.as_ref().map(Vec::len), Some(n));
+    assert!(
+        a.notes.iter().any(|t| t.contains(&format!(
+            "comes from {used} draws, not {}",
+            mca::DEFAULT_DRAWS
+        ))),
+        "{:?}",
+        a.notes
+    );
+}

@@ -17,7 +17,7 @@ use rand_chacha::ChaCha8Rng;
 use rand_chacha::rand_core::{RngCore, SeedableRng};
 
 /// Saturation draws behind `control_coefficient_range` unless asked otherwise.
-pub const DEFAULT_DRAWS: usize = 24_000;
+pub const DEFAULT_DRAWS: usize = 50_000;
 /// Seed of the saturation draws (ChaCha8, `seed_from_u64`), fixed so the same file gives the same range.
 pub const SEED: u64 = 0x6467_7061_7468_4d43;
 /// Most intermediates of a route that is not a simple chain solved densely
@@ -26,8 +26,11 @@ pub const SEED: u64 = 0x6467_7061_7468_4d43;
 pub const DENSE_MAX: usize = 300;
 /// Most intermediates of a route that is not a simple chain for which the range is computed.
 pub const RANGE_DENSE_MAX: usize = 80;
-/// Most stored values (route steps × draws) for the range of a chain (8 bytes each).
+/// Most stored values (route steps × draws) for a range (8 bytes each); a
+/// longer route gets fewer draws, down to `RANGE_MIN_DRAWS`.
 pub const RANGE_MAX_VALUES: usize = 8_000_000;
+/// Fewest draws a range is computed from when a long route needs fewer than asked.
+pub const RANGE_MIN_DRAWS: usize = 1_000;
 /// Lower and upper percentile of the range.
 pub const RANGE_PERCENTILES: (f64, f64) = (0.05, 0.95);
 
@@ -856,29 +859,41 @@ pub fn start_ranges(a: &mut Analysis, draws: usize) -> Option<RangeJob> {
         return None;
     }
     let model = est.model.as_ref()?;
-    est.draws = draws;
     est.ranges = None;
+    let cap = RANGE_MAX_VALUES / model.len().max(1);
+    let used = draws.min(cap);
+    est.draws = used.max(1);
     let note = if !model.is_chain() && model.independent() > RANGE_DENSE_MAX {
         Some(format!(
             "no range for the flux control estimate: the route is not a simple chain and has {} independent intermediates; the range is computed for chains and for other routes up to {RANGE_DENSE_MAX}.",
             model.independent()
         ))
-    } else if model.len().saturating_mul(draws) > RANGE_MAX_VALUES {
+    } else if used < draws.min(RANGE_MIN_DRAWS) {
         Some(format!(
-            "no range for the flux control estimate: {} route steps × {draws} draws is more than {RANGE_MAX_VALUES} values; ask for fewer draws (at most {}).",
+            "no range for the flux control estimate: the route has {} steps, and even {} draws would be more than {RANGE_MAX_VALUES} stored values.",
             model.len(),
-            RANGE_MAX_VALUES / model.len().max(1)
+            draws.min(RANGE_MIN_DRAWS)
         ))
     } else {
+        if used < draws {
+            a.notes.push(format!(
+                "the range of the flux control estimate comes from {used} draws, not {draws}: {} route steps × {draws} draws would be more than {RANGE_MAX_VALUES} stored values, and with fewer draws its ends move more between seeds.",
+                model.len()
+            ));
+        }
         None
     };
+    let est = &mut a.control_estimate;
     match note {
         Some(n) => {
             est.range_note = Some(n.clone());
             a.notes.push(n);
             None
         }
-        None => Some(RangeJob::new(model.len(), draws, SEED)),
+        None => est
+            .model
+            .as_ref()
+            .map(|m| RangeJob::new(m.len(), used, SEED)),
     }
 }
 

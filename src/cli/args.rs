@@ -106,7 +106,7 @@ pub struct Common {
     #[arg(long = "energy-unit", value_enum, default_value_t = UnitArg::Kj)]
     pub energy_unit: UnitArg,
     /// Random enzyme saturations behind the flux control range (report,
-    /// explore, screenshot); 24000 when not given.
+    /// explore, screenshot); 50000 when not given.
     #[arg(long, value_name = "N", value_parser = clap::value_parser!(u64).range(1..=10_000_000))]
     pub draws: Option<u64>,
 }
