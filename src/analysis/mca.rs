@@ -154,10 +154,17 @@ impl Model {
     /// Scaled flux control coefficients of the route steps over the route's
     /// flux, at mass action (`sat` None) or with saturation (θ_S, θ_P) per step.
     pub fn coefficients(&self, sat: Option<&[(f64, f64)]>) -> Result<Vec<f64>, Failure> {
-        if self.chain {
-            Ok(self.chain_coefficients(sat))
+        let c = if self.chain {
+            self.chain_coefficients(sat)
         } else {
-            self.matrix_coefficients(sat)
+            self.matrix_coefficients(sat)?
+        };
+        // A step within a rounding error of equilibrium makes an elasticity
+        // overflow: no number can be given for it.
+        if c.iter().all(|x| x.is_finite()) {
+            Ok(c)
+        } else {
+            Err(Failure::Singular)
         }
     }
 
@@ -1113,6 +1120,14 @@ mod tests {
         }
         // Another seed gives other numbers (the seed is used).
         assert_ne!(m.ranges(500, SEED + 1).unwrap(), r1);
+    }
+
+    #[test]
+    fn a_step_a_rounding_error_from_equilibrium_gives_no_numbers() {
+        // dG'/RT = −1e-320 makes 1/(1 − e^{dG'/RT}) overflow.
+        let terms = vec![vec![(0, 1.0)], vec![(0, -1.0)]];
+        let m = Model::from_parts(vec![0], &[1e-3], terms, vec![1.0; 2], &[-1e-320, -1.0]).unwrap();
+        assert_eq!(m.coefficients(None), Err(Failure::Singular));
     }
 
     #[test]
