@@ -7,9 +7,9 @@
 //! Route intermediates are the variables; every other compound is held.
 //! Route step j carries times_j·J at the steady state. A simple chain (each
 //! intermediate made by one step and used by the next) uses the closed form,
-//! in O(n); any other route uses the matrix method with a dense LU, with
+//! in O(n); any other route uses the matrix method: a dense LU with
 //! conserved moieties among the intermediates removed through the link
-//! matrix (N = L·N_R).
+//! matrix (N = L·N_R) up to `DENSE_MAX` intermediates, a banded LU above.
 
 use super::{Analysis, Role, VerdictKind};
 use crate::model::Pathway;
@@ -52,7 +52,7 @@ pub struct Model {
     times: Vec<f64>,
     /// The route is a simple chain (closed form).
     chain: bool,
-    /// Link data for the matrix method (None for chains).
+    /// Link data for the matrix method (None for chains and long routes: identity).
     link: Option<Link>,
 }
 
