@@ -4,6 +4,7 @@
 
 mod bad_input;
 mod cli;
+mod control_estimate;
 mod explorer;
 mod explorer_tmux;
 mod library;
