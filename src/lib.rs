@@ -9,6 +9,7 @@
 #![forbid(unsafe_code)]
 
 pub mod analysis;
+pub mod import;
 pub mod model;
 #[cfg(feature = "plot")]
 pub mod plot;
