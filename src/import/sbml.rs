@@ -40,8 +40,6 @@ pub struct Reaction {
     pub reversible: bool,
     /// Part of the model's objective (or named as a biomass reaction).
     pub objective: bool,
-    /// Line of the `<reaction>` element.
-    pub line: usize,
 }
 
 /// What the import reads from one SBML document.
@@ -290,11 +288,11 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
     let mut reaction_index = HashMap::new();
     if let Some(list) = child(model, "listOfReactions") {
         for r in elements(list, "reaction") {
-            let line = line_of(r);
+            // Lines are found only for messages: each lookup scans the text.
             let Some(sbml_id) = r.attribute("id") else {
                 return Err(ImportError::new(
                     file,
-                    Some(line),
+                    Some(line_of(r)),
                     "a <reaction> has no id; the model is not valid SBML".into(),
                 ));
             };
@@ -371,7 +369,6 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
                 stoich,
                 reversible,
                 objective,
-                line,
             });
         }
     }
