@@ -73,7 +73,7 @@ fn main() {
     let extra_reactions = n_reactions.saturating_sub(core_reactions);
     for i in 0..extra_reactions {
         let mut used: Vec<String> = Vec::new();
-        let mut refs = |k: usize, next: &mut dyn FnMut(usize) -> usize, used: &mut Vec<String>| {
+        let refs = |k: usize, next: &mut dyn FnMut(usize) -> usize, used: &mut Vec<String>| {
             let mut s = String::new();
             for _ in 0..k {
                 let id = pick(next);
@@ -81,9 +81,9 @@ fn main() {
                     continue;
                 }
                 let coef = 1 + next(2);
-                let _ = write!(
+                let _ = writeln!(
                     s,
-                    "          <speciesReference species=\"{id}\" stoichiometry=\"{coef}\" constant=\"true\"/>\n"
+                    "          <speciesReference species=\"{id}\" stoichiometry=\"{coef}\" constant=\"true\"/>"
                 );
                 used.push(id);
             }
