@@ -489,3 +489,23 @@ fn bad_inputs_get_clear_messages() {
     let e = import_err("sbml/chain_l3v1.xml", &opts("HEX PGI HEX"));
     assert!(e.contains("lists 'HEX' twice"), "{e}");
 }
+
+#[test]
+fn a_bypass_undoes_the_step_whose_compounds_it_shares() {
+    let (out, p) = imported_open("sbml/uptake_l3v1.xml", &opts("UPT LUMP ENO PYK"));
+    let pps = step(&p, "PPS");
+    assert_eq!(pps.bypass_of, p.step("PYK"));
+    assert_eq!(
+        pps.reaction,
+        "pyr_c + atp_c + h2o_c -> pep_c + amp_c + pi_c"
+    );
+    assert_eq!(pps.protons, 2.0);
+    // Known by id when the model gives no formula.
+    assert!(p.compound("h_c").is_none());
+    assert_eq!(compound(&p, "h2o_c").role, Some(StatedRole::Solvent));
+    assert_eq!(compound(&p, "amp_c").role, Some(StatedRole::Currency));
+    assert_eq!(compound(&p, "pyr_c").charge, None);
+    // Neither pep nor pyr is a branch point: PPS is the bypass.
+    assert!(!out.text.contains("branch = true"), "{}", out.text);
+    assert_eq!(step(&p, "PYK").protons, -1.0);
+}

@@ -46,23 +46,26 @@ pub fn analyse(
     kinds: &[Kind],
     from: BranchesFrom,
 ) -> Network {
-    // rank: 0 for route inputs, 1 + the position of the first step that makes it.
-    let mut rank: Vec<Option<usize>> = vec![None; model.species.len()];
+    // Per route position, the non-carrier compounds it uses and makes (as run).
+    let mut on = vec![false; model.species.len()];
     let mut order = Vec::new();
-    for (pos, (&r, &f)) in route.iter().zip(flipped).enumerate() {
+    let mut uses: Vec<Vec<usize>> = Vec::with_capacity(route.len());
+    let mut makes: Vec<Vec<usize>> = Vec::with_capacity(route.len());
+    for (&r, &f) in route.iter().zip(flipped) {
         let sign = if f { -1.0 } else { 1.0 };
+        let (mut u, mut m) = (Vec::new(), Vec::new());
         for &(s, v) in &model.reactions[r].stoich {
             if kinds[s] != Kind::Other {
                 continue;
             }
-            if rank[s].is_none() {
+            if !on[s] {
+                on[s] = true;
                 order.push(s);
-                rank[s] = Some(0);
             }
-            if v * sign > 0.0 && rank[s] == Some(0) {
-                rank[s] = Some(pos + 1);
-            }
+            if v * sign > 0.0 { m.push(s) } else { u.push(s) }
         }
+        uses.push(u);
+        makes.push(m);
     }
     let on_route = |r: usize| route.contains(&r);
     let mut bypasses = Vec::new();
@@ -76,7 +79,7 @@ pub fn analyse(
             .copied()
             .filter(|&(s, _)| kinds[s] == Kind::Other)
             .collect();
-        if core.is_empty() || core.iter().any(|&(s, _)| rank[s].is_none()) {
+        if core.is_empty() || core.iter().any(|&(s, _)| !on[s]) {
             continue;
         }
         let directions: &[bool] = if r.reversible {
@@ -85,23 +88,11 @@ pub fn analyse(
             &[false]
         };
         for &f in directions {
-            let sign = if f { -1.0 } else { 1.0 };
-            let used = core.iter().filter(|(_, v)| v * sign < 0.0);
-            let made: Vec<usize> = core
-                .iter()
-                .filter(|(_, v)| v * sign > 0.0)
-                .filter_map(|&(s, _)| rank[s])
-                .collect();
-            // Largest backward span: from the latest compound used to the earliest made.
-            let hi = used.filter_map(|&(s, _)| rank[s]).max();
-            let lo = made.iter().copied().min();
-            if let (Some(hi), Some(lo)) = (hi, lo)
-                && lo < hi
-            {
+            if let Some(undoes) = backward_span(&core, f, &uses, &makes) {
                 bypasses.push(Bypass {
                     reaction: ri,
                     flipped: f,
-                    undoes: (lo..hi).collect(),
+                    undoes,
                 });
                 break;
             }
@@ -118,7 +109,7 @@ pub fn analyse(
             continue;
         }
         for &(s, _) in &r.stoich {
-            if rank[s].is_some() && makers[s].last() != Some(&ri) {
+            if on[s] && makers[s].last() != Some(&ri) {
                 makers[s].push(ri);
             }
         }
@@ -129,4 +120,68 @@ pub fn analyse(
         .filter(|(_, m)| !m.is_empty())
         .collect();
     Network { bypasses, branches }
+}
+
+/// The route steps a reaction (its non-carrier stoichiometry `core`, run
+/// backward when `flipped`) undoes, if it runs part of the route backward:
+/// it uses a compound that step j makes and makes one that is present at or
+/// before step j (used by a step up to j, or made by a step before j). Of
+/// all such spans the one whose compounds match the reaction's best wins
+/// (then the shorter, then the later).
+fn backward_span(
+    core: &[(usize, f64)],
+    flipped: bool,
+    uses: &[Vec<usize>],
+    makes: &[Vec<usize>],
+) -> Option<Vec<usize>> {
+    let sign = if flipped { -1.0 } else { 1.0 };
+    let used: Vec<usize> = core
+        .iter()
+        .filter(|(_, v)| v * sign < 0.0)
+        .map(|c| c.0)
+        .collect();
+    let made: Vec<usize> = core
+        .iter()
+        .filter(|(_, v)| v * sign > 0.0)
+        .map(|c| c.0)
+        .collect();
+    let mut best: Option<(f64, usize, usize)> = None;
+    for j in 0..makes.len() {
+        if !used.iter().any(|s| makes[j].contains(s)) {
+            continue;
+        }
+        for &p in &made {
+            // The latest place at or before step j where p is present.
+            let at = (0..=j).rev().find_map(|i| {
+                if uses[i].contains(&p) {
+                    Some(i)
+                } else if i < j && makes[i].contains(&p) {
+                    Some(i + 1)
+                } else {
+                    None
+                }
+            });
+            let Some(lo) = at else { continue };
+            let mut span: Vec<usize> = (lo..=j)
+                .flat_map(|i| uses[i].iter().chain(&makes[i]))
+                .copied()
+                .collect();
+            span.sort_unstable();
+            span.dedup();
+            let shared = core.iter().filter(|(s, _)| span.contains(s)).count();
+            let jaccard = shared as f64 / (core.len() + span.len() - shared) as f64;
+            let better = match best {
+                None => true,
+                Some((bj, blo, bhi)) => {
+                    jaccard > bj
+                        || (jaccard == bj && (j - lo) < (bhi - blo))
+                        || (jaccard == bj && (j - lo) == (bhi - blo) && j > bhi)
+                }
+            };
+            if better {
+                best = Some((jaccard, lo, j));
+            }
+        }
+    }
+    best.map(|(_, lo, hi)| (lo..=hi).collect())
 }
