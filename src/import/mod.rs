@@ -323,7 +323,8 @@ pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, Imp
         t.check_against(model)?;
     }
     let temperature = opts.temperature.clone().unwrap_or_else(|| "25 C".into());
-    if let Err(m) = crate::model::units::parse(&temperature, crate::model::units::Kind::Temperature)
+    if let Err(m) =
+        crate::model::check::quantity(&temperature, crate::model::units::Kind::Temperature)
     {
         return Err(ImportError::new(
             file,
@@ -332,12 +333,8 @@ pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, Imp
         ));
     }
     let ph = opts.ph.unwrap_or(7.0);
-    if !(0.0..=14.0).contains(&ph) {
-        return Err(ImportError::new(
-            file,
-            None,
-            format!("--ph {ph} is outside 0–14; give e.g. --ph 7.2"),
-        ));
+    if let Err(m) = crate::model::check::ph(ph) {
+        return Err(ImportError::new(file, None, format!("--ph: {m}")));
     }
     Ok(write::render(&write::Input {
         model,

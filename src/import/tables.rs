@@ -5,7 +5,8 @@
 
 use super::ImportError;
 use super::sbml::Model;
-use crate::model::units::{self, Kind};
+use crate::model::check;
+use crate::model::units::Kind;
 
 /// A value as written (number and unit), already checked.
 #[derive(Debug, Clone, PartialEq)]
@@ -187,7 +188,7 @@ fn cell(
             ),
         ));
     };
-    let si = units::parse(&format!("{number} {unit}"), kind)
+    let si = check::quantity(&format!("{number} {unit}"), kind)
         .map_err(|m| ImportError::new(file, Some(line), format!("column '{column}': {m}")))?;
     if kind == Kind::Concentration && si <= 0.0 {
         return Err(ImportError::new(
