@@ -142,6 +142,12 @@ fn branch_points_and_bypasses_come_from_the_network() {
     assert_eq!(fbp.reaction, "fdp_c + h2o_c -> f6p_c + pi_c");
     close(dg0_kj(&p, "FBP"), -9.2, 1e-12);
     assert_eq!(p.steps.len(), 12);
+    assert_eq!(out.bypasses, ["FBP"]);
+    assert_eq!(out.branches, ["g6p_c", "pyr_c"]);
+    assert_eq!(
+        import::summary(&out, "o.toml"),
+        "wrote o.toml: 11 route steps, 1 bypass step, 2 branch points\nnote: step 'GLCt' crosses compartments (c, e): its dg0 must include the membrane terms\n"
+    );
     // The transport step says its dg0 needs the membrane terms.
     assert!(
         out.text

@@ -165,6 +165,12 @@ pub struct Options {
 pub struct Imported {
     /// The pathway file text.
     pub text: String,
+    /// Route step ids, in order.
+    pub route: Vec<String>,
+    /// Bypass step ids.
+    pub bypasses: Vec<String>,
+    /// Compounds marked as branch points.
+    pub branches: Vec<String>,
     /// Steps written with `dg0 = "?"`.
     pub missing_dg0: Vec<String>,
     /// Compounds written with `conc = "?"`.
@@ -347,6 +353,38 @@ pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, Imp
         temperature: &temperature,
         ph,
     }))
+}
+
+/// What an import wrote and what is left to do, for the person who ran it.
+pub fn summary(out: &Imported, written: &str) -> String {
+    let mut s = format!(
+        "wrote {written}: {} route steps, {} bypass step{}, {} branch point{}\n",
+        out.route.len(),
+        out.bypasses.len(),
+        if out.bypasses.len() == 1 { "" } else { "s" },
+        out.branches.len(),
+        if out.branches.len() == 1 { "" } else { "s" },
+    );
+    if !out.missing_dg0.is_empty() {
+        s.push_str(&format!(
+            "dg0 left as \"?\" for {} step{}: {} (dgpath check fails until they are filled in)\n",
+            out.missing_dg0.len(),
+            if out.missing_dg0.len() == 1 { "" } else { "s" },
+            out.missing_dg0.join(", ")
+        ));
+    }
+    if !out.missing_conc.is_empty() {
+        s.push_str(&format!(
+            "conc left as \"?\" for {} compound{}: {}\n",
+            out.missing_conc.len(),
+            if out.missing_conc.len() == 1 { "" } else { "s" },
+            out.missing_conc.join(", ")
+        ));
+    }
+    for n in &out.notes {
+        s.push_str(&format!("note: {n}\n"));
+    }
+    s
 }
 
 /// Writes `text` to `path` atomically (a temporary file in the same folder,

@@ -447,8 +447,23 @@ pub fn render(inp: &Input) -> Imported {
             );
         }
     }
+    let branches = inp
+        .net
+        .branches
+        .iter()
+        .map(|(sp, _)| ids[*sp].clone())
+        .collect();
+    let step_ids = |s: &[StepOut]| -> Vec<String> {
+        s.iter()
+            .map(|st| file_id(&m.reactions[st.reaction].id, "r"))
+            .collect()
+    };
+    let (route_steps, bypass_steps) = steps.split_at(inp.route.len());
     Imported {
         text: out,
+        route: step_ids(route_steps),
+        bypasses: step_ids(bypass_steps),
+        branches,
         missing_dg0,
         missing_conc,
         notes,
