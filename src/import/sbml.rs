@@ -201,8 +201,33 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
         .or(model.attribute("name"))
         .unwrap_or("")
         .to_string();
+    let parameters = read_parameters(model);
+    let (species, species_index) = read_species(model, file, &line_of)?;
+    let objective_ids = read_objectives(model);
+    let (reactions, reaction_index) = read_reactions(
+        model,
+        file,
+        &line_of,
+        &species_index,
+        &parameters,
+        &objective_ids,
+    )?;
+    Ok(Model {
+        level,
+        version,
+        fbc,
+        id: model_id,
+        species,
+        reactions,
+        species_index,
+        reaction_index,
+    })
+}
 
-    // Parameters (fbc flux bounds refer to them by id).
+type Node<'a, 'i> = roxmltree::Node<'a, 'i>;
+
+/// Parameter values by id (fbc flux bounds refer to them).
+fn read_parameters<'a>(model: Node<'a, '_>) -> HashMap<&'a str, f64> {
     let mut parameters: HashMap<&str, f64> = HashMap::new();
     if let Some(list) = child(model, "listOfParameters") {
         for p in elements(list, "parameter") {
@@ -214,7 +239,15 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
             }
         }
     }
+    parameters
+}
 
+/// Species, and their indices by SBML id and by id without `M_`.
+fn read_species(
+    model: Node,
+    file: &str,
+    line_of: &dyn Fn(Node) -> usize,
+) -> Result<(Vec<Species>, HashMap<String, usize>), ImportError> {
     let mut species = Vec::new();
     let mut species_index = HashMap::new();
     if let Some(list) = child(model, "listOfSpecies") {
@@ -258,7 +291,12 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
             });
         }
     }
+    Ok((species, species_index))
+}
 
+/// Ids of the objective's reactions: the fbc active objective (else every
+/// objective) with a non-zero coefficient.
+fn read_objectives<'a>(model: Node<'a, '_>) -> Vec<&'a str> {
     // Objective reactions: fbc objectives (the active one, else all), or a
     // Level 2 kinetic-law parameter OBJECTIVE_COEFFICIENT.
     let mut objective_ids: Vec<&str> = Vec::new();
@@ -283,7 +321,18 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
             }
         }
     }
+    objective_ids
+}
 
+/// Reactions, and their indices by SBML id and by id without `R_`.
+fn read_reactions(
+    model: Node,
+    file: &str,
+    line_of: &dyn Fn(Node) -> usize,
+    species_index: &HashMap<String, usize>,
+    parameters: &HashMap<&str, f64>,
+    objective_ids: &[&str],
+) -> Result<(Vec<Reaction>, HashMap<String, usize>), ImportError> {
     let mut reactions = Vec::new();
     let mut reaction_index = HashMap::new();
     if let Some(list) = child(model, "listOfReactions") {
@@ -372,16 +421,7 @@ pub fn parse(text: &str, file: &str) -> Result<Model, ImportError> {
             });
         }
     }
-    Ok(Model {
-        level,
-        version,
-        fbc,
-        id: model_id,
-        species,
-        reactions,
-        species_index,
-        reaction_index,
-    })
+    Ok((reactions, reaction_index))
 }
 
 /// `M_glc__D_c` -> `glc__D_c`; an id that would be empty keeps its prefix.

@@ -82,7 +82,47 @@ struct StepOut {
 /// Renders the pathway file.
 pub fn render(inp: &Input) -> Imported {
     let m = inp.model;
-    let mut notes = Vec::new();
+    let steps = steps_out(inp);
+    let mut w = Writer {
+        inp,
+        ids: m.species.iter().map(|s| file_id(&s.id, "c")).collect(),
+        out: String::new(),
+        notes: Vec::new(),
+        missing_dg0: Vec::new(),
+        missing_conc: Vec::new(),
+    };
+    w.header();
+    w.pathway_and_conditions();
+    w.compounds(&used_compounds(inp, &steps));
+    for st in &steps {
+        w.step(st);
+    }
+    let branches = inp
+        .net
+        .branches
+        .iter()
+        .map(|(sp, _)| w.ids[*sp].clone())
+        .collect();
+    let step_ids = |s: &[StepOut]| -> Vec<String> {
+        s.iter()
+            .map(|st| file_id(&m.reactions[st.reaction].id, "r"))
+            .collect()
+    };
+    let (route_steps, bypass_steps) = steps.split_at(inp.route.len());
+    Imported {
+        text: w.out,
+        route: step_ids(route_steps),
+        bypasses: step_ids(bypass_steps),
+        branches,
+        missing_dg0: w.missing_dg0,
+        missing_conc: w.missing_conc,
+        notes: w.notes,
+    }
+}
+
+/// The route steps, then the bypass steps.
+fn steps_out(inp: &Input) -> Vec<StepOut> {
+    let m = inp.model;
     let mut steps: Vec<StepOut> = inp
         .route
         .iter()
@@ -111,10 +151,15 @@ pub fn render(inp: &Input) -> Imported {
             undoes_more: rest,
         });
     }
-    // Compounds in order of first use: route compounds, then carriers, then water.
+    steps
+}
+
+/// Compounds in order of first use: route compounds, then carriers, then water.
+fn used_compounds(inp: &Input, steps: &[StepOut]) -> Vec<usize> {
+    let m = inp.model;
     let mut used: Vec<usize> = Vec::new();
     let mut seen = vec![false; m.species.len()];
-    for s in &steps {
+    for s in steps {
         for &(sp, _) in &m.reactions[s.reaction].stoich {
             if inp.kinds[sp] != Kind::Proton && !seen[sp] {
                 seen[sp] = true;
@@ -128,185 +173,211 @@ pub fn render(inp: &Input) -> Imported {
         _ => 2,
     };
     used.sort_by_key(|&sp| rank(inp.kinds[sp]));
-    let ids: Vec<String> = m.species.iter().map(|s| file_id(&s.id, "c")).collect();
+    used
+}
 
-    let mut out = String::new();
-    let level = match m.fbc {
-        Some(v) => format!(
-            "SBML Level {} Version {}, fbc version {v}",
-            m.level, m.version
-        ),
-        None => format!("SBML Level {} Version {}", m.level, m.version),
-    };
-    let model_name = if m.id.is_empty() {
-        "the model".to_string()
-    } else {
-        format!("model '{}'", m.id)
-    };
-    let _ = writeln!(
-        out,
-        "# Imported by dgpath import from {} ({level}, {model_name}).",
-        inp.file
-    );
-    let _ = writeln!(out, "# Where the values come from:");
-    let _ = writeln!(
-        out,
-        "#   name, charge, hydrogens: the model's species (charge; H count of the chemical formula)"
-    );
-    let _ = writeln!(
-        out,
-        "#   reaction: the model's reaction, turned to run the way the route runs; H+ left out"
-    );
-    let _ = writeln!(
-        out,
-        "#   protons: the model's H+ (net H+ released as the step runs)"
-    );
-    match &inp.opts.dg0 {
-        Some(t) => {
-            let _ = writeln!(
-                out,
-                "#   dg0, dg0_sd: {} (for each reaction as the model writes it; negated where a step runs it the other way)",
-                t.file
-            );
-        }
-        None => {
-            let _ = writeln!(
-                out,
-                "#   dg0: no table given (--dg0); every step says \"?\" until you fill it in"
-            );
-        }
-    }
-    match &inp.opts.conc {
-        Some(t) => {
-            let _ = writeln!(out, "#   conc: {}", t.file);
-        }
-        None => {
-            let _ = writeln!(
-                out,
-                "#   conc: no table given (--conc); every compound says \"?\" until you fill it in"
-            );
-        }
-    }
-    let _ = writeln!(
-        out,
-        "#   role: water is the solvent; carriers (ATP/ADP/AMP, GTP/GDP, UTP/UDP, CTP/CDP, NAD(P)+/NAD(P)H,"
-    );
-    let _ = writeln!(
-        out,
-        "#         FAD/FADH2, quinones/quinols, Pi, PPi, CoA) are currency, by common practice"
-    );
-    let from = match inp.opts.branches_from {
-        super::BranchesFrom::Network => {
-            "other reactions make or use (objective, exchange,\n#           sink, demand and bypass reactions not counted)"
-        }
-        super::BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
-    };
-    let _ = writeln!(out, "#   branch: route compounds that {from}");
-    let _ = writeln!(
-        out,
-        "#   bypass_of: reactions that run part of the route backward (used by --reverse)"
-    );
-    let _ = writeln!(
-        out,
-        "# \"?\" is not a value: dgpath check lists each one until it is filled in."
-    );
-    out.push_str("format = 1\n\n[pathway]\n");
-    let first = &m.reactions[inp.route[0]].id;
-    let last = &m.reactions[inp.route[inp.route.len() - 1]].id;
-    let title = if m.id.is_empty() {
-        format!("{first} to {last}")
-    } else {
-        format!("{first} to {last} ({})", m.id)
-    };
-    let _ = writeln!(out, "name = {}", quote(&title));
-    let _ = writeln!(
-        out,
-        "description = {}",
-        quote(&format!("Imported from {}", inp.file))
-    );
-    let route_ids: Vec<String> = inp
-        .route
-        .iter()
-        .map(|&r| quote(&file_id(&m.reactions[r].id, "r")))
-        .collect();
-    let _ = writeln!(out, "route = [{}]", route_ids.join(", "));
-    out.push_str("\n[conditions]\n");
-    let t_from = if inp.opts.temperature.is_some() {
-        "--temperature"
-    } else {
-        "default; change to the cell's"
-    };
-    let ph_from = if inp.opts.ph.is_some() {
-        "--ph"
-    } else {
-        "default"
-    };
-    let _ = writeln!(out, "temperature = {}   # {t_from}", quote(inp.temperature));
-    let ph = if inp.ph.fract() == 0.0 {
-        format!("{:.1}", inp.ph)
-    } else {
-        number(inp.ph)
-    };
-    let _ = writeln!(out, "ph = {ph}   # {ph_from}");
-    out.push_str("\n[compounds]\n");
+struct Writer<'a> {
+    inp: &'a Input<'a>,
+    ids: Vec<String>,
+    out: String,
+    notes: Vec<String>,
+    missing_dg0: Vec<String>,
+    missing_conc: Vec<String>,
+}
 
-    let mut missing_conc = Vec::new();
-    let width = used.iter().map(|&sp| ids[sp].len()).max().unwrap_or(0);
-    for &sp in &used {
-        let s = &m.species[sp];
-        let kind = inp.kinds[sp];
-        let mut fields = vec![format!("name = {}", quote(&s.name))];
-        let mut comments: Vec<String> = Vec::new();
-        if kind == Kind::Water {
-            fields.push("role = \"solvent\"".into());
+impl Writer<'_> {
+    /// The comment block that says where every kind of value came from.
+    fn header(&mut self) {
+        let (inp, m, out) = (self.inp, self.inp.model, &mut self.out);
+        let level = match m.fbc {
+            Some(v) => format!(
+                "SBML Level {} Version {}, fbc version {v}",
+                m.level, m.version
+            ),
+            None => format!("SBML Level {} Version {}", m.level, m.version),
+        };
+        let model_name = if m.id.is_empty() {
+            "the model".to_string()
         } else {
-            match inp.opts.conc.as_ref().and_then(|t| t.get(m, sp)) {
-                Some(row) => fields.push(format!("conc = {}", quote(&row.conc.text()))),
-                None => {
-                    fields.push("conc = \"?\"".into());
-                    comments.push("conc not in the table: fill it in".into());
-                    missing_conc.push(ids[sp].clone());
-                }
-            }
-            if kind == Kind::Currency {
-                fields.push("role = \"currency\"".into());
-            }
-            if let Some(c) = s.charge {
-                fields.push(format!("charge = {}", number(c)));
-            }
-            if let Some(h) = s.formula.as_deref().and_then(hydrogens) {
-                fields.push(format!("hydrogens = {}", number(h)));
-            }
-        }
-        if let Some((_, makers)) = inp.net.branches.iter().find(|(b, _)| *b == sp) {
-            fields.push("branch = true".into());
-            let names: Vec<&str> = makers
-                .iter()
-                .take(5)
-                .map(|&r| m.reactions[r].id.as_str())
-                .collect();
-            let more = if makers.len() > 5 {
-                format!(" and {} more", makers.len() - 5)
-            } else {
-                String::new()
-            };
-            comments.push(format!("branch point: {}{more}", names.join(", ")));
-        }
-        let comment = if comments.is_empty() {
-            String::new()
-        } else {
-            format!("   # {}", comments.join("; "))
+            format!("model '{}'", m.id)
         };
         let _ = writeln!(
             out,
-            "{:<width$} = {{ {} }}{comment}",
-            ids[sp],
-            fields.join(", ")
+            "# Imported by dgpath import from {} ({level}, {model_name}).",
+            inp.file
+        );
+        let _ = writeln!(out, "# Where the values come from:");
+        let _ = writeln!(
+            out,
+            "#   name, charge, hydrogens: the model's species (charge; H count of the chemical formula)"
+        );
+        let _ = writeln!(
+            out,
+            "#   reaction: the model's reaction, turned to run the way the route runs; H+ left out"
+        );
+        let _ = writeln!(
+            out,
+            "#   protons: the model's H+ (net H+ released as the step runs)"
+        );
+        match &inp.opts.dg0 {
+            Some(t) => {
+                let _ = writeln!(
+                    out,
+                    "#   dg0, dg0_sd: {} (for each reaction as the model writes it; negated where a step runs it the other way)",
+                    t.file
+                );
+            }
+            None => {
+                let _ = writeln!(
+                    out,
+                    "#   dg0: no table given (--dg0); every step says \"?\" until you fill it in"
+                );
+            }
+        }
+        match &inp.opts.conc {
+            Some(t) => {
+                let _ = writeln!(out, "#   conc: {}", t.file);
+            }
+            None => {
+                let _ = writeln!(
+                    out,
+                    "#   conc: no table given (--conc); every compound says \"?\" until you fill it in"
+                );
+            }
+        }
+        let _ = writeln!(
+            out,
+            "#   role: water is the solvent; carriers (ATP/ADP/AMP, GTP/GDP, UTP/UDP, CTP/CDP, NAD(P)+/NAD(P)H,"
+        );
+        let _ = writeln!(
+            out,
+            "#         FAD/FADH2, quinones/quinols, Pi, PPi, CoA) are currency, by common practice"
+        );
+        let from = match inp.opts.branches_from {
+            super::BranchesFrom::Network => {
+                "other reactions make or use (objective, exchange,\n#           sink, demand and bypass reactions not counted)"
+            }
+            super::BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
+        };
+        let _ = writeln!(out, "#   branch: route compounds that {from}");
+        let _ = writeln!(
+            out,
+            "#   bypass_of: reactions that run part of the route backward (used by --reverse)"
+        );
+        let _ = writeln!(
+            out,
+            "# \"?\" is not a value: dgpath check lists each one until it is filled in."
         );
     }
 
-    let mut missing_dg0 = Vec::new();
-    for st in &steps {
+    fn pathway_and_conditions(&mut self) {
+        let (inp, m, out) = (self.inp, self.inp.model, &mut self.out);
+        out.push_str("format = 1\n\n[pathway]\n");
+        let first = &m.reactions[inp.route[0]].id;
+        let last = &m.reactions[inp.route[inp.route.len() - 1]].id;
+        let title = if m.id.is_empty() {
+            format!("{first} to {last}")
+        } else {
+            format!("{first} to {last} ({})", m.id)
+        };
+        let _ = writeln!(out, "name = {}", quote(&title));
+        let _ = writeln!(
+            out,
+            "description = {}",
+            quote(&format!("Imported from {}", inp.file))
+        );
+        let route_ids: Vec<String> = inp
+            .route
+            .iter()
+            .map(|&r| quote(&file_id(&m.reactions[r].id, "r")))
+            .collect();
+        let _ = writeln!(out, "route = [{}]", route_ids.join(", "));
+        out.push_str("\n[conditions]\n");
+        let t_from = if inp.opts.temperature.is_some() {
+            "--temperature"
+        } else {
+            "default; change to the cell's"
+        };
+        let ph_from = if inp.opts.ph.is_some() {
+            "--ph"
+        } else {
+            "default"
+        };
+        let _ = writeln!(out, "temperature = {}   # {t_from}", quote(inp.temperature));
+        let ph = if inp.ph.fract() == 0.0 {
+            format!("{:.1}", inp.ph)
+        } else {
+            number(inp.ph)
+        };
+        let _ = writeln!(out, "ph = {ph}   # {ph_from}");
+        out.push_str("\n[compounds]\n");
+    }
+
+    fn compounds(&mut self, used: &[usize]) {
+        let (inp, m) = (self.inp, self.inp.model);
+        let ids = &self.ids;
+        let out = &mut self.out;
+        let missing_conc = &mut self.missing_conc;
+        let width = used.iter().map(|&sp| ids[sp].len()).max().unwrap_or(0);
+        for &sp in used {
+            let s = &m.species[sp];
+            let kind = inp.kinds[sp];
+            let mut fields = vec![format!("name = {}", quote(&s.name))];
+            let mut comments: Vec<String> = Vec::new();
+            if kind == Kind::Water {
+                fields.push("role = \"solvent\"".into());
+            } else {
+                match inp.opts.conc.as_ref().and_then(|t| t.get(m, sp)) {
+                    Some(row) => fields.push(format!("conc = {}", quote(&row.conc.text()))),
+                    None => {
+                        fields.push("conc = \"?\"".into());
+                        comments.push("conc not in the table: fill it in".into());
+                        missing_conc.push(ids[sp].clone());
+                    }
+                }
+                if kind == Kind::Currency {
+                    fields.push("role = \"currency\"".into());
+                }
+                if let Some(c) = s.charge {
+                    fields.push(format!("charge = {}", number(c)));
+                }
+                if let Some(h) = s.formula.as_deref().and_then(hydrogens) {
+                    fields.push(format!("hydrogens = {}", number(h)));
+                }
+            }
+            if let Some((_, makers)) = inp.net.branches.iter().find(|(b, _)| *b == sp) {
+                fields.push("branch = true".into());
+                let names: Vec<&str> = makers
+                    .iter()
+                    .take(5)
+                    .map(|&r| m.reactions[r].id.as_str())
+                    .collect();
+                let more = if makers.len() > 5 {
+                    format!(" and {} more", makers.len() - 5)
+                } else {
+                    String::new()
+                };
+                comments.push(format!("branch point: {}{more}", names.join(", ")));
+            }
+            let comment = if comments.is_empty() {
+                String::new()
+            } else {
+                format!("   # {}", comments.join("; "))
+            };
+            let _ = writeln!(
+                out,
+                "{:<width$} = {{ {} }}{comment}",
+                ids[sp],
+                fields.join(", ")
+            );
+        }
+    }
+
+    fn step(&mut self, st: &StepOut) {
+        let (inp, m) = (self.inp, self.inp.model);
+        let ids = &self.ids;
+        let out = &mut self.out;
+        let notes = &mut self.notes;
         let r = &m.reactions[st.reaction];
         let id = file_id(&r.id, "r");
         let sign = if st.flipped { -1.0 } else { 1.0 };
@@ -367,6 +438,35 @@ pub fn render(inp: &Input) -> Imported {
             "reaction = {}",
             quote(&format!("{} -> {}", side(-1.0), side(1.0)))
         );
+        self.dg0_lines(st, &id);
+        let out = &mut self.out;
+        if protons != 0.0 {
+            let _ = writeln!(out, "protons = {}   # from the model's H+", number(protons));
+        }
+        self.balance(st, &id, protons);
+        let out = &mut self.out;
+        if let Some(of) = &st.bypass_of {
+            let extra = if st.undoes_more.is_empty() {
+                String::new()
+            } else {
+                format!(
+                    "; it also undoes {}, which still run backward in the reverse route",
+                    st.undoes_more.join(", ")
+                )
+            };
+            let _ = writeln!(
+                out,
+                "bypass_of = {}   # undoes {of}: a reaction of the model that runs it backward{extra}",
+                quote(of)
+            );
+        }
+    }
+
+    /// `dg0` (and `dg0_sd`) from the table, negated for a flipped step, or "?".
+    fn dg0_lines(&mut self, st: &StepOut, id: &str) {
+        let (inp, m) = (self.inp, self.inp.model);
+        let out = &mut self.out;
+        let missing_dg0 = &mut self.missing_dg0;
         match inp
             .opts
             .dg0
@@ -400,12 +500,19 @@ pub fn render(inp: &Input) -> Imported {
                     out,
                     "dg0 = \"?\"   # {why}: write this step's dG'° as it runs here"
                 );
-                missing_dg0.push(id.clone());
+                missing_dg0.push(id.to_string());
             }
         }
-        if protons != 0.0 {
-            let _ = writeln!(out, "protons = {}   # from the model's H+", number(protons));
-        }
+    }
+
+    /// A comment and a note when the model's reaction is not balanced in hydrogen
+    /// (protons should equal −Σ ν·hydrogens over the other reactants).
+    fn balance(&mut self, st: &StepOut, id: &str, protons: f64) {
+        let (inp, m) = (self.inp, self.inp.model);
+        let r = &m.reactions[st.reaction];
+        let sign = if st.flipped { -1.0 } else { 1.0 };
+        let out = &mut self.out;
+        let notes = &mut self.notes;
         // Hydrogen balance: protons should equal −Σ ν nH over the other reactants.
         let nh: Option<f64> = r
             .stoich
@@ -431,41 +538,5 @@ pub fn render(inp: &Input) -> Imported {
                 "step '{id}': the model's reaction is not balanced in hydrogen"
             ));
         }
-        if let Some(of) = &st.bypass_of {
-            let extra = if st.undoes_more.is_empty() {
-                String::new()
-            } else {
-                format!(
-                    "; it also undoes {}, which still run backward in the reverse route",
-                    st.undoes_more.join(", ")
-                )
-            };
-            let _ = writeln!(
-                out,
-                "bypass_of = {}   # undoes {of}: a reaction of the model that runs it backward{extra}",
-                quote(of)
-            );
-        }
-    }
-    let branches = inp
-        .net
-        .branches
-        .iter()
-        .map(|(sp, _)| ids[*sp].clone())
-        .collect();
-    let step_ids = |s: &[StepOut]| -> Vec<String> {
-        s.iter()
-            .map(|st| file_id(&m.reactions[st.reaction].id, "r"))
-            .collect()
-    };
-    let (route_steps, bypass_steps) = steps.split_at(inp.route.len());
-    Imported {
-        text: out,
-        route: step_ids(route_steps),
-        bypasses: step_ids(bypass_steps),
-        branches,
-        missing_dg0,
-        missing_conc,
-        notes,
     }
 }
