@@ -515,3 +515,40 @@ fn a_bypass_undoes_the_step_whose_compounds_it_shares() {
     assert!(!out.text.contains("branch = true"), "{}", out.text);
     assert_eq!(step(&p, "PYK").protons, -1.0);
 }
+
+#[test]
+fn a_branch_point_comment_names_five_reactions_and_counts_the_rest() {
+    // A small Level 3 model made in the test: A -> B -> C, and seven
+    // reactions that each take B elsewhere.
+    let sp = |id: &str| {
+        format!(
+            r#"<species id="M_{id}" compartment="c" hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/>"#
+        )
+    };
+    let rx = |id: &str, from: &str, to: &str| {
+        format!(
+            r#"<reaction id="R_{id}" reversible="false"><listOfReactants><speciesReference species="M_{from}" stoichiometry="1" constant="true"/></listOfReactants><listOfProducts><speciesReference species="M_{to}" stoichiometry="1" constant="true"/></listOfProducts></reaction>"#
+        )
+    };
+    let mut species: Vec<String> = ["a", "b", "c"].iter().map(|s| sp(s)).collect();
+    let mut reactions = vec![rx("S1", "a", "b"), rx("S2", "b", "c")];
+    for i in 1..=7 {
+        species.push(sp(&format!("x{i}")));
+        reactions.push(rx(&format!("OUT{i}"), "b", &format!("x{i}")));
+    }
+    let xml = format!(
+        r#"<?xml version="1.0" encoding="UTF-8"?>
+<sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+<model id="m"><listOfCompartments><compartment id="c" constant="true"/></listOfCompartments>
+<listOfSpecies>{}</listOfSpecies><listOfReactions>{}</listOfReactions></model></sbml>"#,
+        species.join("\n"),
+        reactions.join("\n")
+    );
+    let m = import::sbml::parse(&xml, "m.xml").unwrap();
+    let out = import::import(&m, "m.xml", &opts("S1 S2")).unwrap();
+    let line = out.text.lines().find(|l| l.starts_with("b ")).unwrap();
+    assert!(
+        line.ends_with("# conc not in the table: fill it in; branch point: OUT1, OUT2, OUT3, OUT4, OUT5 and 2 more"),
+        "{line}"
+    );
+}
