@@ -206,6 +206,12 @@ fn level3_version2_and_gzip() {
     }
     let m = import::read_model(&gz).unwrap();
     assert_eq!((m.level, m.version, m.fbc), (3, 2, Some(2)));
+    // A byte-order mark before the XML declaration is skipped.
+    let bom = dir.path().join("bom.xml");
+    let mut text = b"\xef\xbb\xbf".to_vec();
+    text.extend(std::fs::read(path("sbml/small_l3v2.xml")).unwrap());
+    std::fs::write(&bom, text).unwrap();
+    assert_eq!(import::read_model(&bom).unwrap().reactions.len(), 2);
     let out = import::import(&m, "small.xml.gz", &opts("DEHY PROT")).unwrap();
     let p = model::load_str(&out.text, "x.toml");
     // Without tables every value is "?", and the loader names each one.

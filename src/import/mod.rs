@@ -182,6 +182,20 @@ pub struct Imported {
 /// Reads a model file (plain or gzip-compressed SBML).
 pub fn read_model(path: &Path) -> Result<Model, ImportError> {
     let file = path.display().to_string();
+    if let Ok(meta) = std::fs::metadata(path)
+        && meta.is_file()
+        && meta.len() > sbml::MAX_MODEL_BYTES as u64
+    {
+        return Err(ImportError::new(
+            &file,
+            None,
+            format!(
+                "is {} MB, over the {} MB dgpath reads; check that it is the model file",
+                meta.len() / (1024 * 1024),
+                sbml::MAX_MODEL_BYTES / (1024 * 1024)
+            ),
+        ));
+    }
     let bytes = std::fs::read(path).map_err(|e| {
         let why = match e.kind() {
             std::io::ErrorKind::NotFound => "no such file; check the path".to_string(),

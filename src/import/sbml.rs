@@ -129,7 +129,7 @@ pub fn decode(bytes: &[u8], file: &str) -> Result<String, ImportError> {
         std::borrow::Cow::Borrowed(bytes)
     };
     match std::str::from_utf8(&bytes) {
-        Ok(s) => Ok(s.to_string()),
+        Ok(s) => Ok(s.strip_prefix('\u{feff}').unwrap_or(s).to_string()),
         Err(e) => {
             let at = e.valid_up_to();
             let line = bytes[..at].iter().filter(|&&b| b == b'\n').count() + 1;
