@@ -558,3 +558,30 @@ fn a_branch_point_comment_names_five_reactions_and_counts_the_rest() {
         "{line}"
     );
 }
+
+#[test]
+fn a_reaction_unbalanced_in_hydrogen_keeps_the_h_plus_count_as_a_comment() {
+    // The hand-written model with compound B given one H too few.
+    let xml = std::fs::read_to_string(path("sbml/small_l3v2.xml"))
+        .unwrap()
+        .replace(
+            "fbc:chemicalFormula=\"C3H3O2\"",
+            "fbc:chemicalFormula=\"C3H2O2\"",
+        );
+    let m = import::sbml::parse(&xml, "m.xml").unwrap();
+    let out = import::import(&m, "m.xml", &opts("DEHY PROT")).unwrap();
+    // DEHY: A (5 H) -> B (2 H) + water (2 H) releases 1 H+ by the hydrogens, 0 by the model's H+.
+    assert!(
+        out.text.contains("# protons = 0: the model's H+; left out because the model's reaction is not balanced in hydrogen\n# (its reactants' hydrogens give 1, which dgpath uses)"),
+        "{}",
+        out.text
+    );
+    assert!(
+        out.text
+            .contains("# protons = -1: the model's H+; left out"),
+        "{}",
+        out.text
+    );
+    assert!(!out.text.contains("\nprotons ="), "{}", out.text);
+    assert_eq!(out.notes.len(), 2, "{:?}", out.notes);
+}

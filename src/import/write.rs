@@ -69,7 +69,8 @@ pub fn file_id(id: &str, fallback_prefix: &str) -> String {
 }
 
 fn number(v: f64) -> String {
-    format!("{v}")
+    // + 0.0 turns −0 (an empty f64 sum is −0) into 0.
+    format!("{}", v + 0.0)
 }
 
 struct StepOut {
@@ -439,11 +440,7 @@ impl Writer<'_> {
             quote(&format!("{} -> {}", side(-1.0), side(1.0)))
         );
         self.dg0_lines(st, &id);
-        let out = &mut self.out;
-        if protons != 0.0 {
-            let _ = writeln!(out, "protons = {}   # from the model's H+", number(protons));
-        }
-        self.balance(st, &id, protons);
+        self.protons(st, &id, protons);
         let out = &mut self.out;
         if let Some(of) = &st.bypass_of {
             let extra = if st.undoes_more.is_empty() {
@@ -505,38 +502,50 @@ impl Writer<'_> {
         }
     }
 
-    /// A comment and a note when the model's reaction is not balanced in hydrogen
-    /// (protons should equal −Σ ν·hydrogens over the other reactants).
-    fn balance(&mut self, st: &StepOut, id: &str, protons: f64) {
+    /// `protons` from the model's H+. When every reactant has charge and
+    /// hydrogens, the file's loader counts protons from them (−Σ ν nH, water
+    /// nH 2); if the model's reaction is not balanced in hydrogen the two
+    /// disagree, and the H+ count is kept as a comment so the file still loads.
+    fn protons(&mut self, st: &StepOut, id: &str, protons: f64) {
         let (inp, m) = (self.inp, self.inp.model);
         let r = &m.reactions[st.reaction];
         let sign = if st.flipped { -1.0 } else { 1.0 };
-        let out = &mut self.out;
-        let notes = &mut self.notes;
-        // Hydrogen balance: protons should equal −Σ ν nH over the other reactants.
-        let nh: Option<f64> = r
+        let counted: Option<f64> = r
             .stoich
             .iter()
             .filter(|&&(sp, _)| inp.kinds[sp] != Kind::Proton)
             .map(|&(sp, v)| {
-                m.species[sp]
-                    .formula
-                    .as_deref()
-                    .and_then(hydrogens)
-                    .map(|h| h * v * sign)
+                let s = &m.species[sp];
+                let nh = if inp.kinds[sp] == Kind::Water {
+                    Some(2.0)
+                } else {
+                    s.charge.and(s.formula.as_deref().and_then(hydrogens))
+                };
+                nh.map(|h| -h * v * sign)
             })
             .sum();
-        if let Some(nh) = nh
-            && (nh + protons).abs() > 1e-9
-        {
-            let _ = writeln!(
-                out,
-                "# the model's reaction is not balanced in hydrogen (off by {}): check protons and hydrogens",
-                number(nh + protons)
-            );
-            notes.push(format!(
-                "step '{id}': the model's reaction is not balanced in hydrogen"
-            ));
+        match counted {
+            Some(c) if (c - protons).abs() > 1e-9 => {
+                let _ = writeln!(
+                    self.out,
+                    "# protons = {}: the model's H+; left out because the model's reaction is not balanced in hydrogen\n# (its reactants' hydrogens give {}, which dgpath uses): check the model",
+                    number(protons),
+                    number(c)
+                );
+                self.notes.push(format!(
+                    "step '{id}': the model's reaction is not balanced in hydrogen (H+ gives {}, the reactants' hydrogens {})",
+                    number(protons),
+                    number(c)
+                ));
+            }
+            _ if protons != 0.0 => {
+                let _ = writeln!(
+                    self.out,
+                    "protons = {}   # from the model's H+",
+                    number(protons)
+                );
+            }
+            _ => {}
         }
     }
 }
