@@ -5,179 +5,28 @@
 //! hydrogens, branch points and the bypasses of the reverse route
 //! (science.md §11). Nothing here computes thermodynamics.
 //!
-//! Parts: `sbml` reads the document, `orient` decides which way each route
-//! step runs, `network` finds branch points and bypasses, `tables` reads the
-//! dg0 and concentration CSV files, `write` lays out the pathway file.
+//! Parts: `sbml` reads the document, `roles` says what each species is,
+//! `orient` decides which way each route step runs, `network` finds branch
+//! points and bypasses, `tables` reads the dg0 and concentration CSV files,
+//! `write` lays out the pathway file; `options` and `error` hold the types
+//! they share. Here: reading a model file, listing it, and the import itself.
 
+pub mod error;
 pub mod network;
+pub mod options;
 pub mod orient;
+pub mod roles;
 pub mod sbml;
 pub mod tables;
 pub mod write;
 
-use crate::model::{Problem, suggest};
-use sbml::{Model, Species};
-use std::fmt;
+pub use error::ImportError;
+pub use options::{BranchesFrom, Imported, Options};
+pub use roles::{CURRENCY_IDS, Kind, base_id, classify};
+
+use crate::model::suggest;
+use sbml::Model;
 use std::path::Path;
-
-/// An import mistake: the file, the line where known, what is wrong and what to write instead.
-#[derive(Debug, Clone, PartialEq, thiserror::Error)]
-pub struct ImportError(pub Problem);
-
-impl ImportError {
-    /// An error about `file` (at `line`, where known).
-    pub fn new(file: &str, line: Option<usize>, message: String) -> Self {
-        ImportError(Problem {
-            file: file.to_string(),
-            line,
-            column: None,
-            message,
-        })
-    }
-}
-
-impl fmt::Display for ImportError {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        self.0.fmt(f)
-    }
-}
-
-/// What a species is for the import.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Kind {
-    /// H+: left out of reactions, counted as `protons`.
-    Proton,
-    /// Water: the solvent.
-    Water,
-    /// A carrier (science.md §11): role = "currency".
-    Currency,
-    /// Anything else: mass-balanced along the route.
-    Other,
-}
-
-/// Base ids (compartment suffix removed) of carriers, after science.md §11
-/// (common practice): adenine, guanine, uracil and cytosine nucleotides,
-/// NAD(P)(H), FAD(H2), quinones and quinols, phosphate, diphosphate, CoA.
-pub const CURRENCY_IDS: &[&str] = &[
-    "atp", "adp", "amp", "gtp", "gdp", "utp", "udp", "ctp", "cdp", "nad", "nadh", "nadp", "nadph",
-    "fad", "fadh2", "q8", "q8h2", "q9", "q9h2", "q10", "q10h2", "mqn8", "mql8", "2dmmq8",
-    "2dmmql8", "pi", "ppi", "coa",
-];
-
-/// Full names (lower case) that mark a carrier when the id does not.
-const CURRENCY_NAMES: &[&str] = &[
-    "nad+",
-    "nadp+",
-    "phosphate",
-    "orthophosphate",
-    "diphosphate",
-    "pyrophosphate",
-    "coenzyme a",
-    "nicotinamide adenine dinucleotide",
-    "nicotinamide adenine dinucleotide - reduced",
-    "nicotinamide adenine dinucleotide phosphate",
-    "nicotinamide adenine dinucleotide phosphate - reduced",
-    "flavin adenine dinucleotide oxidized",
-    "flavin adenine dinucleotide reduced",
-    "ubiquinone-8",
-    "ubiquinol-8",
-    "menaquinone 8",
-    "menaquinol 8",
-    "menaquinone-8",
-    "menaquinol-8",
-];
-
-/// The species id without its compartment suffix (`atp_c` in compartment `c` -> `atp`).
-pub fn base_id(s: &Species) -> &str {
-    if !s.compartment.is_empty()
-        && let Some(b) = s.id.strip_suffix(s.compartment.as_str())
-        && let Some(b) = b.strip_suffix('_')
-        && !b.is_empty()
-    {
-        return b;
-    }
-    &s.id
-}
-
-/// Classifies a species by its formula, charge, id and name (rules in docs/import.md).
-pub fn classify(s: &Species) -> Kind {
-    let base = base_id(s).to_ascii_lowercase();
-    let formula = s.formula.as_deref().map(str::trim);
-    let proton = match formula {
-        Some("H") => s.charge.is_none_or(|c| c == 1.0),
-        Some(_) => false,
-        None => base == "h" || s.name == "H+",
-    };
-    if proton {
-        return Kind::Proton;
-    }
-    let water = match formula {
-        Some(f) => f == "H2O" || f == "OH2",
-        None => base == "h2o" || s.name.eq_ignore_ascii_case("water"),
-    };
-    if water {
-        return Kind::Water;
-    }
-    let name = s.name.trim().to_ascii_lowercase();
-    let first_word = name.split_whitespace().next().unwrap_or("");
-    if CURRENCY_IDS.contains(&base.as_str())
-        || CURRENCY_NAMES.contains(&name.as_str())
-        || CURRENCY_IDS.contains(&first_word)
-    {
-        return Kind::Currency;
-    }
-    Kind::Other
-}
-
-/// Which reactions count when finding branch points.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum BranchesFrom {
-    /// Every reaction except the objective, exchange/sink/demand and bypass reactions.
-    #[default]
-    Network,
-    /// Every reaction of the model.
-    All,
-}
-
-/// What the person asked for.
-#[derive(Debug, Clone, Default)]
-pub struct Options {
-    /// Reaction ids of the route, in the order it runs (with or without `R_`).
-    pub route: Vec<String>,
-    /// Route steps to run against the model's written direction.
-    pub flip: Vec<String>,
-    /// Route steps to run as the model writes them.
-    pub keep: Vec<String>,
-    /// Standard energies, when a table was given.
-    pub dg0: Option<tables::Dg0Table>,
-    /// Concentrations, when a table was given.
-    pub conc: Option<tables::ConcTable>,
-    /// Temperature as written (`"30 C"`); default 25 C.
-    pub temperature: Option<String>,
-    /// pH; default 7.
-    pub ph: Option<f64>,
-    /// Which reactions make branch points.
-    pub branches_from: BranchesFrom,
-}
-
-/// An imported pathway file and what the person should know about it.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Imported {
-    /// The pathway file text.
-    pub text: String,
-    /// Route step ids, in order.
-    pub route: Vec<String>,
-    /// Bypass step ids.
-    pub bypasses: Vec<String>,
-    /// Compounds marked as branch points.
-    pub branches: Vec<String>,
-    /// Steps written with `dg0 = "?"`.
-    pub missing_dg0: Vec<String>,
-    /// Compounds written with `conc = "?"`.
-    pub missing_conc: Vec<String>,
-    /// Other things worth saying (transport steps, unbalanced reactions, ...).
-    pub notes: Vec<String>,
-}
 
 /// Reads a model file (plain or gzip-compressed SBML).
 pub fn read_model(path: &Path) -> Result<Model, ImportError> {

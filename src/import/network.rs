@@ -6,8 +6,9 @@
 //! (biomass) reactions, exchange/sink/demand reactions and bypasses (unless
 //! every reaction is asked to count).
 
+use super::options::BranchesFrom;
+use super::roles::Kind;
 use super::sbml::Model;
-use super::{BranchesFrom, Kind};
 
 /// A reaction outside the route that runs part of it backward.
 #[derive(Debug, Clone, PartialEq)]

@@ -5,8 +5,9 @@
 //! A step that runs either way in equally good solutions is ambiguous and
 //! the person decides (`--flip` / `--keep`).
 
+use super::error::ImportError;
+use super::roles::Kind;
 use super::sbml::Model;
-use super::{ImportError, Kind};
 
 /// Compounds that `a` (as run) makes and `b` (as run) uses.
 fn link(

@@ -3,7 +3,7 @@
 //! charge and boundary flag, reactions with signed stoichiometry, and which
 //! reactions are the model's objective.
 
-use super::ImportError;
+use super::error::ImportError;
 use std::collections::HashMap;
 
 /// A species of the model.

@@ -3,7 +3,7 @@
 //! `compound`, `conc`). A unit goes in the header (`dg0 [kJ/mol]`) or in the
 //! cell; values are kept as written so the pathway file shows the same text.
 
-use super::ImportError;
+use super::error::ImportError;
 use super::sbml::Model;
 use crate::model::check;
 use crate::model::units::Kind;

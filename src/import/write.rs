@@ -4,8 +4,9 @@
 //! bypasses), each value with a comment where it is not plain.
 
 use super::network::Network;
+use super::options::{BranchesFrom, Imported, Options};
+use super::roles::Kind;
 use super::sbml::{Model, hydrogens, term};
-use super::{Imported, Kind, Options};
 use std::collections::BTreeSet;
 use std::fmt::Write as _;
 
@@ -255,10 +256,10 @@ impl Writer<'_> {
             "#         FAD/FADH2, quinones/quinols, Pi, PPi, CoA) are currency, by common practice"
         );
         let from = match inp.opts.branches_from {
-            super::BranchesFrom::Network => {
+            BranchesFrom::Network => {
                 "other reactions make or use (objective, exchange,\n#           sink, demand and bypass reactions not counted)"
             }
-            super::BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
+            BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
         };
         let _ = writeln!(out, "#   branch: route compounds that {from}");
         let _ = writeln!(
