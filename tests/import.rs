@@ -585,3 +585,104 @@ fn a_reaction_unbalanced_in_hydrogen_keeps_the_h_plus_count_as_a_comment() {
     assert!(!out.text.contains("\nprotons ="), "{}", out.text);
     assert_eq!(out.notes.len(), 2, "{:?}", out.notes);
 }
+
+/// The command itself: writes, refuses to overwrite without --force, lists.
+#[test]
+fn import_command_through_the_binary() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("route.toml");
+    let o = out.to_str().unwrap();
+    let model = path("sbml/chain_l3v1.xml");
+    let dg0 = path("sbml/chain_dg0.csv");
+    let conc = path("sbml/chain_conc.csv");
+    let args = [
+        "import",
+        model.to_str().unwrap(),
+        "--route",
+        "GLCt,HEX PGI PFK FBA TPI GAPD PGK PGM ENO PYK",
+        "--dg0",
+        dg0.to_str().unwrap(),
+        "--conc",
+        conc.to_str().unwrap(),
+        "--temperature",
+        "37 C",
+        "--ph",
+        "7.2",
+        "-o",
+        o,
+    ];
+    let r = run(&args);
+    let (so, se) = texts(&r);
+    assert_eq!(r.status.code(), Some(0), "{se}");
+    assert!(
+        so.starts_with(&format!(
+            "wrote {o}: 11 route steps, 1 bypass step, 2 branch points\n"
+        )),
+        "{so}"
+    );
+    let text = std::fs::read_to_string(&out).unwrap();
+    assert!(
+        text.contains("temperature = \"37 C\"   # --temperature\nph = 7.2   # --ph"),
+        "{text}"
+    );
+    let r = run(&["check", o]);
+    assert_eq!(r.status.code(), Some(0), "{:?}", texts(&r));
+    // An existing file is kept, unless --force.
+    std::fs::write(&out, "# mine\n").unwrap();
+    let r = run(&args);
+    let (_, se) = texts(&r);
+    assert_eq!(r.status.code(), Some(1), "{se}");
+    assert!(se.contains("exists already; give --force"), "{se}");
+    assert_eq!(std::fs::read_to_string(&out).unwrap(), "# mine\n");
+    let mut forced = args.to_vec();
+    forced.push("--force");
+    let r = run(&forced);
+    assert_eq!(r.status.code(), Some(0), "{:?}", texts(&r));
+    assert_eq!(std::fs::read_to_string(&out).unwrap(), text);
+    // --list --grep
+    let r = run(&[
+        "import",
+        model.to_str().unwrap(),
+        "--list",
+        "--grep",
+        "KINASE",
+    ]);
+    let (so, _) = texts(&r);
+    let ids: Vec<&str> = so
+        .lines()
+        .map(|l| l.split_whitespace().next().unwrap())
+        .collect();
+    assert_eq!(ids, ["HEX", "PFK", "PGK", "PYK"], "{so}");
+    // Bad input: exit 1 with the file named, never a panic.
+    let bad = dir.path().join("notes.xml");
+    std::fs::write(&bad, "<notes>just notes</notes>").unwrap();
+    let r = run(&[
+        "import",
+        bad.to_str().unwrap(),
+        "--route",
+        "A B",
+        "-o",
+        o,
+        "--force",
+    ]);
+    let (_, se) = texts(&r);
+    assert_eq!(r.status.code(), Some(1), "{se}");
+    assert!(se.contains("notes.xml:1: is XML but not SBML"), "{se}");
+    let r = run(&[
+        "import",
+        model.to_str().unwrap(),
+        "--route",
+        "HEX PGI",
+        "--dg0",
+        "missing.csv",
+        "-o",
+        o,
+        "--force",
+    ]);
+    let (_, se) = texts(&r);
+    assert_eq!(r.status.code(), Some(1), "{se}");
+    assert!(se.contains("missing.csv: no such file"), "{se}");
+    // Without --route or -o: a usage error.
+    let r = run(&["import", model.to_str().unwrap()]);
+    assert_eq!(r.status.code(), Some(2));
+}
