@@ -498,6 +498,11 @@ fn bad_inputs_get_clear_messages() {
         },
     );
     assert!(e.contains("'FBP', which is not on the route"), "{e}");
+    let e = import_err("sbml/chain_l3v1.xml", &opts("EX_glc__D_e GLCt"));
+    assert!(
+        e.contains("route step 'EX_glc__D_e' (glc__D_e <=>) has nothing on one side"),
+        "{e}"
+    );
     let e = import_err("sbml/chain_l3v1.xml", &opts("HEX PGI HEX"));
     assert!(e.contains("lists 'HEX' twice"), "{e}");
 }

@@ -151,6 +151,25 @@ pub fn resolve_route(model: &Model, file: &str, ids: &[String]) -> Result<Vec<us
 pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, ImportError> {
     let route = resolve_route(model, file, &opts.route)?;
     let kinds: Vec<Kind> = model.species.iter().map(classify).collect();
+    for &r in &route {
+        let rx = &model.reactions[r];
+        let side = |sign: f64| {
+            rx.stoich
+                .iter()
+                .any(|&(s, v)| v * sign > 0.0 && kinds[s] != Kind::Proton)
+        };
+        if !side(1.0) || !side(-1.0) {
+            return Err(ImportError::new(
+                file,
+                None,
+                format!(
+                    "route step '{}' ({}) has nothing on one side once H+ is left out (an exchange, sink or demand reaction, or a proton transport); start and end the route at reactions that convert compounds",
+                    rx.id,
+                    model.equation(rx)
+                ),
+            ));
+        }
+    }
     let find_step = |id: &String| -> Result<usize, ImportError> {
         match model.reaction_by_id(id) {
             Some(r) if route.contains(&r) => Ok(r),
