@@ -90,3 +90,77 @@ pub fn classify(s: &Species) -> Kind {
     }
     Kind::Other
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn sp(id: &str, name: &str, formula: Option<&str>, charge: Option<f64>) -> Species {
+        Species {
+            id: id.into(),
+            sbml_id: format!("M_{id}"),
+            name: name.into(),
+            compartment: "c".into(),
+            formula: formula.map(str::to_string),
+            charge,
+            boundary: false,
+        }
+    }
+
+    #[test]
+    fn protons_water_and_carriers() {
+        assert_eq!(
+            classify(&sp("h_c", "H+", Some("H"), Some(1.0))),
+            Kind::Proton
+        );
+        assert_eq!(classify(&sp("h_c", "", None, None)), Kind::Proton);
+        // Formula H with charge 0 is not H+.
+        assert_eq!(
+            classify(&sp("hx_c", "hydrogen atom", Some("H"), Some(0.0))),
+            Kind::Other
+        );
+        assert_eq!(
+            classify(&sp("h2o_c", "H2O H2O", Some("H2O"), Some(0.0))),
+            Kind::Water
+        );
+        assert_eq!(classify(&sp("wat_c", "water", None, None)), Kind::Water);
+        assert_eq!(
+            classify(&sp("atp_c", "ATP C10H12N5O13P3", None, None)),
+            Kind::Currency
+        );
+        assert_eq!(
+            classify(&sp(
+                "m1_c",
+                "Nicotinamide adenine dinucleotide - reduced",
+                None,
+                None
+            )),
+            Kind::Currency
+        );
+        assert_eq!(
+            classify(&sp("m2_c", "Coenzyme A", None, None)),
+            Kind::Currency
+        );
+        assert_eq!(
+            classify(&sp("accoa_c", "Acetyl-CoA", None, None)),
+            Kind::Other
+        );
+        assert_eq!(
+            classify(&sp("q8h2_c", "Ubiquinol-8", None, None)),
+            Kind::Currency
+        );
+        assert_eq!(
+            classify(&sp("g6p_c", "D-Glucose 6-phosphate", None, None)),
+            Kind::Other
+        );
+    }
+
+    #[test]
+    fn compartment_suffix_comes_off_the_id() {
+        assert_eq!(base_id(&sp("atp_c", "", None, None)), "atp");
+        let mut s = sp("pi_p", "", None, None);
+        assert_eq!(base_id(&s), "pi_p");
+        s.compartment = "p".into();
+        assert_eq!(base_id(&s), "pi");
+    }
+}
