@@ -531,30 +531,15 @@ fn a_bypass_undoes_the_step_whose_compounds_it_shares() {
 fn a_branch_point_comment_names_five_reactions_and_counts_the_rest() {
     // A small Level 3 model made in the test: A -> B -> C, and seven
     // reactions that each take B elsewhere.
-    let sp = |id: &str| {
-        format!(
-            r#"<species id="M_{id}" compartment="c" hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/>"#
-        )
-    };
-    let rx = |id: &str, from: &str, to: &str| {
-        format!(
-            r#"<reaction id="R_{id}" reversible="false"><listOfReactants><speciesReference species="M_{from}" stoichiometry="1" constant="true"/></listOfReactants><listOfProducts><speciesReference species="M_{to}" stoichiometry="1" constant="true"/></listOfProducts></reaction>"#
-        )
-    };
-    let mut species: Vec<String> = ["a", "b", "c"].iter().map(|s| sp(s)).collect();
-    let mut reactions = vec![rx("S1", "a", "b"), rx("S2", "b", "c")];
-    for i in 1..=7 {
-        species.push(sp(&format!("x{i}")));
-        reactions.push(rx(&format!("OUT{i}"), "b", &format!("x{i}")));
+    let mut species = vec!["a", "b", "c"];
+    let x: Vec<String> = (1..=7).map(|i| format!("x{i}")).collect();
+    species.extend(x.iter().map(String::as_str));
+    let mut reactions = vec![("S1", "a", "b"), ("S2", "b", "c")];
+    let outs: Vec<String> = (1..=7).map(|i| format!("OUT{i}")).collect();
+    for (o, xi) in outs.iter().zip(&x) {
+        reactions.push((o.as_str(), "b", xi.as_str()));
     }
-    let xml = format!(
-        r#"<?xml version="1.0" encoding="UTF-8"?>
-<sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
-<model id="m"><listOfCompartments><compartment id="c" constant="true"/></listOfCompartments>
-<listOfSpecies>{}</listOfSpecies><listOfReactions>{}</listOfReactions></model></sbml>"#,
-        species.join("\n"),
-        reactions.join("\n")
-    );
+    let xml = inline_model(&species, &reactions);
     let m = import::sbml::parse(&xml, "m.xml").unwrap();
     let out = import::import(&m, "m.xml", &opts("S1 S2")).unwrap();
     let line = out.text.lines().find(|l| l.starts_with("b ")).unwrap();
@@ -690,4 +675,55 @@ fn import_command_through_the_binary() {
     // Without --route or -o: a usage error.
     let r = run(&["import", model.to_str().unwrap()]);
     assert_eq!(r.status.code(), Some(2));
+}
+
+/// A Level 3 Version 2 model made in a test: species in compartment c and
+/// irreversible one-to-one reactions (id, from, to), no formulas.
+fn inline_model(species: &[&str], reactions: &[(&str, &str, &str)]) -> String {
+    let sp: Vec<String> = species
+        .iter()
+        .map(|id| {
+            format!(
+                r#"<species id="M_{id}" compartment="c" hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/>"#
+            )
+        })
+        .collect();
+    let rx: Vec<String> = reactions
+        .iter()
+        .map(|(id, from, to)| {
+            format!(
+                r#"<reaction id="R_{id}" reversible="false"><listOfReactants><speciesReference species="M_{from}" stoichiometry="1" constant="true"/></listOfReactants><listOfProducts><speciesReference species="M_{to}" stoichiometry="1" constant="true"/></listOfProducts></reaction>"#
+            )
+        })
+        .collect();
+    format!(
+        r#"<?xml version="1.0" encoding="UTF-8"?>
+<sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+<model id="m"><listOfCompartments><compartment id="c" constant="true"/></listOfCompartments>
+<listOfSpecies>{}</listOfSpecies><listOfReactions>{}</listOfReactions></model></sbml>"#,
+        sp.join("\n"),
+        rx.join("\n")
+    )
+}
+
+#[test]
+fn a_bypass_over_several_steps_stands_in_for_the_last_and_names_the_others() {
+    let xml = inline_model(
+        &["a", "b", "c", "d"],
+        &[
+            ("S1", "a", "b"),
+            ("S2", "b", "c"),
+            ("S3", "c", "d"),
+            ("BACK", "d", "a"),
+        ],
+    );
+    let m = import::sbml::parse(&xml, "m.xml").unwrap();
+    let out = import::import(&m, "m.xml", &opts("S1 S2 S3")).unwrap();
+    assert_eq!(out.bypasses, ["BACK"]);
+    assert!(
+        out.text.contains("bypass_of = \"S3\"   # undoes S3: a reaction of the model that runs it backward; it also undoes S1, S2, which still run backward in the reverse route"),
+        "{}",
+        out.text
+    );
+    assert!(out.branches.is_empty());
 }
