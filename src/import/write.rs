@@ -340,12 +340,12 @@ impl Writer<'_> {
                 if kind == Kind::Currency {
                     fields.push("role = \"currency\"".into());
                 }
-                if let Some(c) = s.charge {
-                    fields.push(format!("charge = {}", number(c)));
-                }
-                if let Some(h) = s.formula.as_deref().and_then(hydrogens) {
-                    fields.push(format!("hydrogens = {}", number(h)));
-                }
+            }
+            if let Some(c) = s.charge {
+                fields.push(format!("charge = {}", number(c)));
+            }
+            if let Some(h) = s.formula.as_deref().and_then(hydrogens) {
+                fields.push(format!("hydrogens = {}", number(h)));
             }
             if let Some((_, makers)) = inp.net.branches.iter().find(|(b, _)| *b == sp) {
                 fields.push("branch = true".into());
