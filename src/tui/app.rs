@@ -511,8 +511,17 @@ impl App {
                     self.say(format!("{id} is a solvent (activity 1)"), Tone::Warn);
                     return;
                 }
-                let v = self.state().conc[i] * f;
+                // Rounded to three figures in the unit it is saved in, so the
+                // screen, the analysis and the file agree.
+                let v =
+                    super::optimum::round_conc_sig3(self.state().conc[i] * f, 0.0, f64::INFINITY);
                 self.set_conc(i, v);
+                if self.focus != Pane::Compounds
+                    && let Some((text, tone)) = self.status.take()
+                {
+                    let m = format!("{text} (the compound selected in the concentration pane)");
+                    self.say(m, tone);
+                }
             }
             Message::StartFind => {
                 self.status = None;

@@ -33,7 +33,7 @@ pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         .max()
         .unwrap_or(3)
         .clamp(3, 8);
-    let rolew = if compact { 5 } else { 13 };
+    let rolew = if compact { 8 } else { 13 };
     let header = format!(
         "  {:<idw$} {:>9}  {:<rolew$}{}",
         "id",
@@ -65,7 +65,7 @@ pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             (true, _, false) => "▶ ",
             (true, _, true) => "> ",
             (false, true, false) => "• ",
-            (false, true, true) => "* ",
+            (false, true, true) => "+ ",
             _ => "  ",
         };
         let edited = app.edited(i);
@@ -92,11 +92,16 @@ pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             },
             Span::styled(pad(role_text(a.roles[i], compact), rolew, ascii), style),
         ];
-        if a.branch.get(i).copied().unwrap_or(false) {
+        let branch = a.branch.get(i).copied().unwrap_or(false);
+        if compact && branch {
+            // No room for a column: the branch point takes the role's place.
+            spans.pop();
             spans.push(Span::styled(
-                if compact { "br" } else { "branch" },
+                pad("branch", rolew, ascii),
                 style.patch(t.bold()),
             ));
+        } else if branch {
+            spans.push(Span::styled("branch", style.patch(t.bold())));
         }
         lines.push(Line::from(spans));
     }

@@ -1,11 +1,11 @@
 //! The step detail pane: the selected step's numbers, verdict and notes.
 
-use super::text::{class_text, fit, kv};
+use super::text::{class_text, fit, kv, num3};
 use super::theme::bottleneck_mark;
 use super::theme::{Theme, block};
 use crate::analysis::{Class, StepResult, mca};
 use crate::model::units;
-use crate::present::{self, sci};
+use crate::present;
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
 use crate::tui::optimum::LiveMdf;
 use ratatui::buffer::Buffer;
@@ -63,13 +63,13 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             String::new()
         }
     )));
-    let mut l = kv("Q", sci(s.q()));
-    l.extend(kv("K'", sci(s.keq())));
+    let mut l = kv("Q", num3(s.q()));
+    l.extend(kv("K'", num3(s.keq())));
     l.extend(kv("RT", format!("{:.3} {ul}", u.of(rt))));
     out.push(Line::from(l));
     out.push(Line::styled("dG' = dG'° + RT ln Q:", t.dim()));
     out.push(Line::from(format!(
-        "  {:>8.2}  dG'° at the conditions",
+        "{:>+8.2}  dG'° at the conditions",
         u.of(s.dg0)
     )));
     let biggest = s
@@ -80,11 +80,12 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     for c in &s.contributions {
         let comp = &p.compounds[c.compound];
         let drives = biggest > 0.0 && c.energy.abs() == biggest;
+        // The contribution, then apart from it which side the compound is on.
         let line = format!(
-            "  {:>+8.2}  {} {:<8} {:>9}",
+            "{:>+8.2} {:<9} {:<6} {:>8}",
             u.of(c.energy),
-            if c.nu < 0.0 { "−" } else { "+" }.replace('−', if ascii { "-" } else { "−" }),
-            fit(&comp.id, 8, ascii),
+            if c.nu < 0.0 { "substrate" } else { "product" },
+            fit(&comp.id, 6, ascii),
             units::format_conc(app.state().conc[c.compound], ascii),
         );
         let mut spans = vec![Span::raw(line)];
@@ -107,7 +108,6 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
         .map(|sd| format!(" {} {:.2}", if ascii { "+/-" } else { "±" }, u.of(sd)))
         .unwrap_or_default();
     out.push(Line::from(vec![
-        Span::raw("  "),
         Span::styled(format!("{:>+8.2}", u.of(s.dg)), t.bold()),
         Span::raw(format!("  dG' {ul}{sd}")),
     ]));
@@ -133,7 +133,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             t.bold(),
         ));
     }
-    let mut l = kv("J+/J−", sci(s.flux_ratio(rt)));
+    let mut l = kv("J+/J−", num3(s.flux_ratio(rt)));
     if ascii {
         l[0] = Span::raw("J+/J- ");
     }
@@ -143,7 +143,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     ));
     out.push(Line::from(l));
     match s.enzyme_factor(rt) {
-        Some(f) => out.push(Line::from(kv("enzyme factor", format!("×{}", sci(f))))),
+        Some(f) => out.push(Line::from(kv("enzyme factor", format!("×{}", num3(f))))),
         None => out.push(Line::styled(
             "enzyme factor: none (dG' ≥ 0: no net forward flux)"
                 .replace('≥', if ascii { ">=" } else { "≥" }),
@@ -198,7 +198,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     {
         out.push(Line::styled(
             format!(
-                "reversed and uphill with no bypass: lacks {:.2} {ul} per turn",
+                "reversed and uphill with no bypass: lacks {:.2} {ul} per pass",
                 u.of(nb.lacks)
             ),
             t.warn(),

@@ -42,14 +42,15 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         .unwrap_or(3)
         .clamp(3, 10);
     let compact = w < 72;
-    let (dgw, clw, shw, vw) = if compact {
-        (7, 9, 5, 2)
+    // `pw`: the per pass column ("/pass" when compact).
+    let (dgw, clw, shw, vw, pw) = if compact {
+        (7, 9, 5, 2, 5)
     } else {
-        (8, 10, 6, 12)
+        (8, 10, 6, 12, 8)
     };
     // Flux control estimate (science.md §7): " 0.57" when there is room for
     // it and a 10-character enzyme column, else a one-character bar.
-    let base = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + 7 + clw + shw + 1 + vw;
+    let base = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + pw + 2 + clw + shw + 1 + vw;
     let ctw = if !compact && w >= base + 5 + 1 + 10 {
         5
     } else if w >= base + 2 {
@@ -66,10 +67,10 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         header.push(' ');
     }
     header.push_str(&format!(
-        "{:>dgw$}{:>dgw$} {:>5} {:<clw$}{:>shw$}{:>ctw$} {}",
+        "{:>dgw$}{:>dgw$} {:>pw$} {:<clw$}{:>shw$}{:>ctw$} {}",
         "dG'°",
         "dG'",
-        "turns",
+        if compact { "/pass" } else { "per pass" },
         "class",
         "share",
         match ctw {
@@ -107,7 +108,7 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             (true, _, false) => "▶ ",
             (true, _, true) => "> ",
             (false, true, false) => "• ",
-            (false, true, true) => "* ",
+            (false, true, true) => "+ ",
             _ => "  ",
         };
         let mut spans = vec![Span::styled(lead, row_style)];
@@ -143,9 +144,9 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             row_style,
         ));
         let turns = if side {
-            " side".to_string()
+            format!(" {:>pw$}", "side")
         } else {
-            format!(" {:>5}", units::sig3(s.times))
+            format!(" {:>pw$}", units::sig3(s.times))
         };
         spans.push(Span::styled(turns + " ", row_style));
         spans.push(Span::styled(

@@ -18,7 +18,7 @@ pub fn fit(s: &str, w: usize, ascii: bool) -> String {
         return String::new();
     }
     let mut out: String = s.chars().take(w - 1).collect();
-    out.push(if ascii { '~' } else { '…' });
+    out.push(if ascii { TRUNCATED_ASCII } else { '…' });
     out
 }
 
@@ -54,7 +54,7 @@ pub fn asciify(area: Rect, buf: &mut Buffer) {
                 "÷" => "/",
                 "±" => "~",
                 "µ" | "μ" => "u",
-                "…" => "~",
+                "…" => "$",
                 "→" => ">",
                 "⇌" => "=",
                 _ => "?",
@@ -83,16 +83,37 @@ pub fn class_text(s: &StepResult, ascii: bool) -> String {
     )
 }
 
-/// A compound's role, short when `compact`.
+/// The ASCII stand-in for a cut text (`~` is the near class).
+pub const TRUNCATED_ASCII: char = '$';
+
+/// A compound's role, at most 9 characters when `compact` (spelled so a
+/// reader can guess it).
 pub fn role_text(r: Role, compact: bool) -> &'static str {
     match (r, compact) {
-        (Role::Input, true) => "in",
-        (Role::Output, true) => "out",
-        (Role::Intermediate, true) => "mid",
-        (Role::Currency, true) => "cur",
-        (Role::Solvent, true) => "solv",
-        (Role::OffRoute, true) => "off",
-        (r, false) => r.as_str(),
+        (Role::Intermediate, true) => "interm.",
+        (r, _) => r.as_str(),
+    }
+}
+
+/// A number to three significant figures: plain between 0.01 and 10,000,
+/// else in exponent form (992, 4.68e3 is written 4680, 1.23e-5).
+pub fn num3(x: f64) -> String {
+    if !x.is_finite() {
+        return if x > 0.0 { "inf".into() } else { "nan".into() };
+    }
+    if x != 0.0 && (x.abs() >= 1e4 || x.abs() < 1e-2) {
+        return format!("{x:.2e}");
+    }
+    let mag = if x == 0.0 {
+        0
+    } else {
+        x.abs().log10().floor() as i32
+    };
+    if mag > 2 {
+        let f = 10f64.powi(mag - 2);
+        format!("{:.0}", (x / f).round() * f)
+    } else {
+        crate::model::units::sig3(x)
     }
 }
 
@@ -122,4 +143,19 @@ pub fn ascii_line(line: Line<'static>) -> Line<'static> {
         })
         .collect();
     Line::from(spans).style(line.style)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_show_three_significant_figures() {
+        assert_eq!(num3(992.016), "992");
+        assert_eq!(num3(4678.502), "4680");
+        assert_eq!(num3(1.23456), "1.23");
+        assert_eq!(num3(0.0123456), "0.0123");
+        assert_eq!(num3(123456.0), "1.23e5");
+        assert_eq!(num3(0.000123456), "1.23e-4");
+    }
 }
