@@ -107,15 +107,15 @@ fn plus_scales_the_selected_concentration_and_undo_restores_it() {
 #[test]
 fn a_typed_value_with_a_unit_is_applied_and_a_bad_one_changes_nothing() {
     let mut app = demo();
-    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter");
+    keys(&mut app, "Tab Down Down Enter '2.5 mM' Enter");
     let f6p = ci(&app, "f6p");
     assert_eq!(app.state().conc[f6p], 2.5e-3);
     assert_eq!(app.mode, Mode::Normal);
     // A bare number is mM, as in the file.
-    keys(&mut app, "Enter 0.5 Enter");
+    keys(&mut app, "Enter '0.5' Enter");
     assert_eq!(app.state().conc[f6p], 0.5e-3);
     let before = app.state().clone();
-    keys(&mut app, "Enter 2.5 mmol Enter");
+    keys(&mut app, "Enter '2.5 mmol' Enter");
     match &app.mode {
         Mode::Edit { error: Some(e), .. } => assert!(e.contains("unknown unit 'mmol'"), "{e}"),
         m => panic!("expected an inline error, got {m:?}"),
@@ -123,25 +123,25 @@ fn a_typed_value_with_a_unit_is_applied_and_a_bad_one_changes_nothing() {
     assert_eq!(app.state(), &before, "a bad value changes nothing");
     keys(&mut app, "Esc");
     assert_eq!(app.mode, Mode::Normal);
-    keys(&mut app, "Enter -3 uM Enter");
+    keys(&mut app, "Enter '-3 uM' Enter");
     assert!(matches!(app.mode, Mode::Edit { error: Some(_), .. }));
     keys(&mut app, "Esc");
     assert_eq!(app.state(), &before);
     // A bare temperature is refused, as in the file and on the command line.
-    keys(&mut app, "t 37 Enter");
+    keys(&mut app, "t '37' Enter");
     match &app.mode {
         Mode::Edit { error: Some(e), .. } => assert!(e.contains("needs a unit"), "{e}"),
         m => panic!("expected an inline error, got {m:?}"),
     }
     keys(&mut app, "Esc");
     // Conditions: temperature, pH, ionic strength.
-    keys(&mut app, "t 37 C Enter p 7.4 Enter i 150 mM Enter");
+    keys(&mut app, "t '37 C' Enter p '7.4' Enter i '150 mM' Enter");
     let c = app.state().conditions;
     assert!((c.temperature - 310.15).abs() < 1e-9);
     assert_eq!(c.ph, 7.4);
     assert!((c.ionic_strength - 0.15).abs() < 1e-15);
     assert!((app.analysis.rt - R * 310.15).abs() < 1e-6);
-    keys(&mut app, "p 15 Enter");
+    keys(&mut app, "p '15' Enter");
     assert!(matches!(app.mode, Mode::Edit { error: Some(_), .. }));
 }
 
@@ -184,13 +184,13 @@ fn quitting_with_unsaved_edits_asks_first() {
 #[test]
 fn find_walk_and_selection_highlights() {
     let mut app = demo();
-    keys(&mut app, "/ pyk Enter");
+    keys(&mut app, "/ 'pyk' Enter");
     let sel = app.selected_step().unwrap().step;
     assert_eq!(app.pathway().steps[sel].id, "pyk");
-    keys(&mut app, "/ ethanol Enter");
+    keys(&mut app, "/ 'ethanol' Enter");
     assert_eq!(app.focus, Pane::Compounds);
     assert_eq!(app.comp_sel, ci(&app, "etoh"));
-    keys(&mut app, "/ zzz Enter");
+    keys(&mut app, "/ 'zzz' Enter");
     assert!(
         app.status
             .as_ref()
@@ -213,7 +213,7 @@ fn find_walk_and_selection_highlights() {
 #[test]
 fn save_writes_the_file_keeping_comments() {
     let (_dir, path, mut app) = on_disk();
-    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter t 37 C Enter s");
+    keys(&mut app, "Tab Down Down Enter '2.5 mM' Enter t '37 C' Enter s");
     let text = std::fs::read_to_string(&path).unwrap();
     assert!(
         text.contains(r#"f6p   = { name = "fructose 6-phosphate", conc = "2.5 mM", cv = 0.25 }"#),
@@ -233,7 +233,7 @@ fn save_writes_the_file_keeping_comments() {
 #[test]
 fn find_cancelled_puts_the_selection_back_and_help_lists_the_keys() {
     let mut app = demo();
-    keys(&mut app, "Down / ethan");
+    keys(&mut app, "Down / 'ethan'");
     assert_eq!(
         app.comp_sel,
         ci(&app, "etoh"),
@@ -310,7 +310,7 @@ fn saving_over_an_outside_change_asks_first() {
 #[test]
 fn a_change_on_disk_reloads_and_keeps_unsaved_edits() {
     let (_dir, path, mut app) = on_disk();
-    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter");
+    keys(&mut app, "Tab Down Down Enter '2.5 mM' Enter");
     let changed = dgpath::DEMO.replace(r#"conc = "12 mM""#, r#"conc = "20 mM""#);
     std::fs::write(&path, &changed).unwrap();
     assert!(app.poll_disk());
@@ -462,7 +462,7 @@ fn snapshot_overview() {
 #[test]
 fn snapshot_edit_with_a_bad_value_at_80x24() {
     let mut app = demo();
-    keys(&mut app, "Tab Down Down Enter 2.5 mmol Enter");
+    keys(&mut app, "Tab Down Down Enter '2.5 mmol' Enter");
     insta::assert_snapshot!("bad_edit_80x24", screen(&app, 80, 24));
 }
 
@@ -792,14 +792,14 @@ fn split_args(s: &str) -> Vec<String> {
 fn the_detail_says_which_way_an_unsure_class_could_flip() {
     let mut app = demo();
     // pfk in the demo: far, with a 95 % interval that reaches the moderate band.
-    keys(&mut app, "/ pfk Enter");
+    keys(&mut app, "/ 'pfk' Enter");
     let text = screen(&app, 120, 48);
     assert!(
         text.contains("not sure: within 95 % it could be moderate"),
         "{text}"
     );
     // hxk is surely far: no such line.
-    keys(&mut app, "/ hxk Enter");
+    keys(&mut app, "/ 'hxk' Enter");
     let text = screen(&app, 120, 48);
     assert!(!text.contains("not sure:"), "{text}");
 }

@@ -40,7 +40,7 @@ fn figures(n: &str) -> usize {
 #[test]
 fn the_detail_shows_three_figures_and_sides_apart_from_contributions() {
     let mut app = demo();
-    keys(&mut app, "/ pyk Enter");
+    keys(&mut app, "/ 'pyk' Enter");
     let text = screen(&app, 160, 48);
     // No number in the detail pane carries more than three significant figures.
     let detail: Vec<&str> = text.lines().filter(|l| l.contains("K' ")).collect();

@@ -66,7 +66,8 @@ pub enum Command {
         /// Terminal size, WxH.
         #[arg(long, default_value = "120x36")]
         size: String,
-        /// Keys to replay before rendering, e.g. "Tab Down Enter 2.5 mM Enter".
+        /// Keys to replay before rendering, one key per word, text to type in
+        /// single quotes, e.g. "Tab Down Enter '2.5 mM' Enter".
         #[arg(long, default_value = "")]
         keys: String,
         #[arg(long)]

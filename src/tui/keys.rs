@@ -83,58 +83,89 @@ impl App {
     }
 }
 
-/// Parses a key script for screenshots and tests: names such as `Tab`,
-/// `S-Tab`, `Up`, `Down`, `Enter`, `Esc`, `Backspace`, `Space`, `C-r`, `F5`;
-/// any other word is typed character by character, with a space between
-/// consecutive words (so `Enter 2.5 mM Enter` types "2.5 mM").
+/// Key names a script may use (besides `C-x` and `F1`…`F12`).
+pub const KEY_NAMES: [&str; 14] = [
+    "Tab", "S-Tab", "BackTab", "Up", "Down", "Left", "Right", "Enter", "Esc", "Backspace",
+    "BS", "Space", "PageUp", "PageDown",
+];
+
+fn named_key(word: &str) -> Option<KeyCode> {
+    Some(match word {
+        "Tab" => KeyCode::Tab,
+        "S-Tab" | "BackTab" => KeyCode::BackTab,
+        "Up" => KeyCode::Up,
+        "Down" => KeyCode::Down,
+        "Left" => KeyCode::Left,
+        "Right" => KeyCode::Right,
+        "Enter" => KeyCode::Enter,
+        "Esc" => KeyCode::Esc,
+        "Backspace" | "BS" => KeyCode::Backspace,
+        "Space" => KeyCode::Char(' '),
+        "PageUp" => KeyCode::PageUp,
+        "PageDown" => KeyCode::PageDown,
+        w if w.len() >= 2 && w.starts_with('F') && w[1..].chars().all(|c| c.is_ascii_digit()) => {
+            KeyCode::F(w[1..].parse().ok().filter(|n| (1..=12).contains(n))?)
+        }
+        _ => return None,
+    })
+}
+
+/// Splits a script into words; text in single quotes is one word, kept
+/// with its quotes so that it is typed.
+fn words(script: &str) -> Result<Vec<String>, String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut quoted = false;
+    for c in script.chars() {
+        match c {
+            '\'' => {
+                cur.push(c);
+                quoted = !quoted;
+            }
+            c if c.is_whitespace() && !quoted => {
+                if !cur.is_empty() {
+                    out.push(std::mem::take(&mut cur));
+                }
+            }
+            c => cur.push(c),
+        }
+    }
+    if quoted {
+        return Err(format!("unclosed quote in '{script}': text to type goes between two ' marks"));
+    }
+    if !cur.is_empty() {
+        out.push(cur);
+    }
+    Ok(out)
+}
+
+/// Parses a key script for screenshots and tests. Each word is one key: a
+/// name (`Tab`, `S-Tab`, `Up`, `Down`, `Enter`, `Esc`, `Backspace`, `Space`,
+/// `PageUp`, `F5`, …), `C-` and a letter for Ctrl, or a single character.
+/// Text of more than one character is typed only when quoted:
+/// `Enter '2.5 mM' Enter`. Any other word is refused, with the names listed.
 pub fn parse_keys(script: &str) -> Result<Vec<KeyEvent>, String> {
     let mut out = Vec::new();
-    let mut last_was_text = false;
-    for word in script.split_whitespace() {
-        let named = match word {
-            "Tab" => Some(KeyCode::Tab),
-            "S-Tab" | "BackTab" => Some(KeyCode::BackTab),
-            "Up" => Some(KeyCode::Up),
-            "Down" => Some(KeyCode::Down),
-            "Left" => Some(KeyCode::Left),
-            "Right" => Some(KeyCode::Right),
-            "Enter" => Some(KeyCode::Enter),
-            "Esc" => Some(KeyCode::Esc),
-            "Backspace" | "BS" => Some(KeyCode::Backspace),
-            "Space" => Some(KeyCode::Char(' ')),
-            "PageUp" => Some(KeyCode::PageUp),
-            "PageDown" => Some(KeyCode::PageDown),
-            w if w.len() >= 2
-                && w.starts_with('F')
-                && w[1..].chars().all(|c| c.is_ascii_digit()) =>
-            {
-                w[1..].parse().ok().map(KeyCode::F)
-            }
-            _ => None,
-        };
-        if let Some(code) = named {
-            out.push(KeyEvent::new(code, KeyModifiers::NONE));
-            last_was_text = false;
-            continue;
-        }
-        if let Some(rest) = word.strip_prefix("C-") {
+    let key = |code| KeyEvent::new(code, KeyModifiers::NONE);
+    for word in words(script)? {
+        if let Some(code) = named_key(&word) {
+            out.push(key(code));
+        } else if let Some(text) = word.strip_prefix('\'').and_then(|w| w.strip_suffix('\'')) {
+            out.extend(text.chars().map(|c| key(KeyCode::Char(c))));
+        } else if let Some(rest) = word.strip_prefix("C-") {
             let mut cs = rest.chars();
             match (cs.next(), cs.next()) {
-                (Some(c), None) => {
-                    out.push(KeyEvent::new(KeyCode::Char(c), KeyModifiers::CONTROL));
-                    last_was_text = false;
-                    continue;
-                }
+                (Some(c), None) => out.push(KeyEvent::new(KeyCode::Char(c), KeyModifiers::CONTROL)),
                 _ => return Err(format!("'{word}': write C- and one letter, e.g. C-r")),
             }
+        } else if word.chars().count() == 1 && !word.contains('\'') {
+            out.extend(word.chars().map(|c| key(KeyCode::Char(c))));
+        } else {
+            return Err(format!(
+                "unknown key '{word}': use one character, C-x, F1 to F12 or one of {}; put text to type in quotes ('2.5 mM')",
+                KEY_NAMES.join(" ")
+            ));
         }
-        if last_was_text {
-            out.push(KeyEvent::new(KeyCode::Char(' '), KeyModifiers::NONE));
-        }
-        for c in word.chars() {
-            out.push(KeyEvent::new(KeyCode::Char(c), KeyModifiers::NONE));
-        }
-        last_was_text = true;
     }
     Ok(out)
 }
@@ -145,7 +176,7 @@ mod tests {
 
     #[test]
     fn key_script_types_words_with_spaces_between() {
-        let keys = parse_keys("Tab Enter 2.5 mM Enter C-r").unwrap();
+        let keys = parse_keys("Tab Enter '2.5 mM' Enter C-r").unwrap();
         let text: String = keys
             .iter()
             .filter_map(|k| match k.code {
@@ -157,5 +188,29 @@ mod tests {
         assert_eq!(keys[0].code, KeyCode::Tab);
         assert_eq!(keys.last().unwrap().modifiers, KeyModifiers::CONTROL);
         assert!(parse_keys("C-rr").is_err());
+    }
+
+    #[test]
+    fn an_unknown_key_name_is_refused_with_the_valid_ones() {
+        let e = parse_keys("Tab Frobnicate").unwrap_err();
+        assert!(e.contains("unknown key 'Frobnicate'"), "{e}");
+        assert!(e.contains("Tab") && e.contains("PageDown") && e.contains("quotes"), "{e}");
+        assert!(parse_keys("Enter 2.5 Enter").is_err(), "unquoted text is refused");
+        assert!(parse_keys("Enter '2.5").unwrap_err().contains("unclosed quote"));
+        assert!(parse_keys("F13").is_err());
+        // Single characters are keys, quoted text is typed with its spaces.
+        let k = parse_keys("/ 'a b' F5 Space").unwrap();
+        let codes: Vec<KeyCode> = k.iter().map(|k| k.code).collect();
+        assert_eq!(
+            codes,
+            [
+                KeyCode::Char('/'),
+                KeyCode::Char('a'),
+                KeyCode::Char(' '),
+                KeyCode::Char('b'),
+                KeyCode::F(5),
+                KeyCode::Char(' ')
+            ]
+        );
     }
 }
