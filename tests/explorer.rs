@@ -213,7 +213,10 @@ fn find_walk_and_selection_highlights() {
 #[test]
 fn save_writes_the_file_keeping_comments() {
     let (_dir, path, mut app) = on_disk();
-    keys(&mut app, "Tab Down Down Enter '2.5 mM' Enter t '37 C' Enter s");
+    keys(
+        &mut app,
+        "Tab Down Down Enter '2.5 mM' Enter t '37 C' Enter s",
+    );
     let text = std::fs::read_to_string(&path).unwrap();
     assert!(
         text.contains(r#"f6p   = { name = "fructose 6-phosphate", conc = "2.5 mM", cv = 0.25 }"#),

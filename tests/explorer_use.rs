@@ -3,7 +3,7 @@
 //! bundled demo, each driven through `App::handle_key`.
 
 use super::explorer::{ci, demo, keys, on_disk, screen};
-use dgpath::tui::app::{Mode, Pane};
+use dgpath::tui::app::{Mode, Pane, Target};
 
 #[test]
 fn stepped_values_are_rounded_to_three_figures_and_saved_so() {
@@ -89,4 +89,68 @@ fn one_wording_for_passes_spelled_roles_and_distinct_ascii_glyphs() {
     assert!(wide.lines().any(|l| l.contains("|+ g6p")), "{wide}");
     assert_eq!(app.focus, Pane::Steps);
     assert_eq!(app.mode, Mode::Normal);
+}
+
+#[test]
+fn find_selects_in_its_own_pane_and_leaves_the_other_alone() {
+    let mut app = demo();
+    keys(&mut app, "/ 'pyk' Enter");
+    let pyk = app.step_sel;
+    assert_eq!(app.focus, Pane::Steps);
+    // Typing "a" first matches the step ald; the compound match that follows
+    // must put the step cursor back on pyk.
+    keys(&mut app, "/ 'atp' Enter");
+    assert_eq!(app.focus, Pane::Compounds);
+    assert_eq!(app.comp_sel, ci(&app, "atp"));
+    assert_eq!(app.step_sel, pyk, "the step pane keeps pyk");
+    // And a step found from the compound pane keeps the compound selection.
+    keys(&mut app, "/ 'hxk' Enter");
+    assert_eq!((app.focus, app.step_sel), (Pane::Steps, 0));
+    assert_eq!(app.comp_sel, ci(&app, "atp"));
+}
+
+#[test]
+fn enter_on_a_step_edits_its_compounds_and_scaling_says_which() {
+    let mut app = demo();
+    keys(&mut app, "/ 'pyk' Enter");
+    let comp_before = app.comp_sel;
+    keys(&mut app, "Enter");
+    let pep = ci(&app, "pep");
+    assert!(
+        matches!(app.mode, Mode::Edit { target: Target::Conc(c), .. } if c == pep),
+        "{:?}",
+        app.mode
+    );
+    let line = status_line(&app);
+    assert!(
+        line.starts_with(" pep (now") || line.starts_with("pep (now"),
+        "{line}"
+    );
+    assert!(line.contains("Up/Down"), "{line}");
+    // Down goes through the step's compounds (pep, adp, then its products).
+    keys(&mut app, "Down");
+    let adp = ci(&app, "adp");
+    assert!(matches!(app.mode, Mode::Edit { target: Target::Conc(c), .. } if c == adp));
+    keys(&mut app, "Up Up");
+    let last = *app.step_compounds().last().unwrap();
+    assert!(matches!(app.mode, Mode::Edit { target: Target::Conc(c), .. } if c == last));
+    keys(&mut app, "Up Up '2' Enter");
+    assert_eq!(app.state().conc[adp], 2e-3);
+    assert_eq!(
+        app.comp_sel, comp_before,
+        "the concentration pane's selection is left alone"
+    );
+    // + with the step pane focused says which compound it changed.
+    keys(&mut app, "+");
+    let (m, _) = app.status.clone().unwrap();
+    let id = &app.pathway().compounds[comp_before].id;
+    assert!(
+        m.starts_with(&format!("{id} = ")) && m.contains("concentration pane"),
+        "{m}"
+    );
+}
+
+fn status_line(app: &dgpath::tui::app::App) -> String {
+    let text = screen(app, 120, 36);
+    text.lines().rev().nth(1).unwrap().to_string()
 }

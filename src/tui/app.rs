@@ -137,6 +137,8 @@ pub enum Message {
     Move(isize),
     /// Start typing a value.
     StartEdit(Target),
+    /// Up / Down in an edit line opened from a step: the step's previous / next compound.
+    Cycle(isize),
     /// A character typed into the edit or find line.
     Type(char),
     /// Backspace in the edit or find line.
@@ -219,6 +221,8 @@ pub struct App {
     pub draws: usize,
     /// The flux control range being computed between keys.
     pub(super) range_job: Option<RangeJob>,
+    /// The compounds an edit line opened from a step cycles through (Up/Down).
+    pub edit_choices: Vec<usize>,
 }
 
 /// Saturation draws computed in one go between keys (about 1.5 ms on the demo).
@@ -267,6 +271,7 @@ impl App {
             find_from: (Pane::Steps, 0, comp_sel),
             draws: mca::DEFAULT_DRAWS,
             range_job: None,
+            edit_choices: Vec::new(),
         })
     }
 
@@ -399,6 +404,40 @@ impl App {
         self.step_row(self.step_sel)
     }
 
+    /// The selected step's compounds with a concentration, substrates first
+    /// (as the step runs).
+    pub fn step_compounds(&self) -> Vec<usize> {
+        let Some(s) = self.selected_step() else {
+            return Vec::new();
+        };
+        let solvent = |c: usize| self.pathway().compounds[c].is_solvent();
+        let side = |sub: bool| {
+            s.contributions
+                .iter()
+                .filter(move |c| (c.nu < 0.0) == sub && !solvent(c.compound))
+                .map(|c| c.compound)
+        };
+        side(true).chain(side(false)).collect()
+    }
+
+    /// Moves an edit line opened from a step to the step's next compound.
+    fn cycle_edit(&mut self, by: isize) {
+        let n = self.edit_choices.len();
+        if let Mode::Edit {
+            target: target @ Target::Conc(_),
+            error,
+            ..
+        } = &mut self.mode
+            && n > 0
+        {
+            let Target::Conc(at) = *target else { return };
+            let i = self.edit_choices.iter().position(|&c| c == at).unwrap_or(0);
+            let next = (i as isize + by).rem_euclid(n as isize) as usize;
+            *target = Target::Conc(self.edit_choices[next]);
+            *error = None;
+        }
+    }
+
     /// True when step row `k` uses compound `c`.
     pub fn step_uses(&self, k: usize, c: usize) -> bool {
         self.step_row(k)
@@ -461,12 +500,17 @@ impl App {
                     return;
                 }
                 self.status = None;
+                self.edit_choices = match target {
+                    Target::Conc(_) if self.focus != Pane::Compounds => self.step_compounds(),
+                    _ => Vec::new(),
+                };
                 self.mode = Mode::Edit {
                     target,
                     buffer: String::new(),
                     error: None,
                 };
             }
+            Message::Cycle(by) => self.cycle_edit(by),
             Message::Type(c) => match &mut self.mode {
                 Mode::Edit { buffer, error, .. } => {
                     buffer.push(c);
@@ -526,6 +570,7 @@ impl App {
             Message::StartFind => {
                 self.status = None;
                 self.find_from = (self.focus, self.step_sel, self.comp_sel);
+                self.edit_choices.clear();
                 self.mode = Mode::Find {
                     buffer: String::new(),
                 }

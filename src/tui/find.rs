@@ -40,13 +40,18 @@ impl App {
                 .or_else(|| comp_hit(false).map(|c| (false, c))),
         };
         match hit {
+            // The match is selected in its own pane; the other pane keeps the
+            // selection it had before the find (a find follows the typing, so
+            // an earlier partial match is undone).
             Some((true, k)) => {
                 self.step_sel = k;
+                self.comp_sel = self.find_from.2;
                 self.focus = Pane::Steps;
                 true
             }
             Some((false, c)) => {
                 self.comp_sel = c;
+                self.step_sel = self.find_from.1;
                 self.focus = Pane::Compounds;
                 true
             }

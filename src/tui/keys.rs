@@ -1,7 +1,7 @@
 //! Keys to messages: what each key press means in the current mode, and the
 //! key scripts used by screenshots and tests.
 
-use super::app::{App, FINE_STEP, Message, Mode, Target};
+use super::app::{App, FINE_STEP, Message, Mode, Pane, Target};
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
 
 impl App {
@@ -17,6 +17,8 @@ impl App {
         match &self.mode {
             Mode::Edit { .. } | Mode::Find { .. } => match key.code {
                 KeyCode::Enter => Some(Message::Apply),
+                KeyCode::Up if !self.edit_choices.is_empty() => Some(Message::Cycle(-1)),
+                KeyCode::Down if !self.edit_choices.is_empty() => Some(Message::Cycle(1)),
                 KeyCode::Esc => Some(Message::Cancel),
                 KeyCode::Backspace => Some(Message::Erase),
                 KeyCode::Char(c) if !ctrl => Some(Message::Type(c)),
@@ -48,7 +50,10 @@ impl App {
             KeyCode::Down | KeyCode::Char('j') => Message::Move(1),
             KeyCode::PageUp => Message::Move(-10),
             KeyCode::PageDown => Message::Move(10),
-            KeyCode::Enter => Message::StartEdit(Target::Conc(self.comp_sel)),
+            KeyCode::Enter => match (self.focus, self.step_compounds().first()) {
+                (Pane::Compounds, _) | (_, None) => Message::StartEdit(Target::Conc(self.comp_sel)),
+                (_, Some(&c)) => Message::StartEdit(Target::Conc(c)),
+            },
             KeyCode::Char('+') | KeyCode::Char('=') => Message::Scale(FINE_STEP),
             KeyCode::Char('-') => Message::Scale(1.0 / FINE_STEP),
             KeyCode::Char('>') => Message::Scale(10.0),
@@ -85,8 +90,20 @@ impl App {
 
 /// Key names a script may use (besides `C-x` and `F1`…`F12`).
 pub const KEY_NAMES: [&str; 14] = [
-    "Tab", "S-Tab", "BackTab", "Up", "Down", "Left", "Right", "Enter", "Esc", "Backspace",
-    "BS", "Space", "PageUp", "PageDown",
+    "Tab",
+    "S-Tab",
+    "BackTab",
+    "Up",
+    "Down",
+    "Left",
+    "Right",
+    "Enter",
+    "Esc",
+    "Backspace",
+    "BS",
+    "Space",
+    "PageUp",
+    "PageDown",
 ];
 
 fn named_key(word: &str) -> Option<KeyCode> {
@@ -131,7 +148,9 @@ fn words(script: &str) -> Result<Vec<String>, String> {
         }
     }
     if quoted {
-        return Err(format!("unclosed quote in '{script}': text to type goes between two ' marks"));
+        return Err(format!(
+            "unclosed quote in '{script}': text to type goes between two ' marks"
+        ));
     }
     if !cur.is_empty() {
         out.push(cur);
@@ -194,9 +213,19 @@ mod tests {
     fn an_unknown_key_name_is_refused_with_the_valid_ones() {
         let e = parse_keys("Tab Frobnicate").unwrap_err();
         assert!(e.contains("unknown key 'Frobnicate'"), "{e}");
-        assert!(e.contains("Tab") && e.contains("PageDown") && e.contains("quotes"), "{e}");
-        assert!(parse_keys("Enter 2.5 Enter").is_err(), "unquoted text is refused");
-        assert!(parse_keys("Enter '2.5").unwrap_err().contains("unclosed quote"));
+        assert!(
+            e.contains("Tab") && e.contains("PageDown") && e.contains("quotes"),
+            "{e}"
+        );
+        assert!(
+            parse_keys("Enter 2.5 Enter").is_err(),
+            "unquoted text is refused"
+        );
+        assert!(
+            parse_keys("Enter '2.5")
+                .unwrap_err()
+                .contains("unclosed quote")
+        );
         assert!(parse_keys("F13").is_err());
         // Single characters are keys, quoted text is typed with its spaces.
         let k = parse_keys("/ 'a b' F5 Space").unwrap();

@@ -46,6 +46,10 @@ pub fn message_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
                     let x = if ascii { "  x " } else { "  ✗ " };
                     spans.push(Span::styled(format!("{x}{e}"), t.warn()));
                 }
+                None if app.edit_choices.len() > 1 => spans.push(Span::styled(
+                    "  Up/Down: the step's other compounds · Enter applies · Esc cancels",
+                    t.dim(),
+                )),
                 None => spans.push(Span::styled("  Enter applies · Esc cancels", t.dim())),
             }
             Line::from(spans)
