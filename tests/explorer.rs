@@ -653,7 +653,7 @@ fn saving_after_a_sample_says_which_sample() {
     )
     .unwrap();
     let mut app = app.with_samples(samples.clone()).unwrap();
-    keys(&mut app, "] ] ] s");
+    keys(&mut app, "] ] ] S");
     let msg = &app.status.as_ref().unwrap().0;
     assert!(msg.contains("sample h09"), "{msg}");
     let back = model::load_file(&path).unwrap();

@@ -154,3 +154,91 @@ fn status_line(app: &dgpath::tui::app::App) -> String {
     let text = screen(app, 120, 36);
     text.lines().rev().nth(1).unwrap().to_string()
 }
+
+#[test]
+fn a_reload_keeps_the_undo_history_where_the_compounds_remain() {
+    let (_dir, path, mut app) = on_disk();
+    let (glc, f6p, fbp) = (ci(&app, "glc"), ci(&app, "f6p"), ci(&app, "fbp"));
+    let fbp0 = app.state().conc[fbp];
+    keys(
+        &mut app,
+        "Tab Down Down Enter '2.5 mM' Enter Down Enter '7 mM' Enter",
+    );
+    assert_eq!(app.state().conc[fbp], 7e-3);
+    let changed = dgpath::DEMO.replace(r#"conc = "12 mM""#, r#"conc = "20 mM""#);
+    std::fs::write(&path, &changed).unwrap();
+    assert!(app.poll_disk());
+    assert!(
+        app.status
+            .as_ref()
+            .unwrap()
+            .0
+            .contains("kept 2 unsaved edits")
+    );
+    keys(&mut app, "u");
+    assert_eq!(app.status.as_ref().unwrap().0, "undone");
+    assert_eq!(app.state().conc[fbp], fbp0, "the fbp edit is undone");
+    assert_eq!(app.state().conc[f6p], 2.5e-3, "the f6p edit stays");
+    assert_eq!(
+        app.state().conc[glc],
+        20e-3,
+        "the file's new value throughout"
+    );
+    keys(&mut app, "u");
+    assert!(!app.dirty(), "back at the file as it is now");
+    keys(&mut app, "u");
+    assert_eq!(app.status.as_ref().unwrap().0, "nothing to undo");
+    keys(&mut app, "C-r C-r");
+    assert_eq!(app.state().conc[fbp], 7e-3);
+}
+
+#[test]
+fn a_sample_is_a_view_and_copying_it_into_the_file_takes_s_capital() {
+    let (_dir, path, app) = on_disk();
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let samples = dgpath::model::samples::read_str(
+        &std::fs::read_to_string(root.join("pathways/fermenter-samples.csv")).unwrap(),
+        "fermenter-samples.csv",
+        app.pathway(),
+        &app.state().conc,
+    )
+    .unwrap();
+    let mut app = app.with_samples(samples.clone()).unwrap();
+    let glc = ci(&app, "glc");
+    assert_ne!(
+        samples[0].conc[glc],
+        app.pathway().compounds[glc].conc.unwrap()
+    );
+    assert!(!app.dirty(), "opening on a sample is not an edit");
+    assert!(!screen(&app, 120, 36).contains("unsaved"));
+    keys(&mut app, "s");
+    assert!(
+        app.status.as_ref().unwrap().0.contains("nothing to save"),
+        "{:?}",
+        app.status
+    );
+    assert_eq!(
+        std::fs::read_to_string(&path).unwrap(),
+        dgpath::DEMO,
+        "s writes no sample"
+    );
+    keys(&mut app, "q");
+    assert!(app.quit, "nothing unsaved: q quits at once");
+    app.quit = false;
+    // An edit on top of a sample is saved alone.
+    keys(&mut app, "t '37 C' Enter");
+    assert!(app.dirty());
+    keys(&mut app, "s");
+    let back = dgpath::model::load_file(&path).unwrap();
+    assert!((back.conditions.temperature - 310.15).abs() < 1e-9);
+    assert_eq!(
+        back.compounds[glc].conc,
+        Some(12e-3),
+        "the demo file's glc, not the sample's"
+    );
+    // S copies the sample's values.
+    keys(&mut app, "S");
+    let back = dgpath::model::load_file(&path).unwrap();
+    assert_eq!(back.compounds[glc].conc, Some(samples[0].conc[glc]));
+    assert!(app.status.as_ref().unwrap().0.contains("sample h00"));
+}

@@ -98,6 +98,28 @@ impl Scenario {
             None => false,
         }
     }
+    /// Maps the current state and every state of the history (as after a
+    /// reload of the file); a history step that no longer changes anything
+    /// is dropped.
+    pub fn remap(&mut self, f: impl Fn(&State) -> State) {
+        self.current = f(&self.current);
+        for list in [&mut self.undo, &mut self.redo] {
+            // Both lists end next to the current state.
+            let mut kept: Vec<State> = Vec::with_capacity(list.len());
+            for s in list.iter().rev() {
+                let s = f(s);
+                if kept.last().unwrap_or(&self.current) != &s {
+                    kept.push(s);
+                }
+            }
+            kept.reverse();
+            *list = kept;
+        }
+    }
+    /// Number of steps that can be undone.
+    pub fn undo_len(&self) -> usize {
+        self.undo.len()
+    }
     /// Re-applies an undone edit; false when there is none.
     pub fn redo(&mut self) -> bool {
         match self.redo.pop() {
@@ -140,5 +162,18 @@ mod tests {
         assert_eq!(s.state().conc[0], 1.0);
         s.edit(|x| x.conc[0] = 5.0);
         assert!(!s.redo(), "a new edit clears redo");
+    }
+
+    #[test]
+    fn remap_maps_the_history_and_drops_steps_that_no_longer_change_anything() {
+        let mut s = Scenario::new(st(1.0));
+        s.edit(|x| x.conc[0] = 2.0);
+        s.edit(|x| x.conc[0] = 3.0);
+        // Everything at or above 2 becomes 2: the step from 2 to 3 is gone.
+        s.remap(|x| st(x.conc[0].min(2.0)));
+        assert_eq!(s.state().conc[0], 2.0);
+        assert_eq!(s.undo_len(), 1);
+        assert!(s.undo());
+        assert_eq!(s.state().conc[0], 1.0);
     }
 }

@@ -163,8 +163,10 @@ pub enum Message {
     Undo,
     /// Ctrl-r.
     Redo,
-    /// `s`.
+    /// `s`: write the person's edits into the file.
     Save,
+    /// `S`: write the shown values, a sample's included, into the file.
+    SaveShown,
     /// Answer to the overwrite question.
     Overwrite(bool),
     /// The file on disk changed: its new text (or why it could not be read).
@@ -223,6 +225,8 @@ pub struct App {
     pub(super) range_job: Option<RangeJob>,
     /// The compounds an edit line opened from a step cycles through (Up/Down).
     pub edit_choices: Vec<usize>,
+    /// The save waiting for the overwrite answer writes the sample's values too.
+    pub(super) save_shown: bool,
 }
 
 /// Saturation draws computed in one go between keys (about 1.5 ms on the demo).
@@ -272,6 +276,7 @@ impl App {
             draws: mca::DEFAULT_DRAWS,
             range_job: None,
             edit_choices: Vec::new(),
+            save_shown: false,
         })
     }
 
@@ -373,15 +378,32 @@ impl App {
         self.scenario.state()
     }
 
-    /// True when the state differs from the file.
+    /// True when the state holds edits the file lacks (a sample's values
+    /// are a view, not an edit).
     pub fn dirty(&self) -> bool {
-        save::is_dirty(self.pathway(), self.state())
+        save::is_dirty(self.pathway(), &self.edits_only())
     }
 
-    /// True when compound `i` has an unsaved value.
+    /// True when compound `i` has an unsaved value of the person's own (not
+    /// the shown sample's).
     pub fn edited(&self, i: usize) -> bool {
         let c = &self.pathway().compounds[i];
-        !c.is_solvent() && c.conc != Some(self.state().conc[i])
+        !c.is_solvent() && c.conc != Some(self.edits_only().conc[i])
+    }
+
+    /// The state with every concentration that is the shown sample's put
+    /// back to the file's value: what `s` writes.
+    pub fn edits_only(&self) -> State {
+        let mut s = self.state().clone();
+        if let Some(sample) = self.samples.get(self.sample_at) {
+            let file = self.pathway().file_concentrations();
+            for (i, v) in s.conc.iter_mut().enumerate() {
+                if sample.conc.get(i) == Some(v) {
+                    *v = file[i];
+                }
+            }
+        }
+        s
     }
 
     /// Number of rows in the step list (route steps, then side steps).
@@ -607,11 +629,12 @@ impl App {
                     self.say("nothing to redo", Tone::Info);
                 }
             }
-            Message::Save => self.save(false),
+            Message::Save => self.save(false, false),
+            Message::SaveShown => self.save(false, true),
             Message::Overwrite(yes) => {
                 self.mode = Mode::Normal;
                 if yes {
-                    self.save(true);
+                    self.save(true, self.save_shown);
                 } else {
                     self.say("not saved; the file on disk is unchanged", Tone::Info);
                 }

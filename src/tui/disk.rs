@@ -5,11 +5,11 @@ use super::app::{App, Message, Mode, Tone};
 use super::optimum::LiveMdf;
 use crate::analysis::{self, Direction};
 use crate::model::{self};
-use crate::scenario::Scenario;
 use crate::scenario::save::{self, DiskStamp};
 
 impl App {
-    pub(super) fn save(&mut self, force: bool) {
+    /// Writes the edits (with `shown`, the shown sample's values too) into the file.
+    pub(super) fn save(&mut self, force: bool, shown: bool) {
         let Some(path) = self.source.path.clone() else {
             self.say(
                 "the bundled demo has no file to save into: run `dgpath new FILE`, then `dgpath explore FILE`",
@@ -24,6 +24,7 @@ impl App {
             };
             if changed {
                 self.mode = Mode::ConfirmOverwrite;
+                self.save_shown = shown;
                 self.say(
                     "the file changed on disk since it was read: y overwrites it, any other key cancels",
                     Tone::Warn,
@@ -31,7 +32,21 @@ impl App {
                 return;
             }
         }
-        let state = self.state().clone();
+        let state = if shown {
+            self.state().clone()
+        } else {
+            self.edits_only()
+        };
+        if !shown && !save::is_dirty(self.pathway(), &state) {
+            let m = match self.sample_name() {
+                Some(name) => format!(
+                    "nothing to save: the values shown are sample {name}'s (a view); S writes them into the file"
+                ),
+                None => "nothing to save: the file already says this".to_string(),
+            };
+            self.say(m, Tone::Info);
+            return;
+        }
         match save::save(&path, &self.source.text, self.pathway(), &state) {
             Err(e) => self.say(e.to_string(), Tone::Warn),
             Ok(text) => {
@@ -44,10 +59,12 @@ impl App {
                         self.bad_stamp = None;
                         self.recompute();
                         let what = match self.sample_name() {
-                            Some(name) if self.sample_edited => {
-                                format!(" (sample {name}'s concentrations with later edits)")
+                            Some(name) if shown => {
+                                format!(" (with the concentrations of sample {name})")
                             }
-                            Some(name) => format!(" (the concentrations of sample {name})"),
+                            Some(name) => {
+                                format!(" (your edits; sample {name}'s values stay a view)")
+                            }
                             None => String::new(),
                         };
                         self.say(format!("saved {}{what}", self.source.name), Tone::Info);
@@ -161,7 +178,17 @@ impl App {
                         self.prep = prep;
                         self.mdf = LiveMdf::solve(&self.prep, &next, a.steps.len());
                         self.analysis = a;
-                        self.scenario = Scenario::new(next);
+                        // The history is kept, each state carried over as the
+                        // current one is (edits kept where the compounds remain).
+                        let (old_prep, new_p) = (&old_p, &self.prep.pathway);
+                        let can_reverse = self.prep.reverse.is_ok();
+                        self.scenario.remap(|s| {
+                            let mut m = save::carry_edits(old_prep, s, new_p);
+                            if !can_reverse {
+                                m.direction = Direction::Forward;
+                            }
+                            m
+                        });
                         self.track_sample();
                         self.source.text = text;
                         self.stamp = stamp_now;

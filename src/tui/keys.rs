@@ -69,6 +69,7 @@ impl App {
             KeyCode::Char(']') => Message::Sample(1),
             KeyCode::Char('u') => Message::Undo,
             KeyCode::Char('s') => Message::Save,
+            KeyCode::Char('S') => Message::SaveShown,
             KeyCode::Esc => Message::Cancel,
             #[cfg(feature = "test-panic")]
             KeyCode::F(12) => Message::Panic,

@@ -19,7 +19,11 @@ pub const KEYS: &[(&str, &str)] = &[
     ("Up/Down, k/j", "move in the pane"),
     (
         "Enter",
-        "edit the selected concentration (with or without a unit)",
+        "edit the selected compound (on a step: its first substrate)",
+    ),
+    (
+        "  Up/Down",
+        "on a step's edit line: the step's other compounds",
     ),
     ("  Enter / Esc", "apply / cancel the typed value"),
     ("+ / -", "selected concentration × / ÷ 10^0.1"),
@@ -34,7 +38,8 @@ pub const KEYS: &[(&str, &str)] = &[
     ),
     ("[ / ]", "previous / next sample (with --samples TABLE.csv)"),
     ("u / Ctrl-r", "undo / redo"),
-    ("s", "save concentrations and conditions into the file"),
+    ("s", "save your edits into the file (a sample is a view)"),
+    ("S", "save the values shown, the sample's included"),
     ("Ctrl-c", "quit at once"),
 ];
 
