@@ -275,15 +275,6 @@ fn find_cancelled_puts_the_selection_back_and_help_lists_the_keys() {
 }
 
 #[test]
-fn the_bundled_demo_cannot_be_saved_and_says_what_to_do() {
-    let mut app = demo();
-    keys(&mut app, "Tab + s");
-    let (m, _) = app.status.clone().unwrap();
-    assert!(m.contains("dgpath new"), "{m}");
-    assert!(app.dirty());
-}
-
-#[test]
 fn saving_over_an_outside_change_asks_first() {
     let (_dir, path, mut app) = on_disk();
     keys(&mut app, "Tab +");

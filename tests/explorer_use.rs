@@ -242,3 +242,52 @@ fn a_sample_is_a_view_and_copying_it_into_the_file_takes_s_capital() {
     assert_eq!(back.compounds[glc].conc, Some(samples[0].conc[glc]));
     assert!(app.status.as_ref().unwrap().0.contains("sample h00"));
 }
+
+#[test]
+fn the_built_in_demo_says_so_and_s_writes_it_to_a_named_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut app = demo();
+    let status = screen(&app, 120, 36).lines().last().unwrap().to_string();
+    assert!(status.contains("built-in demo"), "{status}");
+    assert!(!status.contains("fermenter.toml"), "{status}");
+    keys(&mut app, "Tab +");
+    let f6p_value = app.state().conc[app.comp_sel];
+    keys(&mut app, "s");
+    assert!(matches!(
+        app.mode,
+        Mode::Edit {
+            target: Target::FileName,
+            ..
+        }
+    ));
+    assert!(screen(&app, 120, 36).contains("write the built-in demo to file:"));
+    // An existing file is not replaced without a yes.
+    let taken = dir.path().join("taken.toml");
+    std::fs::write(&taken, "keep me").unwrap();
+    keys(&mut app, &format!("'{}' Enter", taken.display()));
+    assert_eq!(app.mode, Mode::ConfirmOverwrite);
+    keys(&mut app, "n");
+    assert_eq!(std::fs::read_to_string(&taken).unwrap(), "keep me");
+    assert!(app.dirty() && app.source.path.is_none());
+    let new = dir.path().join("mine.toml");
+    keys(&mut app, &format!("s '{}' Enter", new.display()));
+    let back = dgpath::model::load_file(&new).unwrap();
+    assert_eq!(back.compounds[app.comp_sel].conc, Some(f6p_value));
+    assert!(
+        std::fs::read_to_string(&new)
+            .unwrap()
+            .contains("# INVENTED DEMO DATA")
+    );
+    assert_eq!(app.source.path.as_deref(), Some(new.as_path()));
+    assert!(!app.dirty());
+    assert!(
+        status_line(&app).contains("wrote the demo to"),
+        "{}",
+        status_line(&app)
+    );
+    // And y replaces an existing file.
+    keys(&mut app, "Tab +");
+    let mut app2 = demo();
+    keys(&mut app2, &format!("s '{}' Enter y", taken.display()));
+    assert!(dgpath::model::load_file(&taken).is_ok());
+}

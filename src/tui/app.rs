@@ -84,6 +84,8 @@ pub enum Target {
     Ph,
     /// Ionic strength.
     IonicStrength,
+    /// The file to write the built-in demo to.
+    FileName,
 }
 
 /// What the keyboard is doing right now.
@@ -227,6 +229,8 @@ pub struct App {
     pub edit_choices: Vec<usize>,
     /// The save waiting for the overwrite answer writes the sample's values too.
     pub(super) save_shown: bool,
+    /// The new file the built-in demo is to be written to, waiting for the overwrite answer.
+    pub(super) save_as: Option<PathBuf>,
 }
 
 /// Saturation draws computed in one go between keys (about 1.5 ms on the demo).
@@ -277,6 +281,7 @@ impl App {
             range_job: None,
             edit_choices: Vec::new(),
             save_shown: false,
+            save_as: None,
         })
     }
 
@@ -633,7 +638,13 @@ impl App {
             Message::SaveShown => self.save(false, true),
             Message::Overwrite(yes) => {
                 self.mode = Mode::Normal;
-                if yes {
+                if let Some(path) = self.save_as.take() {
+                    if yes {
+                        self.write_demo_to(path, true);
+                    } else {
+                        self.say("not saved; that file is unchanged", Tone::Info);
+                    }
+                } else if yes {
                     self.save(true, self.save_shown);
                 } else {
                     self.say("not saved; the file on disk is unchanged", Tone::Info);

@@ -1,20 +1,25 @@
 //! The file on disk: saving concentrations and conditions into it, noticing
 //! outside changes and reloading.
 
-use super::app::{App, Message, Mode, Tone};
+use super::app::{App, Message, Mode, Target, Tone};
 use super::optimum::LiveMdf;
 use crate::analysis::{self, Direction};
 use crate::model::{self};
 use crate::scenario::save::{self, DiskStamp};
+use std::path::PathBuf;
 
 impl App {
     /// Writes the edits (with `shown`, the shown sample's values too) into the file.
     pub(super) fn save(&mut self, force: bool, shown: bool) {
         let Some(path) = self.source.path.clone() else {
-            self.say(
-                "the bundled demo has no file to save into: run `dgpath new FILE`, then `dgpath explore FILE`",
-                Tone::Warn,
-            );
+            // The built-in demo has no file: ask for one to write it to.
+            self.save_shown = shown;
+            self.mode = Mode::Edit {
+                target: Target::FileName,
+                buffer: String::new(),
+                error: None,
+            };
+            self.say("the built-in demo has no file of its own", Tone::Info);
             return;
         };
         if !force && let Some(st) = &self.stamp {
@@ -75,6 +80,50 @@ impl App {
                     ),
                 }
             }
+        }
+    }
+
+    /// Writes the built-in demo with the shown values to a new file and
+    /// goes on with that file; an existing file is replaced only when
+    /// `confirmed`.
+    pub(super) fn write_demo_to(&mut self, path: PathBuf, confirmed: bool) {
+        if !confirmed && path.exists() {
+            self.mode = Mode::ConfirmOverwrite;
+            self.say(
+                format!(
+                    "{} exists: y replaces it, any other key cancels",
+                    path.display()
+                ),
+                Tone::Warn,
+            );
+            self.save_as = Some(path);
+            return;
+        }
+        let state = self.state().clone();
+        let text = match save::save(&path, &self.source.text, self.pathway(), &state) {
+            Ok(t) => t,
+            Err(e) => {
+                self.say(format!("not saved: {}: {e}", path.display()), Tone::Warn);
+                return;
+            }
+        };
+        let name = path.display().to_string();
+        match model::load_str(&text, &name).and_then(analysis::prepare) {
+            Ok(prep) => {
+                self.prep = prep;
+                self.source.text = text;
+                self.source.name = name;
+                self.stamp = DiskStamp::read(&path).ok();
+                self.source.path = Some(path);
+                self.bad_stamp = None;
+                self.recompute();
+                let m = format!("wrote the demo to {}; s now saves there", self.source.name);
+                self.say(m, Tone::Info);
+            }
+            Err(e) => self.say(
+                format!("written, but it does not read back: {e}"),
+                Tone::Warn,
+            ),
         }
     }
 

@@ -25,6 +25,7 @@ fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> 
         Target::Temperature => check::quantity(t, Kind::Temperature),
         Target::Ph => check::ph_text(t),
         Target::IonicStrength => check::quantity(t, Kind::IonicStrength),
+        Target::FileName => Err("a file name is not a number".into()),
     }
 }
 
@@ -35,6 +36,22 @@ impl App {
                 if self.find(&buffer, true) {
                     self.status = None;
                 }
+            }
+            Mode::Edit {
+                target: Target::FileName,
+                buffer,
+                ..
+            } => {
+                let name = buffer.trim();
+                if name.is_empty() {
+                    self.mode = Mode::Edit {
+                        target: Target::FileName,
+                        error: Some("type a file name, or Esc to cancel".into()),
+                        buffer,
+                    };
+                    return;
+                }
+                self.write_demo_to(std::path::PathBuf::from(name), false);
             }
             Mode::Edit { target, buffer, .. } => {
                 match parse_target(self.pathway(), target, &buffer) {
@@ -57,6 +74,7 @@ impl App {
                                 self.say(format!("pH {v}"), Tone::Info);
                             }
                         }
+                        Target::FileName => {}
                         Target::IonicStrength => {
                             if self.commit(|s| s.conditions.ionic_strength = v) {
                                 self.say(format!("ionic strength {v} M"), Tone::Info);

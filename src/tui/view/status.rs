@@ -35,9 +35,15 @@ pub fn message_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
                     "ionic strength".into(),
                     format!("{} M", app.state().conditions.ionic_strength),
                 ),
+                Target::FileName => (String::new(), String::new()),
+            };
+            let prompt = if *target == Target::FileName {
+                "write the built-in demo to file: ".to_string()
+            } else {
+                format!("{what} (now {now}) = ")
             };
             let mut spans = vec![
-                Span::styled(format!("{what} (now {now}) = "), t.bold()),
+                Span::styled(prompt, t.bold()),
                 Span::raw(buffer.clone()),
                 Span::styled(cursor, t.bold()),
             ];
@@ -111,7 +117,10 @@ pub fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         ));
         spans.push(Span::raw(sep));
     }
-    spans.push(Span::raw(app.source.name.clone()));
+    spans.push(match app.source.path {
+        Some(_) => Span::raw(app.source.name.clone()),
+        None => Span::styled("built-in demo (no file; s writes one)", t.dim()),
+    });
     if app.dirty() {
         spans.push(Span::raw(sep));
         spans.push(Span::styled(
