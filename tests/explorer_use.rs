@@ -83,8 +83,7 @@ fn one_wording_for_passes_spelled_roles_and_distinct_ascii_glyphs() {
     // In ASCII, a cut name ends in '$' (not the near class's '~') and the
     // compounds used by the selected step carry '+' (not the control point's '*').
     app.opts.ascii = true;
-    let narrow = screen(&app, 60, 24);
-    assert!(narrow.contains('$'), "{narrow}");
+    assert_eq!(dgpath::tui::view::fit("glycerol", 5, true), "glyc$");
     let wide = screen(&app, 120, 36);
     assert!(wide.lines().any(|l| l.contains("|+ g6p")), "{wide}");
     assert_eq!(app.focus, Pane::Steps);
@@ -290,4 +289,63 @@ fn the_built_in_demo_says_so_and_s_writes_it_to_a_named_file() {
     let mut app2 = demo();
     keys(&mut app2, &format!("s '{}' Enter y", taken.display()));
     assert!(dgpath::model::load_file(&taken).is_ok());
+}
+
+#[test]
+fn the_layout_fits_small_and_uses_wide_terminals() {
+    let mut app = demo();
+    // Below the minimum, one message instead of a broken screen.
+    let tiny = screen(&app, 60, 20);
+    assert!(tiny.contains("terminal too small (needs 80×24"), "{tiny}");
+    assert!(!tiny.contains("Steps ("), "{tiny}");
+    // At 80×24 the step list scrolls and says how many rows are hidden.
+    let small = screen(&app, 80, 24);
+    assert!(small.contains("↓ ") && small.contains(" more"), "{small}");
+    keys(&mut app, "/ 'adh' Enter");
+    assert!(
+        screen(&app, 80, 24).contains("↑ "),
+        "scrolled down: rows above"
+    );
+    // At 120×36 no class word is cut and the status line ends with the hint.
+    let mid = screen(&app, 120, 36);
+    assert!(!mid.contains("moderat…") && !mid.contains("near…"), "{mid}");
+    assert!(mid.lines().last().unwrap().trim_end().ends_with("? keys"));
+    // At 220 columns the step list shows sd, Q and K' next to a capped enzyme column.
+    let wide = screen(&app, 220, 40);
+    let header = wide.lines().nth(1).unwrap();
+    for col in [" sd ", " Q ", " K' ", "dG'°", "per pass", "verdict"] {
+        assert!(header.contains(col), "{col} missing: {header}");
+    }
+    let hxk = wide.lines().find(|l| l.contains("sugar kinase")).unwrap();
+    let gap = hxk.split("sugar kinase").nth(1).unwrap();
+    assert!(gap.len() - gap.trim_start().len() < 50, "{hxk}");
+    assert!(hxk.contains("992"), "K' of hxk to three figures: {hxk}");
+}
+
+#[test]
+fn the_ladder_header_says_cumulative_and_the_help_lists_every_glyph() {
+    let mut app = demo();
+    let text = screen(&app, 160, 48);
+    assert!(
+        text.contains("cumulative dG' kJ/mol: 12 left, -166 right"),
+        "{text}"
+    );
+    let small = screen(&app, 80, 24);
+    assert!(small.contains("cumul. dG': 12 left"), "{small}");
+    // The marker column has a header.
+    let header = text.lines().nth(1).unwrap();
+    assert!(header.contains("step  ■"), "{header}");
+    keys(&mut app, "?");
+    let help = screen(&app, 120, 40);
+    for g in ["━", "┃", "╍", "█", "┌", "└", "◆", "◇", "·", "■", "◀"] {
+        assert!(help.contains(&format!("{g} ")), "legend lacks {g}:\n{help}");
+    }
+    assert!(help.contains("rung (cumulative dG')"), "{help}");
+    app.opts.ascii = true;
+    let help = screen(&app, 120, 40);
+    assert!(help.is_ascii());
+    assert!(
+        help.contains("$ cut") && help.contains("* control point"),
+        "{help}"
+    );
 }

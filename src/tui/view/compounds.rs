@@ -106,4 +106,5 @@ pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         lines.push(Line::from(spans));
     }
     Paragraph::new(lines).render(inner, buf);
+    super::steps::more_mark(area, buf, first, h, n, ascii);
 }

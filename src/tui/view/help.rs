@@ -43,10 +43,26 @@ pub const KEYS: &[(&str, &str)] = &[
     ("Ctrl-c", "quit at once"),
 ];
 
+/// Every glyph of the screen, by pane.
+pub const LEGEND: [&str; 4] = [
+    " steps: ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ MDF bottleneck",
+    " verdict: ◆ control point ◇ candidate · not here; ctrl ▁…█ flux control 0…1",
+    " ladder: ━ drop █ largest drop ╍ rise ┃ rung (cumulative dG') │─ dG'° ┌│└ coupled",
+    "   ├─┤ / ±x: 1 sd; ┊ next start · lists: ▶ selected • used by it * unsaved … cut",
+];
+
+/// The legend in ASCII (each stand-in distinct within its pane).
+pub const LEGEND_ASCII: [&str; 4] = [
+    " steps: v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ MDF bottleneck",
+    " verdict: * control point o candidate - not here; ctrl .:-=+*#@ flux control 0..1",
+    " ladder: = drop # largest drop ~ rise | rung (cumulative dG') :- dG'o /|\\ coupled",
+    "   [-] / +-x: 1 sd; : next start | lists: > selected + used by it * unsaved $ cut",
+];
+
 /// Draws the key overlay.
 pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
-    let w = area.width.min(84);
-    let h = (KEYS.len() as u16 + 4).min(area.height);
+    let w = area.width.min(88);
+    let h = (KEYS.len() as u16 + 2 + LEGEND.len() as u16).min(area.height);
     let r = Rect {
         x: area.x + (area.width - w) / 2,
         y: area.y + (area.height - h) / 2,
@@ -70,18 +86,14 @@ pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             ])
         })
         .collect();
-    lines.push(Line::styled(
-        " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck ± 1 sd",
-        t.dim(),
-    ));
     if app.opts.ascii {
         lines = lines.into_iter().map(ascii_line).collect();
-        if let Some(last) = lines.last_mut() {
-            *last = Line::styled(
-                " v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck +- 1 sd",
-                t.dim(),
-            );
-        }
     }
+    let legend = if app.opts.ascii {
+        &LEGEND_ASCII
+    } else {
+        &LEGEND
+    };
+    lines.extend(legend.iter().map(|l| Line::styled(*l, t.dim())));
     Paragraph::new(lines).block(b).render(r, buf);
 }

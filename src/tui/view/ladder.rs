@@ -174,14 +174,20 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         Span::styled(
             format!(
                 "{:<w$}",
-                format!(
-                    "{} {} {:.0} {} {:.0}",
-                    if tw >= 20 { "cumulative dG'" } else { "dG'" },
-                    u.label(),
-                    u.of(hi),
-                    if app.opts.ascii { "..." } else { "…" },
-                    u.of(lo)
-                ),
+                // The rungs are the running total; the left end is the highest.
+                {
+                    let long = format!(
+                        "cumulative dG' {}: {:.0} left, {:.0} right",
+                        u.label(),
+                        u.of(hi),
+                        u.of(lo)
+                    );
+                    if long.chars().count() <= 1 + idw + 1 + tw + 1 + valw {
+                        long
+                    } else {
+                        format!("cumul. dG': {:.0} left, {:.0} right", u.of(hi), u.of(lo))
+                    }
+                },
                 w = 1 + idw + 1 + tw + 1 + valw
             ),
             t.bold(),

@@ -34,9 +34,35 @@ pub fn draw(frame: &mut Frame, app: &App) {
     render(app, area, frame.buffer_mut());
 }
 
+/// The smallest terminal the explorer draws in (columns, rows); below it a
+/// message says so.
+pub const MIN_SIZE: (u16, u16) = (80, 24);
+
 /// Draws the whole explorer into a buffer area.
 pub fn render(app: &App, area: Rect, buf: &mut Buffer) {
     let t = Theme::new(app.opts.color);
+    if area.width < MIN_SIZE.0 || area.height < MIN_SIZE.1 {
+        let x = if app.opts.ascii { "x" } else { "×" };
+        let msg = format!(
+            "terminal too small (needs {}{x}{}, is {}{x}{}); q quits",
+            MIN_SIZE.0, MIN_SIZE.1, area.width, area.height
+        );
+        let lines: Vec<ratatui::text::Line> = textwrap_words(&msg, area.width as usize)
+            .into_iter()
+            .map(ratatui::text::Line::from)
+            .collect();
+        let y = area.y + area.height.saturating_sub(lines.len() as u16) / 2;
+        let r = Rect {
+            y,
+            height: area.bottom() - y,
+            ..area
+        };
+        use ratatui::widgets::Widget;
+        ratatui::widgets::Paragraph::new(lines)
+            .alignment(ratatui::layout::Alignment::Center)
+            .render(r, buf);
+        return;
+    }
     let [main, msg, status] = Layout::vertical([
         Constraint::Min(0),
         Constraint::Length(1),
@@ -70,4 +96,19 @@ pub fn render(app: &App, area: Rect, buf: &mut Buffer) {
     if app.opts.ascii {
         text::asciify(area, buf);
     }
+}
+
+/// Splits a message into lines of at most `w` characters at spaces.
+fn textwrap_words(msg: &str, w: usize) -> Vec<String> {
+    let mut out: Vec<String> = Vec::new();
+    for word in msg.split(' ') {
+        match out.last_mut() {
+            Some(l) if l.chars().count() + 1 + word.chars().count() <= w => {
+                l.push(' ');
+                l.push_str(word);
+            }
+            _ => out.push(word.to_string()),
+        }
+    }
+    out
 }

@@ -81,6 +81,21 @@ pub fn message_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     Paragraph::new(line).render(area, buf);
 }
 
+/// The end of `s` in at most `w` characters, a cut start marked.
+fn cut_start(s: &str, w: usize, ascii: bool) -> String {
+    let n = s.chars().count();
+    if n <= w {
+        return s.to_string();
+    }
+    if w == 0 {
+        return String::new();
+    }
+    let mark = if ascii { '$' } else { '…' };
+    std::iter::once(mark)
+        .chain(s.chars().skip(n - (w - 1)))
+        .collect()
+}
+
 /// Draws the status line.
 pub fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let c = &app.state().conditions;
@@ -117,23 +132,28 @@ pub fn status_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         ));
         spans.push(Span::raw(sep));
     }
-    spans.push(match app.source.path {
-        Some(_) => Span::raw(app.source.name.clone()),
-        None => Span::styled("built-in demo (no file; s writes one)", t.dim()),
-    });
+    let mut tail = Vec::new();
     if app.dirty() {
-        spans.push(Span::raw(sep));
-        spans.push(Span::styled(
+        tail.push(Span::raw(sep));
+        tail.push(Span::styled(
             if ascii { "* unsaved" } else { "● unsaved" },
             t.edited().add_modifier(Modifier::BOLD),
         ));
     }
     if app.bad_stamp.is_some() {
-        spans.push(Span::raw(sep));
-        spans.push(Span::styled("file on disk does not load", t.warn()));
+        tail.push(Span::raw(sep));
+        tail.push(Span::styled("file on disk does not load", t.warn()));
     }
-    let used: usize = spans.iter().map(|s| s.content.chars().count()).sum();
     let hint = "? keys ";
+    let width = |v: &[Span]| v.iter().map(|s| s.content.chars().count()).sum::<usize>();
+    // The file name gets what is left, cut at its start (its end names the file).
+    let room = (area.width as usize).saturating_sub(width(&spans) + width(&tail) + hint.len() + 1);
+    spans.push(match app.source.path {
+        Some(_) => Span::raw(cut_start(&app.source.name, room, ascii)),
+        None => Span::styled(cut_start("built-in demo", room, ascii), t.dim()),
+    });
+    spans.extend(tail);
+    let used = width(&spans);
     let gap = (area.width as usize).saturating_sub(used + hint.len());
     spans.push(Span::raw(" ".repeat(gap.max(1))));
     spans.push(Span::styled(hint, t.bold()));

@@ -2,7 +2,7 @@
 //! the drop and verdict, the MDF in the title and the bottleneck flags.
 
 use super::text::fit;
-use super::text::{class_text, pad, rpad, tenth, window};
+use super::text::{class_text, num3, pad, rpad, tenth, window};
 use super::theme::{MARKER_COLUMN, Theme, block_with, bottleneck_mark};
 use crate::model::units;
 use crate::present;
@@ -13,6 +13,11 @@ use ratatui::layout::Rect;
 use ratatui::style::{Modifier, Style};
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Paragraph, Widget};
+
+/// Columns of the sd, Q and K' block of a wide step list.
+const EXTRA: usize = 29;
+/// Enzyme columns kept before the sd, Q and K' block is shown.
+const ENZ_ROOM: usize = 24;
 
 /// Draws the step list.
 pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
@@ -46,7 +51,7 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let (dgw, clw, shw, vw, pw) = if compact {
         (7, 9, 5, 2, 5)
     } else {
-        (8, 10, 6, 12, 8)
+        (8, 11, 6, 12, 8)
     };
     // Flux control estimate (science.md §7): " 0.57" when there is room for
     // it and a 10-character enzyme column, else a one-character bar.
@@ -59,12 +64,37 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         0
     };
     let fixed = base + ctw;
-    let enzw = w.saturating_sub(fixed + 1);
+    // A wide pane shows sd, Q and K' (`EXTRA` columns) once the enzyme has
+    // `ENZ_ROOM` columns; the enzyme takes what is left.
+    let extra = w >= fixed + 1 + ENZ_ROOM + EXTRA;
+    let mut enzw = w.saturating_sub(fixed + 1 + if extra { EXTRA } else { 0 });
+    if extra {
+        // Room left after a full enzyme name is left blank at the end.
+        let longest = (0..app.step_rows())
+            .filter_map(|k| app.step_row(k))
+            .map(|s| {
+                p.steps[s.step]
+                    .enzyme
+                    .as_deref()
+                    .map_or(0, |e| e.chars().count())
+                    + 7
+            })
+            .max()
+            .unwrap_or(0);
+        enzw = enzw.min(longest.max(ENZ_ROOM));
+    }
     let show_enz = enzw >= 8;
-    let mut header = format!("  {:<idw$} {:MARKER_COLUMN$}", "step", "");
+    let mut header = format!(
+        "  {:<idw$} {:MARKER_COLUMN$}",
+        "step",
+        bottleneck_mark(ascii)
+    );
     if show_enz {
         header.push_str(&pad("enzyme", enzw, ascii));
         header.push(' ');
+    }
+    if extra {
+        header.push_str(&format!("{:>8}{:>10}{:>10} ", "sd", "Q", "K'"));
     }
     header.push_str(&format!(
         "{:>dgw$}{:>dgw$} {:>pw$} {:<clw$}{:>shw$}{:>ctw$} {}",
@@ -135,6 +165,16 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             };
             spans.push(Span::styled(pad(&enz, enzw, ascii) + " ", row_style));
         }
+        if extra {
+            let sd = s
+                .dg_sd
+                .map(|sd| format!("{}{:.1}", if ascii { "+-" } else { "±" }, u.of(sd)))
+                .unwrap_or_default();
+            spans.push(Span::styled(
+                format!("{sd:>8}{:>10}{:>10} ", num3(s.q()), num3(s.keq())),
+                row_style,
+            ));
+        }
         spans.push(Span::styled(
             format!(
                 "{:>dgw$.1}{:>dgw$.1}",
@@ -187,6 +227,32 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         lines.push(Line::from(spans));
     }
     Paragraph::new(lines).render(inner, buf);
+    more_mark(area, buf, first, h, n, ascii);
+}
+
+/// On the bottom border of a list pane: how many rows are above and below
+/// the visible ones, when the list scrolls.
+pub fn more_mark(area: Rect, buf: &mut Buffer, first: usize, h: usize, n: usize, ascii: bool) {
+    if n <= h || area.height < 2 || area.width < 12 {
+        return;
+    }
+    let below = n - (first + h).min(n);
+    let (up, down) = if ascii { ("^", "v") } else { ("↑", "↓") };
+    let mut parts = Vec::new();
+    if first > 0 {
+        parts.push(format!("{up} {first} more"));
+    }
+    if below > 0 {
+        parts.push(format!("{down} {below} more"));
+    }
+    let text = format!(" {} ", parts.join(" "));
+    let x = area.right().saturating_sub(text.chars().count() as u16 + 1);
+    buf.set_string(
+        x.max(area.left() + 1),
+        area.bottom() - 1,
+        text,
+        Style::default(),
+    );
 }
 
 /// The MDF for the step list's title, in at most `room` characters.
