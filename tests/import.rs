@@ -105,7 +105,10 @@ fn level3_route_is_oriented_with_protons_roles_and_model_data() {
     // Roles: water is the solvent, carriers are currency.
     assert_eq!(compound(&p, "h2o_c").role, Some(StatedRole::Solvent));
     let w = compound(&p, "h2o_c");
-    assert_eq!((w.charge, w.hydrogens, w.conc), (Some(0.0), Some(2.0), None));
+    assert_eq!(
+        (w.charge, w.hydrogens, w.conc),
+        (Some(0.0), Some(2.0), None)
+    );
     for id in ["atp_c", "adp_c", "nad_c", "nadh_c", "pi_c"] {
         assert_eq!(compound(&p, id).role, Some(StatedRole::Currency), "{id}");
     }
