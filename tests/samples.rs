@@ -214,7 +214,8 @@ fn csv_has_one_row_per_sample_and_step() {
             "dg",
             "class",
             "verdict",
-            "cumulative"
+            "cumulative",
+            "control_coefficient"
         ]
     );
     let rows: Vec<csv::StringRecord> = r.records().map(Result::unwrap).collect();

@@ -165,6 +165,10 @@ pub struct Common {
     /// Energy unit for output.
     #[arg(long = "energy-unit", value_enum, default_value_t = UnitArg::Kj)]
     pub energy_unit: UnitArg,
+    /// Random enzyme saturations behind the flux control range (report,
+    /// explore, screenshot); 50000 when not given.
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u64).range(1..=10_000_000))]
+    pub draws: Option<u64>,
 }
 
 #[derive(ValueEnum, Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -175,6 +179,12 @@ pub enum UnitArg {
 }
 
 impl Common {
+    /// Saturation draws for the flux control range.
+    pub fn draws(&self) -> usize {
+        self.draws
+            .map_or(dgpath::analysis::mca::DEFAULT_DRAWS, |d| d as usize)
+    }
+
     pub fn unit(&self) -> EnergyUnit {
         match self.energy_unit {
             UnitArg::Kj => EnergyUnit::KJ,

@@ -3,7 +3,7 @@
 use super::text::{class_text, fit, kv};
 use super::theme::bottleneck_mark;
 use super::theme::{Theme, block};
-use crate::analysis::{Class, StepResult};
+use crate::analysis::{Class, StepResult, mca};
 use crate::model::units;
 use crate::present::{self, sci};
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
@@ -41,6 +41,14 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             present::verdict_symbol(v.kind, ascii).to_string(),
             t.verdict(v.kind),
         ));
+    }
+    // The flux control estimate beside the verdict (the range and its
+    // reasons follow the verdict below).
+    if let Some(c) = (app.step_sel < a.steps.len())
+        .then(|| a.control_estimate.coefficient(app.step_sel))
+        .flatten()
+    {
+        head.push(Span::raw(format!("  ctrl {c:.3}")));
     }
     out.push(Line::from(head));
     let mut rx = present::reaction_as_run(&app.prep, s);
@@ -156,6 +164,32 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             "verdict: none (only far steps get one)",
             t.dim(),
         ));
+    }
+    if app.step_sel < a.steps.len() {
+        let fix = |l: String| {
+            if ascii {
+                l.replace('–', "-").replace('≥', ">=").replace('…', "...")
+            } else {
+                l
+            }
+        };
+        // The estimate with its range, then how it comes about here.
+        for (i, l) in mca::explain(p, a, app.step_sel).into_iter().enumerate() {
+            let l = fix(l);
+            out.push(if i == 0 {
+                Line::styled(l, t.bold())
+            } else {
+                Line::from(format!("  {l}"))
+            });
+        }
+        // With an estimate, its notes are the disagreement sentence.
+        let notes = match a.control_estimate.coefficients {
+            Some(_) => a.control_estimate.notes.as_slice(),
+            None => &[],
+        };
+        for n in notes {
+            out.push(Line::styled(format!("  {}", fix(n.clone())), t.warn()));
+        }
     }
     if let Some(nb) = a
         .needs_bypass
