@@ -349,3 +349,38 @@ fn the_ladder_header_says_cumulative_and_the_help_lists_every_glyph() {
         "{help}"
     );
 }
+
+#[test]
+fn one_key_table_makes_the_handling_the_overlay_and_the_hint_line() {
+    use dgpath::tui::keymap::{BINDINGS, Keys, Where};
+    use ratatui::crossterm::event::{KeyEvent, KeyModifiers};
+    let app = demo();
+    let overlay: Vec<_> = dgpath::tui::view::key_rows().collect();
+    for b in BINDINGS.iter().filter(|b| b.when == Where::Browse) {
+        let Keys::Plain(ks) = b.keys else { continue };
+        for &k in ks {
+            let m = app.message_for(KeyEvent::new(k, KeyModifiers::NONE));
+            assert!(m.is_some(), "{k:?} ({}) sends nothing", b.label);
+        }
+        if !b.label.is_empty() {
+            assert!(
+                overlay.contains(&(b.label, b.help)),
+                "{} not in the overlay",
+                b.label
+            );
+        }
+    }
+    // A key the table lacks does nothing.
+    let none = app.message_for(KeyEvent::new(
+        ratatui::crossterm::event::KeyCode::Char('z'),
+        KeyModifiers::NONE,
+    ));
+    assert_eq!(none, None);
+    // The hint line fits at 80 columns and ends with the way to the overlay.
+    let small = screen(&app, 80, 24);
+    let hint = small.lines().rev().nth(1).unwrap().trim_end();
+    assert!(
+        hint.ends_with("? keys") && hint.starts_with("Tab pane"),
+        "{hint}"
+    );
+}

@@ -1,80 +1,24 @@
 //! Keys to messages: what each key press means in the current mode, and the
 //! key scripts used by screenshots and tests.
 
-use super::app::{App, FINE_STEP, Message, Mode, Pane, Target};
+use super::app::{App, Message};
+use super::keymap;
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
 
 impl App {
-    /// Maps a key press to a message for the current mode.
+    /// Maps a key press to a message for the current mode, through the key
+    /// table (`keymap::BINDINGS`).
     pub fn message_for(&self, key: KeyEvent) -> Option<Message> {
         if key.kind != KeyEventKind::Press {
             return None;
         }
         let ctrl = key.modifiers.contains(KeyModifiers::CONTROL);
-        if ctrl && key.code == KeyCode::Char('c') {
-            return Some(Message::ForceQuit);
+        #[cfg(feature = "test-panic")]
+        if key.code == KeyCode::F(12) && self.mode == super::app::Mode::Normal {
+            return Some(Message::Panic);
         }
-        match &self.mode {
-            Mode::Edit { .. } | Mode::Find { .. } => match key.code {
-                KeyCode::Enter => Some(Message::Apply),
-                KeyCode::Up if !self.edit_choices.is_empty() => Some(Message::Cycle(-1)),
-                KeyCode::Down if !self.edit_choices.is_empty() => Some(Message::Cycle(1)),
-                KeyCode::Esc => Some(Message::Cancel),
-                KeyCode::Backspace => Some(Message::Erase),
-                KeyCode::Char(c) if !ctrl => Some(Message::Type(c)),
-                _ => None,
-            },
-            Mode::Help => match key.code {
-                KeyCode::Char('q') => Some(Message::Quit),
-                _ => Some(Message::ToggleHelp),
-            },
-            Mode::ConfirmOverwrite => match key.code {
-                KeyCode::Char('y') | KeyCode::Char('Y') => Some(Message::Overwrite(true)),
-                // A space (as between words of a key script) answers nothing.
-                KeyCode::Char(' ') => None,
-                _ => Some(Message::Overwrite(false)),
-            },
-            Mode::Normal | Mode::ConfirmQuit => self.normal_message(key, ctrl),
-        }
-    }
-
-    fn normal_message(&self, key: KeyEvent, ctrl: bool) -> Option<Message> {
-        Some(match key.code {
-            KeyCode::Char('r') if ctrl => Message::Redo,
-            _ if ctrl => return None,
-            KeyCode::Char('q') => Message::Quit,
-            KeyCode::Char('?') => Message::ToggleHelp,
-            KeyCode::Tab => Message::Focus(1),
-            KeyCode::BackTab => Message::Focus(-1),
-            KeyCode::Up | KeyCode::Char('k') => Message::Move(-1),
-            KeyCode::Down | KeyCode::Char('j') => Message::Move(1),
-            KeyCode::PageUp => Message::Move(-10),
-            KeyCode::PageDown => Message::Move(10),
-            KeyCode::Enter => match (self.focus, self.step_compounds().first()) {
-                (Pane::Compounds, _) | (_, None) => Message::StartEdit(Target::Conc(self.comp_sel)),
-                (_, Some(&c)) => Message::StartEdit(Target::Conc(c)),
-            },
-            KeyCode::Char('+') | KeyCode::Char('=') => Message::Scale(FINE_STEP),
-            KeyCode::Char('-') => Message::Scale(1.0 / FINE_STEP),
-            KeyCode::Char('>') => Message::Scale(10.0),
-            KeyCode::Char('<') => Message::Scale(0.1),
-            KeyCode::Char('/') => Message::StartFind,
-            KeyCode::Char('t') => Message::StartEdit(Target::Temperature),
-            KeyCode::Char('p') => Message::StartEdit(Target::Ph),
-            KeyCode::Char('i') => Message::StartEdit(Target::IonicStrength),
-            KeyCode::Char('r') => Message::ToggleReverse,
-            KeyCode::Char('w') => Message::Walk,
-            KeyCode::Char('o') => Message::LoadOptimum,
-            KeyCode::Char('[') => Message::Sample(-1),
-            KeyCode::Char(']') => Message::Sample(1),
-            KeyCode::Char('u') => Message::Undo,
-            KeyCode::Char('s') => Message::Save,
-            KeyCode::Char('S') => Message::SaveShown,
-            KeyCode::Esc => Message::Cancel,
-            #[cfg(feature = "test-panic")]
-            KeyCode::F(12) => Message::Panic,
-            _ => return None,
-        })
+        let b = keymap::binding_for(keymap::where_now(&self.mode), key.code, ctrl)?;
+        (b.message)(self, key.code)
     }
 
     /// Handles one key; returns true when the screen must be redrawn.

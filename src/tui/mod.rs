@@ -20,6 +20,7 @@ pub mod disk;
 pub mod edit;
 pub mod export;
 pub mod find;
+pub mod keymap;
 pub mod keys;
 pub mod nav;
 pub mod optimum;

@@ -3,45 +3,19 @@
 use super::text::ascii_line;
 use super::theme::{ASCII_BORDER, Theme};
 use crate::tui::app::App;
+use crate::tui::keymap::BINDINGS;
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Borders, Clear, Paragraph, Widget};
 
-/// The key list of the `?` overlay (a contract: these keys do these things).
-pub const KEYS: &[(&str, &str)] = &[
-    (
-        "q",
-        "quit (a second q confirms when there are unsaved edits)",
-    ),
-    ("?", "this help (any key closes it)"),
-    ("Tab / Shift-Tab", "next / previous pane"),
-    ("Up/Down, k/j", "move in the pane"),
-    (
-        "Enter",
-        "edit the selected compound (on a step: its first substrate)",
-    ),
-    (
-        "  Up/Down",
-        "on a step's edit line: the step's other compounds",
-    ),
-    ("  Enter / Esc", "apply / cancel the typed value"),
-    ("+ / -", "selected concentration × / ÷ 10^0.1"),
-    ("> / <", "selected concentration × / ÷ 10"),
-    ("/", "find a step or compound by name"),
-    ("t / p / i", "edit temperature / pH / ionic strength"),
-    ("r", "reverse route on/off"),
-    ("w", "walk the route one step at a time (Esc ends)"),
-    (
-        "o",
-        "load the optimal concentrations (MDF; rounded to 3 figures)",
-    ),
-    ("[ / ]", "previous / next sample (with --samples TABLE.csv)"),
-    ("u / Ctrl-r", "undo / redo"),
-    ("s", "save your edits into the file (a sample is a view)"),
-    ("S", "save the values shown, the sample's included"),
-    ("Ctrl-c", "quit at once"),
-];
+/// The rows of the `?` overlay: label and help of the key table's rows that have one.
+pub fn key_rows() -> impl Iterator<Item = (&'static str, &'static str)> {
+    BINDINGS
+        .iter()
+        .filter(|b| !b.label.is_empty())
+        .map(|b| (b.label, b.help))
+}
 
 /// Every glyph of the screen, by pane.
 pub const LEGEND: [&str; 4] = [
@@ -62,7 +36,7 @@ pub const LEGEND_ASCII: [&str; 4] = [
 /// Draws the key overlay.
 pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let w = area.width.min(88);
-    let h = (KEYS.len() as u16 + 2 + LEGEND.len() as u16).min(area.height);
+    let h = (key_rows().count() as u16 + 2 + LEGEND.len() as u16).min(area.height);
     let r = Rect {
         x: area.x + (area.width - w) / 2,
         y: area.y + (area.height - h) / 2,
@@ -77,8 +51,7 @@ pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     if app.opts.ascii {
         b = b.border_set(ASCII_BORDER);
     }
-    let mut lines: Vec<Line<'static>> = KEYS
-        .iter()
+    let mut lines: Vec<Line<'static>> = key_rows()
         .map(|(k, what)| {
             Line::from(vec![
                 Span::styled(format!(" {k:<16}"), t.bold()),

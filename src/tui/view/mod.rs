@@ -19,7 +19,7 @@ pub mod text;
 pub mod theme;
 
 pub use detail::detail_lines;
-pub use help::KEYS;
+pub use help::key_rows;
 pub use text::{fit, tenth};
 pub use theme::{MARKER_COLUMN, Theme, bottleneck_mark};
 

@@ -72,7 +72,10 @@ pub fn message_line(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             }
             Some((m, Tone::Info)) => Line::from(m.clone()),
             None => Line::styled(
-                "Tab pane · j/k move · Enter edit · +/- ×10^0.1 · </> ×10 · r reverse · w walk · u undo · s save · ? keys",
+                crate::tui::keymap::hint_line(
+                    area.width as usize,
+                    if ascii { " | " } else { " · " },
+                ),
                 t.dim(),
             ),
         },
