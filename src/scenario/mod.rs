@@ -1,9 +1,13 @@
 //! What the person is changing: conditions, concentrations and direction,
 //! with undo and redo. Computing results is the analysis module's job; this
 //! module uses only `model` (`analysis` uses it, never the other way round).
-//! `save` writes a state back into the pathway file.
+//! `save` writes a state back into the pathway file; `session` is the
+//! document core (pathway, history, analysis, optimisation, file on disk)
+//! that the explorer shows.
 
+pub mod optimum;
 pub mod save;
+pub mod session;
 
 use crate::model::{Conditions, Pathway};
 

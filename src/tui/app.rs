@@ -5,15 +5,17 @@
 //! the scenario changed. Drawing lives in `view`; nothing here touches a
 //! terminal.
 
-pub use super::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
 use crate::analysis::mca::{self, RangeJob};
 use crate::analysis::mdf::Mdf;
-use crate::analysis::{self, Analysis, Direction, Prepared, StepResult};
+use crate::analysis::{Direction, Prepared, StepResult};
 use crate::model::samples::Sample;
-use crate::model::{self, Pathway, units};
+use crate::model::{self, units};
 use crate::present::EnergyUnit;
-use crate::scenario::save::{self, DiskStamp};
-use crate::scenario::{Scenario, State};
+use crate::scenario::State;
+pub use crate::scenario::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
+use crate::scenario::save;
+use crate::scenario::session::Session;
+pub use crate::scenario::session::Source;
 use std::path::PathBuf;
 
 /// One press of `+` / `-` multiplies or divides by 10^0.1.
@@ -28,28 +30,6 @@ pub struct Options {
     pub color: bool,
     /// Energy unit shown.
     pub unit: EnergyUnit,
-}
-
-/// Where the pathway came from.
-#[derive(Debug, Clone)]
-pub struct Source {
-    /// The file on disk; None for the bundled demo.
-    pub path: Option<PathBuf>,
-    /// Name shown in the status line.
-    pub name: String,
-    /// The file text as last read or written.
-    pub text: String,
-}
-
-impl Source {
-    /// The bundled demo (no file on disk).
-    pub fn demo() -> Self {
-        Source {
-            path: None,
-            name: crate::DEMO_NAME.to_string(),
-            text: crate::DEMO.to_string(),
-        }
-    }
 }
 
 /// Which pane has the keyboard.
@@ -178,29 +158,19 @@ pub enum Message {
     Panic,
 }
 
-/// The explorer's whole state.
+/// The explorer's whole state: a `Session` (the document: pathway,
+/// history, analysis, optimisation, file) plus what the screen shows.
+/// `App` derefs to its session, so `app.analysis` reads the session's.
 #[derive(Debug, Clone)]
 pub struct App {
-    /// The checked pathway with its routes.
-    pub prep: Prepared,
-    /// What the person changes, with undo/redo.
-    pub scenario: Scenario,
-    /// Results for the current scenario.
-    pub analysis: Analysis,
-    /// The driving-force optimisation for the current scenario.
-    pub mdf: LiveMdf,
+    /// The document being explored.
+    pub session: Session,
     /// Samples read from a samples table (empty without one).
     pub samples: Vec<Sample>,
     /// The sample last chosen (index into `samples`).
     pub sample_at: usize,
     /// True when the concentrations differ from the chosen sample's.
     pub sample_edited: bool,
-    /// Where the pathway came from.
-    pub source: Source,
-    /// Stamp of the file as last read or written.
-    pub stamp: Option<DiskStamp>,
-    /// Stamp of a file version that failed to load (not retried until it changes).
-    pub bad_stamp: Option<DiskStamp>,
     /// Drawing options.
     pub opts: Options,
     /// Focused pane.
@@ -244,29 +214,18 @@ impl App {
         source: Source,
         opts: Options,
     ) -> Result<App, model::Problem> {
-        let analysis = analysis::analyze(&prep, &state)?;
-        let mdf = LiveMdf::solve(&prep, &state, analysis.steps.len());
-        let stamp = source
-            .path
-            .as_ref()
-            .map(|p| DiskStamp::read(p).unwrap_or_else(|_| DiskStamp::of_text(&source.text, None)));
-        let comp_sel = prep
-            .pathway
+        let session = Session::new(prep, state, source)?;
+        let comp_sel = session
+            .pathway()
             .compounds
             .iter()
             .position(|c| !c.is_solvent())
             .unwrap_or(0);
         Ok(App {
-            prep,
-            scenario: Scenario::new(state),
-            analysis,
-            mdf,
+            session,
             samples: Vec::new(),
             sample_at: 0,
             sample_edited: false,
-            source,
-            stamp,
-            bad_stamp: None,
             opts,
             focus: Pane::Steps,
             step_sel: 0,
@@ -301,7 +260,7 @@ impl App {
     /// should be drawn again.
     pub fn idle_work(&mut self) -> bool {
         if self.analysis.control_estimate.range_pending() {
-            self.range_job = mca::start_ranges(&mut self.analysis, self.draws);
+            self.range_job = mca::start_ranges(&mut self.session.analysis, self.draws);
             if self.range_job.is_none() {
                 return true;
             }
@@ -309,13 +268,13 @@ impl App {
         let Some(job) = self.range_job.as_mut() else {
             return false;
         };
-        let Some(model) = self.analysis.control_estimate.model.as_ref() else {
+        let Some(model) = self.session.analysis.control_estimate.model.as_ref() else {
             self.range_job = None;
             return false;
         };
         if job.run(model, IDLE_DRAWS) {
             if let Some(job) = self.range_job.take() {
-                mca::finish_ranges(&mut self.analysis, job);
+                mca::finish_ranges(&mut self.session.analysis, job);
             }
             return true;
         }
@@ -335,9 +294,7 @@ impl App {
         if let Some(first) = samples.first() {
             let mut state = self.state().clone();
             state.conc = first.conc.clone();
-            self.analysis = analysis::analyze(&self.prep, &state)?;
-            self.mdf = LiveMdf::solve(&self.prep, &state, self.analysis.steps.len());
-            self.scenario = Scenario::new(state);
+            self.session.reset(state)?;
         }
         self.samples = samples;
         self.sample_at = 0;
@@ -371,16 +328,6 @@ impl App {
     /// The chosen sample's name, when a samples table was given.
     pub fn sample_name(&self) -> Option<&str> {
         self.samples.get(self.sample_at).map(|s| s.name.as_str())
-    }
-
-    /// The pathway.
-    pub fn pathway(&self) -> &Pathway {
-        &self.prep.pathway
-    }
-
-    /// The current scenario state.
-    pub fn state(&self) -> &State {
-        self.scenario.state()
     }
 
     /// True when the state holds edits the file lacks (a sample's values
@@ -584,8 +531,11 @@ impl App {
                 }
                 // Rounded to three figures in the unit it is saved in, so the
                 // screen, the analysis and the file agree.
-                let v =
-                    super::optimum::round_conc_sig3(self.state().conc[i] * f, 0.0, f64::INFINITY);
+                let v = crate::scenario::optimum::round_conc_sig3(
+                    self.state().conc[i] * f,
+                    0.0,
+                    f64::INFINITY,
+                );
                 self.set_conc(i, v);
                 if self.focus != Pane::Compounds
                     && let Some((text, tone)) = self.status.take()
@@ -619,7 +569,7 @@ impl App {
             Message::LoadOptimum => self.load_optimum(),
             Message::Sample(by) => self.step_sample(by),
             Message::Undo => {
-                if self.scenario.undo() {
+                if self.session.scenario.undo() {
                     self.recompute();
                     self.say("undone", Tone::Info);
                 } else {
@@ -627,7 +577,7 @@ impl App {
                 }
             }
             Message::Redo => {
-                if self.scenario.redo() {
+                if self.session.scenario.redo() {
                     self.recompute();
                     self.say("redone", Tone::Info);
                 } else {
@@ -664,51 +614,40 @@ impl App {
         if !self.commit(|s| s.conc[i] = v) {
             return;
         }
-        let c = &self.prep.pathway.compounds[i];
+        let c = &self.pathway().compounds[i];
         let m = format!("{} = {}", c.id, units::format_conc(v, self.opts.ascii));
         self.say(m, Tone::Info);
     }
 
-    /// Applies an undoable edit and recomputes. The edited state is analysed
-    /// first: an edit the analysis refuses never enters the history (so the
-    /// redo history survives it) and the status line says why.
-    /// Returns false when the edit was refused.
+    /// Applies an undoable edit and recomputes (`Session::edit`: an edit the
+    /// analysis refuses never enters the history and the status line says
+    /// why). Returns false when the edit was refused.
     pub(super) fn commit(&mut self, f: impl FnOnce(&mut State)) -> bool {
-        let mut next = self.scenario.state().clone();
-        f(&mut next);
-        if &next == self.scenario.state() {
-            return true;
-        }
-        match analysis::analyze(&self.prep, &next) {
-            Ok(a) => {
-                self.scenario.edit(|s| *s = next);
-                self.install(a);
+        match self.session.edit(f) {
+            Ok(changed) => {
+                if changed {
+                    self.after_change();
+                }
                 true
             }
             Err(e) => {
-                self.say(format!("cannot apply: {}", e.message), Tone::Warn);
+                self.say(format!("cannot apply: {e}"), Tone::Warn);
                 false
             }
         }
     }
 
-    /// Recomputes the analysis for the current state (after undo, redo, a
-    /// save or a reload). A state in the history was analysed when it was
-    /// made, so a failure here is unexpected; it steps back one edit.
+    /// Recomputes the analysis for the current state (after undo, redo or a
+    /// save); an unexpected failure steps back one edit and says why.
     pub(super) fn recompute(&mut self) {
-        match analysis::analyze(&self.prep, self.scenario.state()) {
-            Ok(a) => self.install(a),
-            Err(e) => {
-                self.scenario.undo();
-                self.say(format!("cannot apply: {}", e.message), Tone::Warn);
-            }
+        if let Err(e) = self.session.recompute() {
+            self.say(format!("cannot apply: {e}"), Tone::Warn);
         }
+        self.after_change();
     }
 
-    /// Makes `a` the current analysis and brings what depends on it up to date.
-    fn install(&mut self, a: Analysis) {
-        self.analysis = a;
-        self.mdf = LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
+    /// Brings the screen state up to date with a changed session.
+    pub(super) fn after_change(&mut self) {
         self.track_sample();
         self.step_sel = self.step_sel.min(self.step_rows().saturating_sub(1));
         if let Some(w) = self.walk {
@@ -726,6 +665,19 @@ impl App {
         {
             self.step_sel = k;
         }
+    }
+}
+
+impl std::ops::Deref for App {
+    type Target = Session;
+    fn deref(&self) -> &Session {
+        &self.session
+    }
+}
+
+impl std::ops::DerefMut for App {
+    fn deref_mut(&mut self) -> &mut Session {
+        &mut self.session
     }
 }
 

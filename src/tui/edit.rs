@@ -2,10 +2,10 @@
 //! and loading the optimal concentrations.
 
 use super::app::{App, LIVE_MDF_MAX_STEPS, Mode, Target, Tone};
-use super::optimum::{LiveMdf, round_conc_sig3};
 use crate::analysis::mdf::Part;
 use crate::model::units::Kind;
 use crate::model::{Pathway, check};
+use crate::scenario::optimum::{LiveMdf, round_conc_sig3};
 
 /// Why a value typed into an edit line was refused.
 fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> {

@@ -23,7 +23,6 @@ pub mod find;
 pub mod keymap;
 pub mod keys;
 pub mod nav;
-pub mod optimum;
 pub mod sample;
 pub mod view;
 

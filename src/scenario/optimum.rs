@@ -1,4 +1,4 @@
-//! The live driving-force optimisation of the explorer and the rounding of
+//! The live driving-force optimisation of a session and the rounding of
 //! its optimal concentrations.
 
 use crate::analysis::Prepared;

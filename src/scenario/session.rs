@@ -1,0 +1,336 @@
+//! The document core, apart from any screen: the routed pathway, the history
+//! of edits, the current analysis and optimisation, and the file on disk
+//! (stamps, save, reload, poll). The explorer's `App` is a `Session` plus
+//! screen state; nothing here knows about keys, panes or messages.
+
+use super::optimum::LiveMdf;
+use super::save::{self, DiskStamp};
+use super::{Direction, Scenario, State};
+use crate::analysis::{self, Analysis, Prepared};
+use crate::model::{self, Pathway};
+use std::path::PathBuf;
+
+/// Where the pathway came from.
+#[derive(Debug, Clone)]
+pub struct Source {
+    /// The file on disk; None for the bundled demo.
+    pub path: Option<PathBuf>,
+    /// Name shown in the status line.
+    pub name: String,
+    /// The file text as last read or written.
+    pub text: String,
+}
+
+impl Source {
+    /// The bundled demo (no file on disk).
+    pub fn demo() -> Self {
+        Source {
+            path: None,
+            name: crate::DEMO_NAME.to_string(),
+            text: crate::DEMO.to_string(),
+        }
+    }
+}
+
+/// A pathway being explored: its document and what is computed from it.
+#[derive(Debug, Clone)]
+pub struct Session {
+    /// The checked pathway with its routes.
+    pub prep: Prepared,
+    /// What the person changes, with undo/redo.
+    pub scenario: Scenario,
+    /// Results for the current state.
+    pub analysis: Analysis,
+    /// The driving-force optimisation for the current state.
+    pub mdf: LiveMdf,
+    /// Where the pathway came from.
+    pub source: Source,
+    /// Stamp of the file as last read or written.
+    pub stamp: Option<DiskStamp>,
+    /// Stamp of a file version that failed to load (not retried until it changes).
+    pub bad_stamp: Option<DiskStamp>,
+}
+
+/// What a look at the file on disk found.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Poll {
+    /// Nothing new.
+    Unchanged,
+    /// The file cannot be read just now; the message says why.
+    Unreadable(String),
+    /// The contents changed: the new text, or why it could not be read.
+    Changed(Result<String, String>),
+}
+
+/// A reload that took: how many unsaved edits were kept, and the pathway before it.
+#[derive(Debug, Clone)]
+pub struct Reloaded {
+    /// Unsaved edits carried over.
+    pub kept: usize,
+    /// The pathway as it was before the reload (to find selections again by id).
+    pub old: Pathway,
+}
+
+impl Session {
+    /// Opens a session on a prepared pathway and a starting state.
+    pub fn new(prep: Prepared, state: State, source: Source) -> Result<Session, model::Problem> {
+        let analysis = analysis::analyze(&prep, &state)?;
+        let mdf = LiveMdf::solve(&prep, &state, analysis.steps.len());
+        let stamp = source
+            .path
+            .as_ref()
+            .map(|p| DiskStamp::read(p).unwrap_or_else(|_| DiskStamp::of_text(&source.text, None)));
+        Ok(Session {
+            prep,
+            scenario: Scenario::new(state),
+            analysis,
+            mdf,
+            source,
+            stamp,
+            bad_stamp: None,
+        })
+    }
+
+    /// The pathway.
+    pub fn pathway(&self) -> &Pathway {
+        &self.prep.pathway
+    }
+
+    /// The current state.
+    pub fn state(&self) -> &State {
+        self.scenario.state()
+    }
+
+    /// Starts over at `state` with an empty history.
+    pub fn reset(&mut self, state: State) -> Result<(), model::Problem> {
+        let a = analysis::analyze(&self.prep, &state)?;
+        self.scenario = Scenario::new(state);
+        self.install(a);
+        Ok(())
+    }
+
+    /// Applies an undoable edit. The edited state is analysed first: an edit
+    /// the analysis refuses never enters the history (so the redo history
+    /// survives it). Ok(false) when nothing changed; Err says why it was refused.
+    pub fn edit(&mut self, f: impl FnOnce(&mut State)) -> Result<bool, String> {
+        let mut next = self.state().clone();
+        f(&mut next);
+        if &next == self.state() {
+            return Ok(false);
+        }
+        let a = analysis::analyze(&self.prep, &next).map_err(|e| e.message)?;
+        self.scenario.edit(|s| *s = next);
+        self.install(a);
+        Ok(true)
+    }
+
+    /// Recomputes for the current state (after undo, redo or a save). A state
+    /// in the history was analysed when it was made, so a failure here is
+    /// unexpected; it steps back one edit and says why.
+    pub fn recompute(&mut self) -> Result<(), String> {
+        match analysis::analyze(&self.prep, self.state()) {
+            Ok(a) => {
+                self.install(a);
+                Ok(())
+            }
+            Err(e) => {
+                self.scenario.undo();
+                Err(e.message)
+            }
+        }
+    }
+
+    fn install(&mut self, a: Analysis) {
+        self.analysis = a;
+        self.mdf = LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
+    }
+
+    /// True when the file changed on disk since it was last read or written.
+    pub fn changed_on_disk(&self) -> bool {
+        match (&self.source.path, &self.stamp) {
+            (Some(path), Some(st)) => {
+                DiskStamp::read(path).is_ok_and(|now| now.content_differs(st))
+            }
+            _ => false,
+        }
+    }
+
+    /// Writes `state` into the session's file and makes the written text the
+    /// new base. Err when there is no file or the write failed.
+    pub fn write(&mut self, state: &State) -> Result<(), String> {
+        let Some(path) = self.source.path.clone() else {
+            return Err("the built-in demo has no file".into());
+        };
+        let text = save::save(&path, &self.source.text, self.pathway(), state)
+            .map_err(|e| e.to_string())?;
+        self.take_written(path, self.source.name.clone(), text)
+    }
+
+    /// Writes the pathway with `state` to a new file and goes on with that file.
+    pub fn write_to(&mut self, path: PathBuf, state: &State) -> Result<(), String> {
+        let text = save::save(&path, &self.source.text, self.pathway(), state)
+            .map_err(|e| format!("{}: {e}", path.display()))?;
+        let name = path.display().to_string();
+        self.take_written(path, name, text)
+    }
+
+    /// The file now says what was written: read it back as the new base.
+    fn take_written(&mut self, path: PathBuf, name: String, text: String) -> Result<(), String> {
+        let prep = model::load_str(&text, &name)
+            .and_then(analysis::prepare)
+            .map_err(|e| format!("written, but the file does not read back: {e}"))?;
+        self.prep = prep;
+        self.source = Source {
+            path: Some(path.clone()),
+            name,
+            text,
+        };
+        self.stamp = DiskStamp::read(&path).ok();
+        self.bad_stamp = None;
+        self.recompute()
+    }
+
+    /// Looks at the file on disk (cheaply unless it seems to have changed).
+    pub fn poll(&mut self) -> Poll {
+        let (Some(path), Some(st)) = (self.source.path.clone(), self.stamp) else {
+            return Poll::Unchanged;
+        };
+        let known = self.bad_stamp.unwrap_or(st);
+        if !known.maybe_changed(&path) {
+            return Poll::Unchanged;
+        }
+        let now = match DiskStamp::read(&path) {
+            Ok(n) => n,
+            // Gone for a moment (an editor replacing it) or unreadable.
+            Err(e) => return Poll::Unreadable(e.to_string()),
+        };
+        if !now.content_differs(&known) {
+            // Only the time changed: remember it so the cheap check stays quiet.
+            if self.bad_stamp.is_some() {
+                self.bad_stamp = Some(now);
+            } else {
+                self.stamp = Some(now);
+            }
+            return Poll::Unchanged;
+        }
+        let text = std::fs::read_to_string(&path).map_err(|e| e.to_string());
+        if text.is_err() {
+            self.bad_stamp = Some(now);
+        }
+        Poll::Changed(text)
+    }
+
+    /// Takes the file's new text: unsaved edits are kept where the compounds
+    /// remain, in the current state and throughout the history. Err (with
+    /// the first problem) leaves the session as it was.
+    pub fn reload(&mut self, text: String) -> Result<Reloaded, String> {
+        let stamp_now = self
+            .source
+            .path
+            .as_ref()
+            .and_then(|p| DiskStamp::read(p).ok());
+        let prep = match model::load_str(&text, &self.source.name).and_then(analysis::prepare) {
+            Ok(p) => p,
+            Err(e) => {
+                self.bad_stamp = stamp_now.or(Some(DiskStamp::of_text(&text, None)));
+                let first = e
+                    .problems
+                    .first()
+                    .map(|p| p.to_string())
+                    .unwrap_or_default();
+                return Err(format!(
+                    "file changed but does not load: {first} — showing the last good state"
+                ));
+            }
+        };
+        let old = self.prep.pathway.clone();
+        let can_reverse = prep.reverse.is_ok();
+        let carry = |s: &State| {
+            let mut m = save::carry_edits(&old, s, &prep.pathway);
+            if !can_reverse {
+                m.direction = Direction::Forward;
+            }
+            m
+        };
+        let next = carry(self.state());
+        let a = match analysis::analyze(&prep, &next) {
+            Ok(a) => a,
+            Err(e) => {
+                self.bad_stamp = stamp_now;
+                return Err(format!("file changed but cannot be analysed: {e}"));
+            }
+        };
+        let kept = prep
+            .pathway
+            .compounds
+            .iter()
+            .enumerate()
+            .filter(|(j, c)| !c.is_solvent() && c.conc != Some(next.conc[*j]))
+            .count();
+        self.scenario.remap(carry);
+        self.prep = prep;
+        self.install(a);
+        self.source.text = text;
+        self.stamp = stamp_now;
+        self.bad_stamp = None;
+        Ok(Reloaded { kept, old })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn on_disk() -> (tempfile::TempDir, PathBuf, Session) {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("demo.toml");
+        std::fs::write(&path, crate::DEMO).unwrap();
+        let prep = analysis::prepare(model::load_str(crate::DEMO, "demo.toml").unwrap()).unwrap();
+        let state = State::from_pathway(&prep.pathway);
+        let source = Source {
+            path: Some(path.clone()),
+            name: "demo.toml".into(),
+            text: crate::DEMO.into(),
+        };
+        (dir, path, Session::new(prep, state, source).unwrap())
+    }
+
+    #[test]
+    fn a_session_edits_writes_notices_outside_changes_and_reloads_without_a_screen() {
+        let (_dir, path, mut s) = on_disk();
+        let f6p = s.pathway().compound("f6p").unwrap();
+        let dg_before = s.analysis.steps[2].dg;
+        assert_eq!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(true));
+        assert_ne!(
+            s.analysis.steps[2].dg, dg_before,
+            "the analysis follows the edit"
+        );
+        assert_eq!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(false));
+        assert!(s.edit(|st| st.conc[f6p] = f64::NAN).is_err());
+        assert_eq!(s.poll(), Poll::Unchanged);
+        // An outside change is seen and reloaded; the edit and its undo stay.
+        let outside = crate::DEMO.replace(r#"conc = "12 mM""#, r#"conc = "20 mM""#);
+        std::fs::write(&path, &outside).unwrap();
+        assert!(s.changed_on_disk());
+        let Poll::Changed(Ok(text)) = s.poll() else {
+            panic!("the change is not seen")
+        };
+        let r = s.reload(text).unwrap();
+        assert_eq!(r.kept, 1);
+        let glc = s.pathway().compound("glc").unwrap();
+        assert_eq!((s.state().conc[glc], s.state().conc[f6p]), (20e-3, 2.5e-3));
+        assert!(s.scenario.undo());
+        assert_eq!(s.state().conc[glc], 20e-3);
+        assert!(s.scenario.redo());
+        // Writing makes the written text the base.
+        let st = s.state().clone();
+        s.write(&st).unwrap();
+        assert!(!save::is_dirty(s.pathway(), s.state()));
+        assert!(
+            std::fs::read_to_string(&path)
+                .unwrap()
+                .contains(r#"conc = "2.5 mM""#)
+        );
+        assert!(!s.changed_on_disk());
+    }
+}
