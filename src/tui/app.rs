@@ -5,12 +5,12 @@
 //! the scenario changed. Drawing lives in `view`; nothing here touches a
 //! terminal.
 
+pub use super::message::{Message, Mode, Options, Pane, Target, Tone};
 use crate::analysis::mca::{self, RangeJob};
 use crate::analysis::mdf::Mdf;
 use crate::analysis::{Direction, Prepared, StepResult};
 use crate::model::samples::Sample;
 use crate::model::{self, units};
-use crate::present::EnergyUnit;
 use crate::scenario::State;
 pub use crate::scenario::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
 use crate::scenario::save;
@@ -20,143 +20,6 @@ use std::path::PathBuf;
 
 /// One press of `+` / `-` multiplies or divides by 10^0.1.
 pub const FINE_STEP: f64 = 1.258_925_411_794_167_2;
-
-/// How the explorer draws.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub struct Options {
-    /// Draw with ASCII characters only.
-    pub ascii: bool,
-    /// Use colour (off on NO_COLOR).
-    pub color: bool,
-    /// Energy unit shown.
-    pub unit: EnergyUnit,
-}
-
-/// Which pane has the keyboard.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Pane {
-    /// Step list.
-    Steps,
-    /// Concentration pane.
-    Compounds,
-    /// Energy ladder.
-    Ladder,
-    /// Step detail.
-    Detail,
-}
-
-impl Pane {
-    const ORDER: [Pane; 4] = [Pane::Steps, Pane::Compounds, Pane::Ladder, Pane::Detail];
-    fn shift(self, by: isize) -> Pane {
-        let i = Self::ORDER.iter().position(|&p| p == self).unwrap_or(0) as isize;
-        Self::ORDER[(i + by).rem_euclid(4) as usize]
-    }
-}
-
-/// What an edit line changes.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Target {
-    /// A compound's concentration (index into compounds).
-    Conc(usize),
-    /// Temperature.
-    Temperature,
-    /// pH.
-    Ph,
-    /// Ionic strength.
-    IonicStrength,
-    /// The file to write the built-in demo to.
-    FileName,
-}
-
-/// What the keyboard is doing right now.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Mode {
-    /// Browsing.
-    Normal,
-    /// Typing a value; `error` is the inline message for a bad value.
-    Edit {
-        /// What the value is for.
-        target: Target,
-        /// Text typed so far.
-        buffer: String,
-        /// Why the last Enter was refused.
-        error: Option<String>,
-    },
-    /// Typing a name to find.
-    Find {
-        /// Text typed so far.
-        buffer: String,
-    },
-    /// The key overlay.
-    Help,
-    /// Unsaved edits: a second `q` quits.
-    ConfirmQuit,
-    /// The file changed on disk since it was read: `y` overwrites.
-    ConfirmOverwrite,
-}
-
-/// Tone of a status message.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Tone {
-    /// Plain information.
-    Info,
-    /// Something went wrong or needs attention.
-    Warn,
-}
-
-/// Everything that can happen to the explorer.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Message {
-    /// `q`: quit, or ask when there are unsaved edits.
-    Quit,
-    /// Ctrl-C: quit now.
-    ForceQuit,
-    /// `?`.
-    ToggleHelp,
-    /// Tab / Shift-Tab.
-    Focus(isize),
-    /// Up / Down in the focused pane.
-    Move(isize),
-    /// Start typing a value.
-    StartEdit(Target),
-    /// Up / Down in an edit line opened from a step: the step's previous / next compound.
-    Cycle(isize),
-    /// A character typed into the edit or find line.
-    Type(char),
-    /// Backspace in the edit or find line.
-    Erase,
-    /// Enter in the edit or find line.
-    Apply,
-    /// Esc.
-    Cancel,
-    /// Multiply the selected concentration.
-    Scale(f64),
-    /// `/`.
-    StartFind,
-    /// `r`.
-    ToggleReverse,
-    /// `w`: start or advance the walk along the route.
-    Walk,
-    /// `o`: load the optimal concentrations of the driving-force optimisation.
-    LoadOptimum,
-    /// `[` / `]`: the previous / next sample of the samples table.
-    Sample(isize),
-    /// `u`.
-    Undo,
-    /// Ctrl-r.
-    Redo,
-    /// `s`: write the person's edits into the file.
-    Save,
-    /// `S`: write the shown values, a sample's included, into the file.
-    SaveShown,
-    /// Answer to the overwrite question.
-    Overwrite(bool),
-    /// The file on disk changed: its new text (or why it could not be read).
-    Reloaded(Result<String, String>),
-    /// F12 in a build with the `test-panic` feature.
-    #[cfg(feature = "test-panic")]
-    Panic,
-}
 
 /// The explorer's whole state: a `Session` (the document: pathway,
 /// history, analysis, optimisation, file) plus what the screen shows.
@@ -394,24 +257,6 @@ impl App {
         side(true).chain(side(false)).collect()
     }
 
-    /// Moves an edit line opened from a step to the step's next compound.
-    fn cycle_edit(&mut self, by: isize) {
-        let n = self.edit_choices.len();
-        if let Mode::Edit {
-            target: target @ Target::Conc(_),
-            error,
-            ..
-        } = &mut self.mode
-            && n > 0
-        {
-            let Target::Conc(at) = *target else { return };
-            let i = self.edit_choices.iter().position(|&c| c == at).unwrap_or(0);
-            let next = (i as isize + by).rem_euclid(n as isize) as usize;
-            *target = Target::Conc(self.edit_choices[next]);
-            *error = None;
-        }
-    }
-
     /// True when step row `k` uses compound `c`.
     pub fn step_uses(&self, k: usize, c: usize) -> bool {
         self.step_row(k)
@@ -435,20 +280,7 @@ impl App {
             self.status = None;
         }
         match msg {
-            Message::Quit => {
-                if self.mode == Mode::Help {
-                    self.mode = Mode::Normal;
-                }
-                if self.dirty() {
-                    self.mode = Mode::ConfirmQuit;
-                    self.say(
-                        "unsaved edits: press q again to quit without saving, s to save",
-                        Tone::Warn,
-                    );
-                } else {
-                    self.quit = true;
-                }
-            }
+            Message::Quit => self.ask_quit(),
             Message::ForceQuit => self.quit = true,
             Message::ToggleHelp => {
                 self.mode = if self.mode == Mode::Help {
@@ -462,147 +294,95 @@ impl App {
                 self.walk = None;
             }
             Message::Move(by) => self.move_by(by),
-            Message::StartEdit(target) => {
-                if let Target::Conc(i) = target
-                    && self.pathway().compounds[i].is_solvent()
-                {
-                    let id = self.pathway().compounds[i].id.clone();
-                    self.say(
-                        format!("{id} is a solvent (activity 1): it has no concentration to edit"),
-                        Tone::Warn,
-                    );
-                    return;
-                }
-                self.status = None;
-                self.edit_choices = match target {
-                    Target::Conc(_) if self.focus != Pane::Compounds => self.step_compounds(),
-                    _ => Vec::new(),
-                };
-                self.mode = Mode::Edit {
-                    target,
-                    buffer: String::new(),
-                    error: None,
-                };
-            }
+            Message::StartEdit(target) => self.start_edit(target),
             Message::Cycle(by) => self.cycle_edit(by),
-            Message::Type(c) => match &mut self.mode {
-                Mode::Edit { buffer, error, .. } => {
-                    buffer.push(c);
-                    *error = None;
-                }
-                Mode::Find { buffer } => {
-                    buffer.push(c);
-                    let q = buffer.clone();
-                    self.find(&q, false);
-                }
-                _ => {}
-            },
-            Message::Erase => match &mut self.mode {
-                Mode::Edit { buffer, error, .. } => {
-                    buffer.pop();
-                    *error = None;
-                }
-                Mode::Find { buffer } => {
-                    buffer.pop();
-                }
-                _ => {}
-            },
+            Message::Type(c) => self.type_char(c),
+            Message::Erase => self.erase(),
             Message::Apply => self.apply(),
-            Message::Cancel => {
-                if let Mode::Find { .. } = self.mode {
-                    (self.focus, self.step_sel, self.comp_sel) = self.find_from;
-                    self.say("find cancelled", Tone::Info);
-                } else if let Mode::Edit { .. } = self.mode {
-                    self.say("cancelled; nothing changed", Tone::Info);
-                } else if self.walk.is_some() {
-                    self.say("walk ended", Tone::Info);
-                } else {
-                    self.status = None;
-                }
-                self.mode = Mode::Normal;
-                self.walk = None;
-            }
-            Message::Scale(f) => {
-                let i = self.comp_sel;
-                if self.pathway().compounds[i].is_solvent() {
-                    let id = self.pathway().compounds[i].id.clone();
-                    self.say(format!("{id} is a solvent (activity 1)"), Tone::Warn);
-                    return;
-                }
-                // Rounded to three figures in the unit it is saved in, so the
-                // screen, the analysis and the file agree.
-                let v = crate::scenario::optimum::round_conc_sig3(
-                    self.state().conc[i] * f,
-                    0.0,
-                    f64::INFINITY,
-                );
-                self.set_conc(i, v);
-                if self.focus != Pane::Compounds
-                    && let Some((text, tone)) = self.status.take()
-                {
-                    let m = format!("{text} (the compound selected in the concentration pane)");
-                    self.say(m, tone);
-                }
-            }
-            Message::StartFind => {
-                self.status = None;
-                self.find_from = (self.focus, self.step_sel, self.comp_sel);
-                self.edit_choices.clear();
-                self.mode = Mode::Find {
-                    buffer: String::new(),
-                }
-            }
-            Message::ToggleReverse => {
-                let next = self.state().direction.flipped();
-                if let (Direction::Reverse, Err(e)) = (next, &self.prep.reverse) {
-                    let m = format!("the route cannot run in reverse: {}", e.message);
-                    self.say(m, Tone::Warn);
-                    return;
-                }
-                let keep = self.selected_step().map(|s| s.step);
-                if self.commit(|s| s.direction = next) {
-                    self.reselect(keep);
-                    self.say(format!("route runs {}", next.as_str()), Tone::Info);
-                }
-            }
+            Message::Cancel => self.cancel(),
+            Message::Scale(f) => self.scale(f),
+            Message::StartFind => self.start_find(),
+            Message::ToggleReverse => self.toggle_reverse(),
             Message::Walk => self.walk_next(),
             Message::LoadOptimum => self.load_optimum(),
             Message::Sample(by) => self.step_sample(by),
-            Message::Undo => {
-                if self.session.scenario.undo() {
-                    self.recompute();
-                    self.say("undone", Tone::Info);
-                } else {
-                    self.say("nothing to undo", Tone::Info);
-                }
-            }
-            Message::Redo => {
-                if self.session.scenario.redo() {
-                    self.recompute();
-                    self.say("redone", Tone::Info);
-                } else {
-                    self.say("nothing to redo", Tone::Info);
-                }
-            }
+            Message::Undo => self.undo_redo(true),
+            Message::Redo => self.undo_redo(false),
             Message::Save => self.save(false, false),
             Message::SaveShown => self.save(false, true),
-            Message::Overwrite(yes) => {
-                self.mode = Mode::Normal;
-                if let Some(path) = self.save_as.take() {
-                    if yes {
-                        self.write_demo_to(path, true);
-                    } else {
-                        self.say("not saved; that file is unchanged", Tone::Info);
-                    }
-                } else if yes {
-                    self.save(true, self.save_shown);
-                } else {
-                    self.say("not saved; the file on disk is unchanged", Tone::Info);
-                }
-            }
+            Message::Overwrite(yes) => self.answer_overwrite(yes),
             Message::Reloaded(r) => self.reload(r),
             #[cfg(feature = "test-panic")]
             Message::Panic => panic!("test-panic: F12 pressed"),
+        }
+    }
+
+    /// Multiplies the concentration pane's compound by `f`, rounded to three figures.
+    pub(super) fn scale(&mut self, f: f64) {
+        let i = self.comp_sel;
+        if self.pathway().compounds[i].is_solvent() {
+            let id = self.pathway().compounds[i].id.clone();
+            self.say(format!("{id} is a solvent (activity 1)"), Tone::Warn);
+            return;
+        }
+        // Rounded to three figures in the unit it is saved in, so the
+        // screen, the analysis and the file agree.
+        let v =
+            crate::scenario::optimum::round_conc_sig3(self.state().conc[i] * f, 0.0, f64::INFINITY);
+        self.set_conc(i, v);
+        if self.focus != Pane::Compounds
+            && let Some((text, tone)) = self.status.take()
+        {
+            let m = format!("{text} (the compound selected in the concentration pane)");
+            self.say(m, tone);
+        }
+    }
+
+    /// Turns the route round, keeping the selected step.
+    pub(super) fn toggle_reverse(&mut self) {
+        let next = self.state().direction.flipped();
+        if let (Direction::Reverse, Err(e)) = (next, &self.prep.reverse) {
+            let m = format!("the route cannot run in reverse: {}", e.message);
+            self.say(m, Tone::Warn);
+            return;
+        }
+        let keep = self.selected_step().map(|s| s.step);
+        if self.commit(|s| s.direction = next) {
+            self.reselect(keep);
+            self.say(format!("route runs {}", next.as_str()), Tone::Info);
+        }
+    }
+
+    /// `q`: quits, or asks first when there are unsaved edits.
+    pub(super) fn ask_quit(&mut self) {
+        if self.mode == Mode::Help {
+            self.mode = Mode::Normal;
+        }
+        if self.dirty() {
+            self.mode = Mode::ConfirmQuit;
+            self.say(
+                "unsaved edits: press q again to quit without saving, s to save",
+                Tone::Warn,
+            );
+        } else {
+            self.quit = true;
+        }
+    }
+
+    /// Undo (`back`) or redo one edit.
+    fn undo_redo(&mut self, back: bool) {
+        let done = if back {
+            self.session.scenario.undo()
+        } else {
+            self.session.scenario.redo()
+        };
+        match (done, back) {
+            (true, _) => {
+                self.recompute();
+                self.say(if back { "undone" } else { "redone" }, Tone::Info);
+            }
+            (false, true) => self.say("nothing to undo", Tone::Info),
+            (false, false) => self.say("nothing to redo", Tone::Info),
         }
     }
 

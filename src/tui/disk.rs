@@ -7,6 +7,22 @@ use crate::scenario::session::Poll;
 use std::path::PathBuf;
 
 impl App {
+    /// The answer to the overwrite question.
+    pub(super) fn answer_overwrite(&mut self, yes: bool) {
+        self.mode = Mode::Normal;
+        if let Some(path) = self.save_as.take() {
+            if yes {
+                self.write_demo_to(path, true);
+            } else {
+                self.say("not saved; that file is unchanged", Tone::Info);
+            }
+        } else if yes {
+            self.save(true, self.save_shown);
+        } else {
+            self.say("not saved; the file on disk is unchanged", Tone::Info);
+        }
+    }
+
     /// Writes the edits (with `shown`, the shown sample's values too) into the file.
     pub(super) fn save(&mut self, force: bool, shown: bool) {
         if self.source.path.is_none() {

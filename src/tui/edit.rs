@@ -1,7 +1,7 @@
 //! The edit line: checking a typed value before it is applied, applying it,
 //! and loading the optimal concentrations.
 
-use super::app::{App, LIVE_MDF_MAX_STEPS, Mode, Target, Tone};
+use super::app::{App, LIVE_MDF_MAX_STEPS, Mode, Pane, Target, Tone};
 use crate::analysis::mdf::Part;
 use crate::model::units::Kind;
 use crate::model::{Pathway, check};
@@ -30,6 +30,104 @@ fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> 
 }
 
 impl App {
+    /// Moves an edit line opened from a step to the step's next compound.
+    pub(super) fn cycle_edit(&mut self, by: isize) {
+        let n = self.edit_choices.len();
+        if let Mode::Edit {
+            target: target @ Target::Conc(_),
+            error,
+            ..
+        } = &mut self.mode
+            && n > 0
+        {
+            let Target::Conc(at) = *target else { return };
+            let i = self.edit_choices.iter().position(|&c| c == at).unwrap_or(0);
+            let next = (i as isize + by).rem_euclid(n as isize) as usize;
+            *target = Target::Conc(self.edit_choices[next]);
+            *error = None;
+        }
+    }
+
+    /// A character typed into the edit or find line.
+    pub(super) fn type_char(&mut self, c: char) {
+        match &mut self.mode {
+            Mode::Edit { buffer, error, .. } => {
+                buffer.push(c);
+                *error = None;
+            }
+            Mode::Find { buffer } => {
+                buffer.push(c);
+                let q = buffer.clone();
+                self.find(&q, false);
+            }
+            _ => {}
+        }
+    }
+
+    /// Backspace in the edit or find line.
+    pub(super) fn erase(&mut self) {
+        match &mut self.mode {
+            Mode::Edit { buffer, error, .. } => {
+                buffer.pop();
+                *error = None;
+            }
+            Mode::Find { buffer } => {
+                buffer.pop();
+            }
+            _ => {}
+        }
+    }
+
+    /// Opens the edit line for `target` (with a step focused: the step's compounds for Up/Down).
+    pub(super) fn start_edit(&mut self, target: Target) {
+        if let Target::Conc(i) = target
+            && self.pathway().compounds[i].is_solvent()
+        {
+            let id = self.pathway().compounds[i].id.clone();
+            self.say(
+                format!("{id} is a solvent (activity 1): it has no concentration to edit"),
+                Tone::Warn,
+            );
+            return;
+        }
+        self.status = None;
+        self.edit_choices = match target {
+            Target::Conc(_) if self.focus != Pane::Compounds => self.step_compounds(),
+            _ => Vec::new(),
+        };
+        self.mode = Mode::Edit {
+            target,
+            buffer: String::new(),
+            error: None,
+        };
+    }
+
+    /// Esc: closes a line (a find puts the selection back) or ends a walk.
+    pub(super) fn cancel(&mut self) {
+        if let Mode::Find { .. } = self.mode {
+            (self.focus, self.step_sel, self.comp_sel) = self.find_from;
+            self.say("find cancelled", Tone::Info);
+        } else if let Mode::Edit { .. } = self.mode {
+            self.say("cancelled; nothing changed", Tone::Info);
+        } else if self.walk.is_some() {
+            self.say("walk ended", Tone::Info);
+        } else {
+            self.status = None;
+        }
+        self.mode = Mode::Normal;
+        self.walk = None;
+    }
+
+    /// Opens the find line, remembering the selections to restore on Esc.
+    pub(super) fn start_find(&mut self) {
+        self.status = None;
+        self.find_from = (self.focus, self.step_sel, self.comp_sel);
+        self.edit_choices.clear();
+        self.mode = Mode::Find {
+            buffer: String::new(),
+        }
+    }
+
     pub(super) fn apply(&mut self) {
         match std::mem::replace(&mut self.mode, Mode::Normal) {
             Mode::Find { buffer } => {

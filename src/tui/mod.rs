@@ -22,6 +22,7 @@ pub mod export;
 pub mod find;
 pub mod keymap;
 pub mod keys;
+pub mod message;
 pub mod nav;
 pub mod sample;
 pub mod view;
