@@ -304,3 +304,37 @@ fn a_panic_in_the_explorer_restores_the_terminal() {
     );
     assert_eq!(status, 101, "a panic exits with 101:\n{s}");
 }
+
+#[test]
+fn a_terminal_below_the_minimum_says_so_and_a_larger_one_draws_again() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("fermenter.toml"), dgpath::DEMO).unwrap();
+    let t = Tmux::new(dir.path(), "small");
+    t.start(
+        dir.path(),
+        &format!(
+            "env NO_COLOR=1 TERM=xterm-256color {} explore fermenter.toml",
+            env!("CARGO_BIN_EXE_dgpath")
+        ),
+    );
+    t.wait("the first frame", |s| {
+        s.contains("Steps (") && s.contains("? keys")
+    });
+    t.cmd(&["resize-window", "-t", "t", "-x", "60", "-y", "20"]);
+    let s = t.wait("the too-small message", |s| {
+        s.contains("terminal too small")
+    });
+    assert!(s.contains("needs 80×24") && s.contains("is 60×20"), "{s}");
+    assert!(!s.contains("Steps ("), "{s}");
+    t.cmd(&["resize-window", "-t", "t", "-x", "80", "-y", "24"]);
+    let s = t.wait("the screen again", |s| {
+        s.contains("Steps (") && s.contains(" more")
+    });
+    assert!(!s.contains("terminal too small"), "{s}");
+    t.keys(&["q"]);
+    assert_eq!(t.wait_exit(), 0);
+    t.settle(|_| true);
+}

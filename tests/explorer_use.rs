@@ -384,3 +384,33 @@ fn one_key_table_makes_the_handling_the_overlay_and_the_hint_line() {
         "{hint}"
     );
 }
+
+#[test]
+fn screenshot_refuses_an_unknown_key_name_and_lists_the_valid_ones() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+        .args(["screenshot", "pathways/fermenter.toml", "-o"])
+        .arg(dir.path().join("shot"))
+        .args(["--keys", "Tab Frobnicate"])
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("unknown key 'Frobnicate'") && err.contains("PageDown"),
+        "{err}"
+    );
+    assert!(!dir.path().join("shot.txt").exists(), "nothing written");
+    // Quoted text is typed.
+    let ok = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+        .args(["screenshot", "pathways/fermenter.toml", "-o"])
+        .arg(dir.path().join("shot"))
+        .args(["--keys", "Tab Down Down Enter '2.5 mM'"])
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .unwrap();
+    assert!(ok.status.success());
+    let text = std::fs::read_to_string(dir.path().join("shot.txt")).unwrap();
+    assert!(text.contains("f6p (now 0.35 mM) = 2.5 mM"), "{text}");
+}
