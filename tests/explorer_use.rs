@@ -341,6 +341,12 @@ fn the_ladder_header_says_cumulative_and_the_help_lists_every_glyph() {
         assert!(help.contains(&format!("{g} ")), "legend lacks {g}:\n{help}");
     }
     assert!(help.contains("rung (cumulative dG')"), "{help}");
+    // At the minimum size the whole overlay, legend included, fits.
+    let min = screen(&app, 80, 24);
+    assert!(
+        min.contains("│ q / Ctrl-c") && min.contains("… cut   │"),
+        "{min}"
+    );
     app.opts.ascii = true;
     let help = screen(&app, 120, 40);
     assert!(help.is_ascii());

@@ -87,16 +87,17 @@ pub const BINDINGS: &[Binding] = &[
     Binding {
         when: Always,
         keys: Keys::Ctrl('c'),
-        label: "Ctrl-c",
-        help: "quit at once",
+        // Shown on the `q` row.
+        label: "",
+        help: "",
         hint: None,
         message: |_, _| Some(Message::ForceQuit),
     },
     plain(
         Browse,
         &[Char('q')],
-        "q",
-        "quit (a second q confirms when there are unsaved edits)",
+        "q / Ctrl-c",
+        "quit (a second q confirms unsaved edits) / at once",
         None,
         |_, _| Some(Message::Quit),
     ),
@@ -182,7 +183,7 @@ pub const BINDINGS: &[Binding] = &[
         Browse,
         &[Char('+'), Char('='), Char('-')],
         "+ / -",
-        "selected concentration up / down a tenth of a decade (×10^0.1)",
+        "selected concentration up / down by 10^0.1",
         Some("+/- ×10^0.1"),
         |_, k| {
             Some(Message::Scale(if k == Char('-') {
@@ -196,7 +197,7 @@ pub const BINDINGS: &[Binding] = &[
         Browse,
         &[Char('>'), Char('<')],
         "> / <",
-        "selected concentration up / down tenfold",
+        "selected concentration up / down by 10",
         Some("</> ×10"),
         |_, k| Some(Message::Scale(if k == Char('>') { 10.0 } else { 0.1 })),
     ),
@@ -273,19 +274,14 @@ pub const BINDINGS: &[Binding] = &[
     plain(
         Browse,
         &[Char('s')],
-        "s",
-        "save your edits into the file (a sample is a view)",
+        "s / S",
+        "save your edits (a sample is a view) / the values shown",
         Some("s save"),
         |_, _| Some(Message::Save),
     ),
-    plain(
-        Browse,
-        &[Char('S')],
-        "S",
-        "save the values shown, the sample's included",
-        None,
-        |_, _| Some(Message::SaveShown),
-    ),
+    plain(Browse, &[Char('S')], "", "", None, |_, _| {
+        Some(Message::SaveShown)
+    }),
     plain(
         Browse,
         &[Esc],

@@ -19,18 +19,18 @@ pub fn key_rows() -> impl Iterator<Item = (&'static str, &'static str)> {
 
 /// Every glyph of the screen, by pane.
 pub const LEGEND: [&str; 4] = [
-    " steps: ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ MDF bottleneck",
+    " steps: ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck",
     " verdict: ◆ control point ◇ candidate · not here; ctrl ▁…█ flux control 0…1",
-    " ladder: ━ drop █ largest drop ╍ rise ┃ rung (cumulative dG') │─ dG'° ┌│└ coupled",
-    "   ├─┤ / ±x: 1 sd; ┊ next start · lists: ▶ selected • used by it * unsaved … cut",
+    " ladder: ━ drop █ largest ╍ rise ┃ rung (cumulative dG') │─ dG'° ┌│└ coupled",
+    "   ├─┤ ±x 1 sd ┊ next start; lists: ▶ selected • used by it * unsaved … cut",
 ];
 
 /// The legend in ASCII (each stand-in distinct within its pane).
 pub const LEGEND_ASCII: [&str; 4] = [
-    " steps: v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ MDF bottleneck",
-    " verdict: * control point o candidate - not here; ctrl .:-=+*#@ flux control 0..1",
-    " ladder: = drop # largest drop ~ rise | rung (cumulative dG') :- dG'o /|\\ coupled",
-    "   [-] / +-x: 1 sd; : next start | lists: > selected + used by it * unsaved $ cut",
+    " steps: v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck",
+    " verdict: * control point o candidate - not here; ctrl .:-=+*#@ 0 to 1",
+    " ladder: = drop # largest ~ rise | rung (cumulative dG') :- dG'o /|\\ coupled",
+    "   [-] +-x 1 sd : next start; lists: > selected + used by it * unsaved $ cut",
 ];
 
 /// Draws the key overlay.
