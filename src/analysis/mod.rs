@@ -103,6 +103,12 @@ pub struct StepResult {
     pub contributions: Vec<Contribution>,
     /// The standard energy was kept at the reference temperature (no dh0).
     pub kept_reference_dg0: bool,
+    /// pH and ionic strength were applied through the reactant model (every
+    /// reactant has charge and hydrogens); otherwise `protons` only.
+    pub species: bool,
+    /// A route step that, as run, has dG' > 0: it runs backward at these
+    /// concentrations (always false for side steps).
+    pub against: bool,
     /// Index into `Analysis::control` when this step has a verdict.
     pub verdict: Option<usize>,
 }
@@ -120,7 +126,8 @@ impl StepResult {
     pub fn flux_ratio(&self, rt: f64) -> f64 {
         (-self.dg / rt).exp()
     }
-    /// Share of forward flux undone by the reverse flux, e^{dG'/RT}.
+    /// Share of forward flux undone by the reverse flux, e^{dG'/RT}; None
+    /// unless dG' < 0 (with dG' ≥ 0 there is no net forward flux to undo).
     pub fn reverse_share(&self, rt: f64) -> f64 {
         (self.dg / rt).exp()
     }
@@ -173,6 +180,10 @@ pub struct Analysis {
     pub total_dg: f64,
     /// sd of the total, when known.
     pub total_sd: Option<f64>,
+    /// Route steps that give no dg0_sd (the total's sd leaves their dG'° out).
+    pub steps_without_dg0_sd: usize,
+    /// No route step runs backward (no step is `against`).
+    pub runs_forward: bool,
     /// Net change per pass of inputs, outputs and currencies: (compound, amount).
     pub net: Vec<(usize, f64)>,
     /// Position in `steps` of the largest weighted drop.
@@ -322,6 +333,8 @@ fn step_result(
         share: 0.0,
         contributions,
         kept_reference_dg0: corr.kept_reference_dg0,
+        species: corr.species,
+        against: false,
         verdict: None,
     }
 }
@@ -366,6 +379,10 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         .iter()
         .map(|r| step_result(p, r.step, r.sign, r.times, r.replaces, state))
         .collect();
+    for s in &mut steps {
+        // science.md §10: a step carrying net forward flux must have dG' < 0.
+        s.against = s.dg > 0.0;
+    }
     let side: Vec<StepResult> = route
         .side
         .iter()
@@ -436,6 +453,12 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         total_dg0: steps.iter().map(|s| s.times * s.dg0).sum(),
         total_dg: steps.iter().map(|s| s.weighted()).sum(),
         total_sd,
+        steps_without_dg0_sd: route
+            .steps
+            .iter()
+            .filter(|r| p.steps[r.step].dg0_sd.is_none())
+            .count(),
+        runs_forward: steps.iter().all(|s| !s.against),
         steps,
         side,
         groups,
@@ -482,33 +505,23 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
             ));
         }
     }
-    if (c.ionic_strength - r.ionic_strength).abs() > 1e-12 {
-        let mut lacking: Vec<&str> = Vec::new();
-        for s in &all {
-            for &(ci, _) in &p.steps[s.step].stoich {
-                let comp = &p.compounds[ci];
-                if !comp.is_solvent()
-                    && (comp.charge.is_none() || comp.hydrogens.is_none())
-                    && !lacking.contains(&comp.id.as_str())
-                {
-                    lacking.push(&comp.id);
-                }
-            }
-        }
-        if !lacking.is_empty() {
-            out.push(format!(
-                "ionic strength {} M differs from the reference {} M, but {} lack charge and hydrogens, so their part is not corrected.",
-                c.ionic_strength,
-                r.ionic_strength,
-                list(&lacking)
-            ));
-        }
-        if !(0.05..=0.25).contains(&c.ionic_strength) {
-            out.push(format!(
-                "ionic strength {} M is outside 0.05–0.25 M, where the extended Debye–Hückel correction is reliable.",
-                c.ionic_strength
-            ));
-        }
+    out.extend(species_notes(p, &all, c, r));
+    let against: Vec<&str> = a
+        .steps
+        .iter()
+        .filter(|s| s.against)
+        .map(|s| p.steps[s.step].id.as_str())
+        .collect();
+    if !against.is_empty() {
+        let (verb, it) = if against.len() == 1 {
+            ("runs", "its")
+        } else {
+            ("run", "their")
+        };
+        out.push(format!(
+            "The route cannot carry forward flux at these concentrations: {} {verb} backward ({it} dG' > 0, whatever the class or coupling).",
+            list(&against)
+        ));
     }
     for s in &a.steps {
         if s.class == Class::Uphill {
@@ -519,7 +532,7 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
                 .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
             match grp {
                 Some(g) if g.dg < 0.0 => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol) but its coupled group runs downhill ({:+.1} kJ/mol).",
+                    "{id} is uphill (dG' = {:+.1} kJ/mol) and its coupled group runs downhill ({:+.1} kJ/mol); coupling can only lower its dG' through the concentrations it sets, so at these concentrations {id} still runs backward.",
                     s.dg / 1e3,
                     g.dg / 1e3
                 )),
@@ -575,6 +588,61 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
     }
     out
 }
+
+/// Notes on how pH and ionic strength were applied (science.md §4).
+fn species_notes(
+    p: &Pathway,
+    all: &[&StepResult],
+    c: &crate::model::Conditions,
+    r: &crate::model::Conditions,
+) -> Vec<String> {
+    let mut out = Vec::new();
+    let ph_moves = c.ph != r.ph;
+    let i_moves = c.ionic_strength != r.ionic_strength;
+    if ph_moves || i_moves {
+        let mut steps: Vec<&str> = Vec::new();
+        let mut lacking: Vec<&str> = Vec::new();
+        for s in all.iter().filter(|s| !s.species) {
+            let st = &p.steps[s.step];
+            if !steps.contains(&st.id.as_str()) {
+                steps.push(&st.id);
+            }
+            for id in thermo::species::lacking(st, &p.compounds) {
+                if !lacking.contains(&id) {
+                    lacking.push(id);
+                }
+            }
+        }
+        if !steps.is_empty() {
+            let (verb, what) = if lacking.len() == 1 {
+                ("lacks", "it")
+            } else {
+                ("lack", "them")
+            };
+            let how = if i_moves {
+                "moved to the pH by `protons` only and get no ionic-strength correction"
+            } else {
+                "moved to the pH by `protons` only (no pKa)"
+            };
+            out.push(format!(
+                "{} {how}: {} {verb} charge and hydrogens (give {what} charge, hydrogens and pka for the reactant model).",
+                list(&steps),
+                list(&lacking)
+            ));
+        }
+    }
+    if i_moves && c.ionic_strength > MAX_IONIC_STRENGTH {
+        out.push(format!(
+            "ionic strength {} M is above {MAX_IONIC_STRENGTH} M, beyond the range where the extended Debye–Hückel correction holds.",
+            c.ionic_strength
+        ));
+    }
+    out
+}
+
+/// Above this ionic strength (mol/L) the extended Debye–Hückel term is not
+/// reliable (science.md §4).
+pub const MAX_IONIC_STRENGTH: f64 = 0.3;
 
 fn list(ids: &[&str]) -> String {
     if ids.len() > 6 {
