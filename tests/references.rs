@@ -171,12 +171,12 @@ fn ionic_strength_correction_through_a_file() {
     let prep = prepare_str(text, "ionic.toml");
     let a = analyze(&prep);
     close(a.steps[0].dg0 / 1e3, -5.0 - 3.239, 5e-4);
-    // Outside 0.05–0.25 M the correction is flagged (science.md §4).
-    let low = analyze_with(&prep, |s| s.conditions.ionic_strength = 0.01);
+    // Above 0.3 M the correction is flagged (science.md §4).
+    let high = analyze_with(&prep, |s| s.conditions.ionic_strength = 0.35);
     assert!(
-        low.notes.iter().any(|n| n.contains("outside 0.05–0.25 M")),
+        high.notes.iter().any(|n| n.contains("above 0.3 M")),
         "{:?}",
-        low.notes
+        high.notes
     );
 }
 

@@ -8,6 +8,7 @@ mod mdf;
 #[cfg(feature = "plot")]
 mod plot;
 mod properties;
+mod reactants;
 mod references;
 mod regressions;
 mod samples;

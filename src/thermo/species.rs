@@ -138,6 +138,32 @@ mod tests {
         assert!((f - want).abs() < 1e-6, "{f} vs {want}");
     }
 
+    proptest::proptest! {
+        /// With no pKa the reactant model is the earlier linear model:
+        /// −protons RT ln10 ΔpH with protons = −Σ ν nH, plus the extended
+        /// Debye–Hückel term of each base species.
+        #[test]
+        fn no_pka_is_the_linear_model(
+            species in proptest::collection::vec((-4i32..=1, 0i32..=30, -3i32..=3), 1..6),
+            ph in 5.0..9.0f64, ph_ref in 5.0..9.0f64,
+            i in 0.0..0.3f64, i_ref in 0.0..0.3f64,
+            t in 273.15..323.15f64,
+        ) {
+            let mut shift = 0.0;
+            let mut protons = 0.0;
+            let mut ionic = 0.0;
+            for &(z, h, nu) in &species {
+                let (z, h, nu) = (z as f64, h as f64, nu as f64);
+                let r = one(z, h, &[]);
+                shift += nu * (transformed_formation(&r, t, ph, i) - transformed_formation(&r, t, ph_ref, i_ref));
+                protons -= nu * h;
+                ionic += nu * (species_ionic_term(z, h, i, t) - species_ionic_term(z, h, i_ref, t));
+            }
+            let linear = -protons * rt(t) * LN_10 * (ph - ph_ref) + ionic;
+            proptest::prop_assert!((shift - linear).abs() < 1e-6 * (1.0 + linear.abs()), "{} vs {}", shift, linear);
+        }
+    }
+
     #[test]
     fn far_pka_does_not_overflow() {
         let pk = [14.0, 13.0, 12.0, 11.0];
