@@ -300,3 +300,90 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn feasible_ranges_of_the_worked_chain() {
+    // The worked chain with B = 0 (science.md §10): every x_j ≤ x_{j−1} − dG'°_j/RT inside
+    // 1 µM–10 mM is a system of difference constraints, so [C]:
+    // max x_j = min over a ≤ j of (u_a − Σ_{a<i≤j} dG'°_i/RT), min x_j = max over b ≥ j of
+    // (l_b + Σ_{j<i≤b} dG'°_i/RT).
+    let prep = prepared(&chain(&WORKED, &DEFAULT_BOUNDS, "25 C"));
+    let state = State::from_pathway(&prep.pathway);
+    let m = solve_with_ranges(&prep, &state).expect("solves");
+    let f = m.feasible_ranges.as_ref().expect("MDF > 0 gives feasible ranges");
+    let rt = m.rt;
+    let (l, u) = (1e-6f64.ln(), 1e-2f64.ln());
+    let n = WORKED.len();
+    for j in 0..=n {
+        let mut hi = u;
+        for a in 0..j {
+            let s: f64 = WORKED[a..j].iter().sum();
+            hi = hi.min(u - s / rt);
+        }
+        let mut lo = l;
+        for b in j + 1..=n {
+            let s: f64 = WORKED[j..b].iter().sum();
+            lo = lo.max(l + s / rt);
+        }
+        assert!(
+            (f[j].0.ln() - lo).abs() < 1e-5 && (f[j].1.ln() - hi).abs() < 1e-5,
+            "S{j}: {:?} vs ({}, {})",
+            f[j],
+            lo.exp(),
+            hi.exp()
+        );
+    }
+    // S1 can run the route between 56.5 µM (S2 at 1 µM behind a +10 kJ/mol step) and 10 mM.
+    assert!((f[1].0 * 1e6 - 56.5).abs() < 0.1, "{:?}", f[1]);
+    // Each feasible range holds the MDF range.
+    let r = m.ranges.as_ref().expect("ranges");
+    for (a, b) in r.iter().zip(f) {
+        assert!(b.0 <= a.0 * (1.0 + 1e-9) && a.1 <= b.1 * (1.0 + 1e-9), "{a:?} in {b:?}");
+    }
+}
+
+#[test]
+fn negative_mdf_has_no_feasible_ranges() {
+    let prep = prepared(&chain(&[40e3], &DEFAULT_BOUNDS[..2], "25 C"));
+    let state = State::from_pathway(&prep.pathway);
+    let m = solve_with_ranges(&prep, &state).expect("solves");
+    assert!(m.value < 0.0);
+    assert!(m.ranges.is_some() && m.feasible_ranges.is_none());
+}
+
+/// a + atp -> b + adp with dG'° = 0, carriers at 1 mM; `extra` goes into atp's table.
+fn kinase(extra: &str) -> String {
+    format!(
+        "format = 1\n[pathway]\nname = \"k\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
+         a = {{ conc = \"1 mM\" }}\nb = {{ conc = \"1 mM\" }}\n\
+         atp = {{ conc = \"1 mM\", role = \"currency\"{extra} }}\nadp = {{ conc = \"1 mM\", role = \"currency\" }}\n\
+         [[steps]]\nid = \"k1\"\nreaction = \"a + atp -> b + adp\"\ndg0 = 0\n"
+    )
+}
+
+#[test]
+fn carriers_are_held_unless_freed() {
+    // Held at 1 mM each, only a and b move within 1 µM–10 mM: MDF = RT ln(1e-2 / 1e-6) [C].
+    let prep = prepared(&kinase(""));
+    let state = State::from_pathway(&prep.pathway);
+    let m = solve(&prep, &state).expect("solves");
+    assert!((m.value - m.rt * 1e4f64.ln()).abs() < 1e-3, "{}", m.value);
+    let (atp, adp) = (prep.pathway.compound("atp"), prep.pathway.compound("adp"));
+    let (atp, adp) = (atp.expect("atp"), adp.expect("adp"));
+    assert_eq!((m.parts[atp], m.parts[adp]), (Part::Held, Part::Held));
+    assert_optimal(&prep, &state, &m);
+    // --free-currencies: the carriers also move, to 10 mM ATP and 1 µM ADP: RT ln 1e8 [C].
+    let free = Options {
+        free_currencies: true,
+        ..Options::default()
+    };
+    let m = solve_with(&prep, &state, &free).expect("solves");
+    assert!((m.value - m.rt * 1e8f64.ln()).abs() < 1e-3, "{}", m.value);
+    assert_eq!((m.parts[atp], m.parts[adp]), (Part::Free, Part::Free));
+    assert_optimal(&prep, &state, &m);
+    // fixed = false frees ATP alone (to 10 mM; ADP stays at 1 mM): RT ln 1e5 [C].
+    let prep = prepared(&kinase(", fixed = false"));
+    let m = solve(&prep, &state).expect("solves");
+    assert!((m.value - m.rt * 1e5f64.ln()).abs() < 1e-3, "{}", m.value);
+    assert_eq!((m.parts[atp], m.parts[adp]), (Part::Free, Part::Held));
+}
