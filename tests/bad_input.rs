@@ -164,20 +164,6 @@ fn several_mistakes_are_all_reported() {
 }
 
 #[test]
-fn missing_file_is_refused() {
-    let dir = tempfile::tempdir().unwrap();
-    let f = dir.path().join("nothere.toml");
-    let out = run(&["check", f.to_str().unwrap()]);
-    let (_, err) = texts(&out);
-    assert_eq!(out.status.code(), Some(1));
-    assert!(
-        err.contains("nothere.toml") && err.contains("no such file"),
-        "{err}"
-    );
-    assert!(!err.contains("panicked"));
-}
-
-#[test]
 fn directory_is_refused() {
     let dir = tempfile::tempdir().unwrap();
     let out = run(&["check", dir.path().to_str().unwrap()]);

@@ -363,8 +363,8 @@ fn units_in_a_file() {
     close(a.steps[0].dg0, -16_736.0, 1e-9);
     close(a.steps[1].dg0, -4_000.0, 1e-9);
     close(a.steps[2].dg0, -4_000.0, 1e-9);
-    let t = prepare_str(&text.replace("\"25 C\"", "\"77 K\""), "u.toml");
-    close(t.pathway.conditions.temperature, 77.0, 0.0);
+    let t = prepare_str(&text.replace("\"25 C\"", "\"310 K\""), "u.toml");
+    close(t.pathway.conditions.temperature, 310.0, 0.0);
     let t = prepare_str(&text.replace("\"25 C\"", "\"25 °C\""), "u.toml");
     close(t.pathway.conditions.temperature, 298.15, 1e-12);
 }

@@ -8,7 +8,12 @@ use std::process::Command;
 
 /// Runs `dgpath <cmd> <file>` and returns (exit code, stderr).
 fn run(cmd: &str, file: &Path) -> (Option<i32>, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    run_with(Command::new(env!("CARGO_BIN_EXE_dgpath")), cmd, file)
+}
+
+/// Runs `<program> <cmd> <file>` and returns (exit code, stderr).
+fn run_with(mut program: Command, cmd: &str, file: &Path) -> (Option<i32>, String) {
+    let out = program
         .arg(cmd)
         .arg(file)
         .env("NO_COLOR", "1")
@@ -22,8 +27,13 @@ fn run(cmd: &str, file: &Path) -> (Option<i32>, String) {
 
 /// Both commands refuse `file` with exit 1 and a message containing `phrase`.
 fn refused(file: &Path, phrase: &str) {
+    refused_by(|| Command::new(env!("CARGO_BIN_EXE_dgpath")), file, phrase);
+}
+
+/// As `refused`, with the binary started by `program`.
+fn refused_by(program: impl Fn() -> Command, file: &Path, phrase: &str) {
     for cmd in ["check", "report"] {
-        let (code, err) = run(cmd, file);
+        let (code, err) = run_with(program(), cmd, file);
         assert_eq!(
             code,
             Some(1),
@@ -110,13 +120,22 @@ fn unreadable_file_is_refused() {
     let path = dir.path().join("locked.toml");
     std::fs::write(&path, dgpath::DEMO).unwrap();
     std::fs::set_permissions(&path, std::fs::Permissions::from_mode(0o000)).unwrap();
-    if std::fs::read(&path).is_ok() {
-        // Running as root: permissions do not stop reading, so there is
-        // nothing to check here.
-        eprintln!(
-            "unreadable_file_is_refused: skipped, files with mode 000 are readable here (root)"
-        );
+    if std::fs::read(&path).is_err() {
+        refused(&path, "cannot be read (permission denied)");
         return;
     }
-    refused(&path, "cannot be read (permission denied)");
+    // Running as root (as CI does): mode 000 does not stop root, so the
+    // binary runs as the unprivileged user `nobody` instead, from a copy in
+    // the open test folder so that nobody can reach it wherever the checkout is.
+    std::fs::set_permissions(dir.path(), std::fs::Permissions::from_mode(0o755)).unwrap();
+    let bin = dir.path().join("dgpath");
+    std::fs::copy(env!("CARGO_BIN_EXE_dgpath"), &bin).unwrap();
+    std::fs::set_permissions(&bin, std::fs::Permissions::from_mode(0o755)).unwrap();
+    let as_nobody = || {
+        let mut c = Command::new("setpriv");
+        c.args(["--reuid=65534", "--regid=65534", "--clear-groups"])
+            .arg(&bin);
+        c
+    };
+    refused_by(as_nobody, &path, "cannot be read (permission denied)");
 }

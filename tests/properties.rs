@@ -378,13 +378,13 @@ proptest! {
     }
 
     /// A concentration written in M, mM, µM, nM or as a bare number (mM)
-    /// gives the same results.
+    /// gives the same results (values from 10 nM to 1 M, inside the limits).
     #[test]
     fn the_unit_of_a_concentration_changes_nothing(
         s in spec(any::<bool>()),
         which in any::<prop::sample::Index>(),
         mantissa in 1u32..100_000,
-        exp in -5i32..=1,
+        exp in -5i32..=-2,
     ) {
         let mut s = s;
         let solutes: Vec<usize> = (0..s.compounds.len()).filter(|&c| s.compounds[c].conc.is_some()).collect();

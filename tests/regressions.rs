@@ -83,21 +83,24 @@ fn temperature_and_ph_out_of_range_are_refused() {
         .unwrap_err()
         .to_string();
     assert!(
-        e.contains("hot.toml:6: conditions.temperature is above 1000 K"),
+        e.contains("hot.toml:6: conditions.temperature: 1.000e308 °C is outside 0–100 °C"),
         "{e}"
     );
     let e = model::load_file(&fixture("ph-out-of-range.toml"))
         .unwrap_err()
         .to_string();
     assert!(
-        e.contains("ph-out-of-range.toml:7: conditions.ph is outside 0–14"),
+        e.contains("ph-out-of-range.toml:7: conditions.ph: pH") && e.contains("is outside 0–14"),
         "{e}"
     );
     let e = load_problems(&SMALL.replace(
         "temperature = \"30 C\"",
         "temperature = \"30 C\"\nreference_ph = -1",
     ));
-    assert!(e.contains("conditions.reference_ph is outside 0–14"), "{e}");
+    assert!(
+        e.contains("conditions.reference_ph: pH -1 is outside 0–14"),
+        "{e}"
+    );
 }
 
 #[test]

@@ -13,5 +13,6 @@ mod references;
 mod regressions;
 mod samples;
 mod save_crash;
+mod save_links;
 mod support;
 mod uncertainty;

@@ -1,6 +1,7 @@
 //! Reading a pathway file into a checked `Pathway`, collecting every problem
 //! with its line instead of stopping at the first.
 
+use super::check;
 use super::reaction;
 use super::units::{self, Kind};
 use super::*;
@@ -348,7 +349,13 @@ impl<'s> Cx<'s> {
         } else {
             Err(format!("expected a value such as {}", kind.example()))
         };
-        match r {
+        match r.and_then(|x| {
+            if x.is_finite() {
+                check::plausible(x, kind)
+            } else {
+                Ok(x)
+            }
+        }) {
             Ok(x) if x.is_finite() => Some(x),
             Ok(_) => {
                 self.err(
@@ -534,44 +541,11 @@ impl<'s> Cx<'s> {
                         "conditions",
                     )
                     .unwrap_or(0.0);
-                for (k, v) in [
-                    ("temperature", conditions.temperature),
-                    ("reference_temperature", reference.temperature),
-                ] {
-                    if v.is_finite() && v <= 0.0 {
-                        self.err(
-                            Self::value_span(t, k),
-                            format!(
-                                "conditions.{k} is at or below absolute zero; write e.g. \"30 C\""
-                            ),
-                        );
-                    }
-                }
-                for (k, v) in [
-                    ("temperature", conditions.temperature),
-                    ("reference_temperature", reference.temperature),
-                ] {
-                    if v.is_finite() && v > MAX_TEMPERATURE {
-                        self.err(Self::value_span(t, k), format!("conditions.{k} is above {MAX_TEMPERATURE} K, far outside any cell; write e.g. \"30 C\""));
-                    }
-                }
                 for (k, v) in [("ph", conditions.ph), ("reference_ph", reference.ph)] {
-                    if t.get(k).is_some() && !(0.0..=14.0).contains(&v) {
-                        self.err(
-                            Self::value_span(t, k),
-                            format!("conditions.{k} is outside 0–14; write e.g. {k} = 7.0"),
-                        );
-                    }
-                }
-                for (k, v) in [
-                    ("ionic_strength", conditions.ionic_strength),
-                    ("reference_ionic_strength", reference.ionic_strength),
-                ] {
-                    if v < 0.0 {
-                        self.err(
-                            Self::value_span(t, k),
-                            format!("conditions.{k} cannot be negative; write e.g. \"0.15 M\""),
-                        );
+                    if t.get(k).is_some()
+                        && let Err(m) = check::ph(v)
+                    {
+                        self.err(Self::value_span(t, k), format!("conditions.{k}: {m}"));
                     }
                 }
             }

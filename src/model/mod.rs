@@ -3,6 +3,7 @@
 //! mistake becomes a `Problem` that names the file, the line and what to write
 //! instead. No thermodynamics here, only unit conversion.
 
+pub mod check;
 mod load;
 pub mod reaction;
 pub mod units;
@@ -11,9 +12,8 @@ pub use load::{MAX_FILE_BYTES, load_file, load_str};
 
 use std::fmt;
 
-/// Highest temperature (K) a file or option may state; far above any cell,
-/// low enough that RT and the Debye–Hückel fit stay finite.
-pub const MAX_TEMPERATURE: f64 = 1000.0;
+/// Highest temperature (K) a file or option may state (see `check`).
+pub const MAX_TEMPERATURE: f64 = check::MAX_TEMPERATURE;
 /// Most steps a pathway file may have (the mass balance is a dense matrix).
 pub const MAX_STEPS: usize = 2000;
 /// Most compounds a pathway file may declare.

@@ -23,7 +23,9 @@ pub struct Equation {
 /// Most terms one reaction may have, both sides together.
 pub const MAX_TERMS: usize = 100;
 
-const ARROWS: [&str; 5] = ["<=>", "<->", "->", "=>", "="];
+/// Arrows read as the written (forward) direction, longest first so that
+/// `<=>` is not read as `=`. `→` is how the explorer shows `->`.
+const ARROWS: [&str; 7] = ["<=>", "<->", "->", "=>", "→", "⇌", "="];
 
 /// True for ids of the form `[A-Za-z][A-Za-z0-9_]*`.
 pub fn valid_id(id: &str) -> bool {
@@ -44,7 +46,7 @@ pub fn parse(text: &str) -> Result<Equation, String> {
     }
     let Some((pos, arrow)) = found else {
         return Err(format!(
-            "reaction '{shown}' has no arrow; write it as \"a + b -> c\" (-> => <-> <=> or = all work)"
+            "reaction '{shown}' has no arrow; write it as \"a + b -> c\" (-> → => <-> <=> ⇌ or = all work)"
         ));
     };
     let (l, r) = (&text[..pos], &text[pos + arrow.len()..]);
@@ -163,6 +165,20 @@ fn split_glued(word: &str) -> (f64, &str) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_arrows_the_explorer_shows_are_read() {
+        for text in ["a + b → c", "a + b ⇌ c", "a+b→c"] {
+            let e = parse(text).unwrap();
+            assert_eq!(ids(&e.left), vec![(1.0, "a"), (1.0, "b")], "{text}");
+            assert_eq!(ids(&e.right), vec![(1.0, "c")], "{text}");
+        }
+        assert!(
+            parse("a → b → c")
+                .unwrap_err()
+                .contains("more than one arrow")
+        );
+    }
 
     fn ids(terms: &[Term]) -> Vec<(f64, &str)> {
         terms.iter().map(|t| (t.coef, t.id.as_str())).collect()

@@ -32,9 +32,9 @@ impl Kind {
     pub fn units(self) -> &'static str {
         match self {
             Kind::Energy => "kJ/mol, kcal/mol or J/mol",
-            Kind::Concentration => "M, mM, uM (or µM), nM or pM",
+            Kind::Concentration => "M, mM, uM (or µM), nM or pM (mol/L, mmol/L, umol/L ... too)",
             Kind::Temperature => "C (or °C) or K",
-            Kind::IonicStrength => "M or mM",
+            Kind::IonicStrength => "M or mM (mol/L, mmol/L)",
         }
     }
 }
@@ -102,8 +102,8 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
         },
         Kind::Concentration => v / conc_divisor(&unit_l).ok_or_else(|| unknown_unit(unit, kind))?,
         Kind::IonicStrength => match unit_l.as_str() {
-            "" | "M" => v,
-            "mM" => v / 1e3,
+            "" | "M" | "mol/L" | "mol/l" => v,
+            "mM" | "mmol/L" | "mmol/l" => v / 1e3,
             _ => return Err(unknown_unit(unit, kind)),
         },
         Kind::Temperature => match unit_l.as_str() {
@@ -132,11 +132,13 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
 /// Dividing by an exact power of ten keeps "80 uM" exactly 8e-5.
 pub fn conc_divisor(unit: &str) -> Option<f64> {
     Some(match unit {
-        "M" => 1.0,
-        "" | "mM" => 1e3,
-        "uM" | "µM" | "μM" => 1e6,
-        "nM" => 1e9,
-        "pM" => 1e12,
+        "M" | "mol/L" | "mol/l" => 1.0,
+        "" | "mM" | "mmol/L" | "mmol/l" => 1e3,
+        "uM" | "µM" | "μM" | "umol/L" | "µmol/L" | "μmol/L" | "umol/l" | "µmol/l" | "μmol/l" => {
+            1e6
+        }
+        "nM" | "nmol/L" | "nmol/l" => 1e9,
+        "pM" | "pmol/L" | "pmol/l" => 1e12,
         _ => return None,
     })
 }
@@ -156,6 +158,12 @@ pub fn from_number(v: f64, kind: Kind) -> Result<f64, String> {
 }
 
 fn unknown_unit(unit: &str, kind: Kind) -> String {
+    // "1,5 mM": the number stopped at the comma.
+    if let Some(rest) = unit.strip_prefix(',')
+        && rest.starts_with(|c: char| c.is_ascii_digit())
+    {
+        return "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")".to_string();
+    }
     format!("unknown unit '{}'; use {}", shorten(unit), kind.units())
 }
 
@@ -200,6 +208,27 @@ pub fn sig3(v: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn per_litre_units_read_as_molar_ones() {
+        for (text, m) in [
+            ("2 mol/L", 2.0),
+            ("1.5 mmol/L", 1.5e-3),
+            ("80 umol/L", 8e-5),
+            ("80 µmol/L", 8e-5),
+            ("12 nmol/L", 1.2e-8),
+            ("3 pmol/l", 3e-12),
+        ] {
+            assert_eq!(parse(text, Kind::Concentration).unwrap(), m, "{text}");
+        }
+        assert_eq!(parse("150 mmol/L", Kind::IonicStrength).unwrap(), 0.15);
+    }
+
+    #[test]
+    fn a_decimal_comma_gets_a_message_that_says_so() {
+        let e = parse("1,5 mM", Kind::Concentration).unwrap_err();
+        assert!(e.contains("decimal point") && e.contains("1.5 mM"), "{e}");
+    }
 
     #[test]
     fn energies_default_to_kj_per_mol() {

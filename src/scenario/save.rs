@@ -187,19 +187,31 @@ pub fn write_atomic(path: &Path, text: &str) -> std::io::Result<()> {
 }
 
 /// `write_atomic`, calling `at` at each `WritePoint` (tests use it to stop a save part-way).
+///
+/// A symbolic link is followed: the file it points at is replaced (the
+/// temporary file is written beside that file and renamed there), so the
+/// link stays a link. The new file keeps the old file's permissions; a file
+/// that no longer exists is created as any new file is (0666 less the umask),
+/// never with the temporary file's private 0600.
 pub fn write_atomic_observed(
     path: &Path,
     text: &str,
     mut at: impl FnMut(WritePoint),
 ) -> std::io::Result<()> {
+    let path = resolve_links(path)?;
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => std::path::PathBuf::from("."),
     };
-    let mut tmp = tempfile::Builder::new()
-        .prefix(".dgpath-save-")
-        .suffix(".tmp")
-        .tempfile_in(&dir)?;
+    let mut builder = tempfile::Builder::new();
+    builder.prefix(".dgpath-save-").suffix(".tmp");
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        // Given to open(2), so the umask applies as for any new file.
+        builder.permissions(std::fs::Permissions::from_mode(0o666));
+    }
+    let mut tmp = builder.tempfile_in(&dir)?;
     let bytes = text.as_bytes();
     let half = bytes.len() / 2;
     tmp.write_all(&bytes[..half])?;
@@ -207,17 +219,40 @@ pub fn write_atomic_observed(
     at(WritePoint::HalfWritten);
     tmp.write_all(&bytes[half..])?;
     tmp.as_file().sync_all()?;
-    if let Ok(meta) = std::fs::metadata(path) {
-        let _ = std::fs::set_permissions(tmp.path(), meta.permissions());
+    if let Ok(meta) = std::fs::metadata(&path) {
+        std::fs::set_permissions(tmp.path(), meta.permissions())?;
     }
     at(WritePoint::BeforeRename);
-    tmp.persist(path).map_err(|e| e.error)?;
+    tmp.persist(&path).map_err(|e| e.error)?;
     // Make the rename itself durable.
     if let Ok(d) = std::fs::File::open(&dir) {
         let _ = d.sync_all();
     }
     at(WritePoint::Renamed);
     Ok(())
+}
+
+/// The file a path finally names, following symbolic links (also a link
+/// whose target does not exist yet, which a save then creates).
+fn resolve_links(path: &Path) -> std::io::Result<std::path::PathBuf> {
+    let mut p = path.to_path_buf();
+    // The kernel's own limit on links followed in one lookup is 40.
+    for _ in 0..40 {
+        match std::fs::symlink_metadata(&p) {
+            Ok(m) if m.file_type().is_symlink() => {
+                let target = std::fs::read_link(&p)?;
+                p = match p.parent() {
+                    Some(parent) if target.is_relative() => parent.join(target),
+                    _ => target,
+                };
+            }
+            _ => return Ok(p),
+        }
+    }
+    Err(std::io::Error::other(format!(
+        "too many levels of symbolic links at {}",
+        path.display()
+    )))
 }
 
 /// Saves the state into the file at `path`, whose text as last read was `original`.
