@@ -85,6 +85,8 @@ pub struct StepSpread {
     pub largest: usize,
     /// Samples in which this step is the prime control step.
     pub prime: usize,
+    /// Samples in which this step runs backward (dG' > 0).
+    pub against: usize,
 }
 
 /// The picture across all samples.
@@ -100,6 +102,8 @@ pub struct Summary {
     pub prime_differs: Vec<(String, Option<usize>)>,
     /// Steps whose class is not the same in every sample, in route order.
     pub class_differs: Vec<ClassDiffers>,
+    /// Samples in which no route step runs backward.
+    pub runs_forward: usize,
 }
 
 /// A step whose class varies across samples.
@@ -136,6 +140,8 @@ pub struct Accumulator {
     classes: Vec<ClassCounts>,
     largest: Vec<usize>,
     prime: Vec<usize>,
+    against: Vec<usize>,
+    runs_forward: usize,
     primes: Vec<(String, Option<usize>)>,
     class_of: Vec<Vec<Class>>,
 }
@@ -150,6 +156,8 @@ impl Accumulator {
             classes: vec![ClassCounts::default(); steps],
             largest: vec![0; steps],
             prime: vec![0; steps],
+            against: vec![0; steps],
+            runs_forward: 0,
             primes: Vec::new(),
             class_of: vec![Vec::new(); steps],
         }
@@ -163,7 +171,9 @@ impl Accumulator {
             self.step[k] = s.step;
             self.classes[k].add(s.class);
             self.class_of[k].push(s.class);
+            self.against[k] += usize::from(s.against);
         }
+        self.runs_forward += usize::from(a.runs_forward);
         if let Some(k) = a.largest_drop {
             self.largest[k] += 1;
         }
@@ -191,6 +201,7 @@ impl Accumulator {
                 classes: self.classes[k],
                 largest: self.largest[k],
                 prime: self.prime[k],
+                against: self.against[k],
             });
         }
         // The most common prime step; "none" counts as a value; ties go to a step, the earlier one.
@@ -236,6 +247,7 @@ impl Accumulator {
             usual_prime: usual,
             prime_differs,
             class_differs,
+            runs_forward: self.runs_forward,
         }
     }
 }
@@ -427,6 +439,9 @@ dg0 = "-8 kJ/mol"
         );
         assert_eq!((cd[1].position, cd[1].usual), (1, Class::Far));
         assert_eq!(cd[1].samples.len(), 3);
+        // -8 + 2L = +3.4 kJ/mol > 0: s1 runs backward in t5, s2 in t3; the other three run forward.
+        assert_eq!((s1.against, s.steps[1].against), (1, 1));
+        assert_eq!(s.runs_forward, 3);
     }
 
     #[test]
