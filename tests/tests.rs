@@ -2,6 +2,7 @@ mod bad_input;
 mod cli;
 mod explorer;
 mod explorer_tmux;
+mod forward;
 mod library;
 mod limits;
 mod mdf;
