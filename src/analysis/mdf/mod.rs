@@ -249,6 +249,40 @@ pub fn solve_with(prep: &Prepared, state: &State, opts: &Options) -> Result<Mdf,
     Ok(mdf)
 }
 
+/// The range (mol/L) within which one free compound lets every route step
+/// run (−dG' ≥ 0 inside the bounds), for a result `mdf` of this scenario: two
+/// programmes at most, cheap enough for a screen's detail. None when the MDF
+/// is negative or the compound is not free.
+pub fn feasible_range(
+    prep: &Prepared,
+    state: &State,
+    mdf: &Mdf,
+    compound: usize,
+) -> Result<Option<(f64, f64)>, MdfError> {
+    if mdf.value < 0.0 || mdf.parts.get(compound) != Some(&Part::Free) {
+        return Ok(None);
+    }
+    if let Some(r) = &mdf.feasible_ranges {
+        return Ok(r.get(compound).copied());
+    }
+    let s = setup(prep, state, &mdf.options)?;
+    let Some(v) = s.lp.vars.iter().position(|&c| c == compound) else {
+        return Ok(None);
+    };
+    let x: Vec<f64> = s.lp.vars.iter().map(|&c| mdf.conc[c].ln()).collect();
+    let ln = match ranges::ranges_by_paths(&s.lp, 0.0, &x) {
+        Some(r) => r,
+        None => {
+            // Only this compound's programmes: the others are skipped as if pinned.
+            let skip: Vec<Option<f64>> = (0..x.len()).map(|w| (w != v).then_some(x[w])).collect();
+            ranges::ranges_by_lp(&s.lp, 0.0, &x, &skip, &prep.pathway.file)?
+        }
+    };
+    Ok(ranges::to_conc_ranges(&s.lp, &x, &ln, &mdf.conc)
+        .get(compound)
+        .copied())
+}
+
 /// Solves the programme: b (B/RT), the optimal ln c per variable (snapped to
 /// a bound when within AT_BOUND of it) and the raw duals.
 fn optimum(lp: &Lp, file: &str) -> Result<(f64, Vec<f64>, Vec<f64>), MdfError> {

@@ -130,13 +130,11 @@ fn classify(
     opts: &Options,
     s: &mut Setup,
 ) -> Result<Vec<usize>, MdfError> {
-    let nc = p.compounds.len();
-    let mut var_of = vec![usize::MAX; nc];
-    for c in 0..nc {
+    let mut var_of = vec![usize::MAX; p.compounds.len()];
+    for (c, comp) in p.compounds.iter().enumerate() {
         if s.parts[c] != Part::Free {
             continue;
         }
-        let comp = &p.compounds[c];
         let (lo, hi) = s.bounds[c];
         let x = state.conc[c];
         let inside = x >= lo * (1.0 - 1e-9) && x <= hi * (1.0 + 1e-9);

@@ -311,7 +311,10 @@ fn feasible_ranges_of_the_worked_chain() {
     let prep = prepared(&chain(&WORKED, &DEFAULT_BOUNDS, "25 C"));
     let state = State::from_pathway(&prep.pathway);
     let m = solve_with_ranges(&prep, &state).expect("solves");
-    let f = m.feasible_ranges.as_ref().expect("MDF > 0 gives feasible ranges");
+    let f = m
+        .feasible_ranges
+        .as_ref()
+        .expect("MDF > 0 gives feasible ranges");
     let rt = m.rt;
     let (l, u) = (1e-6f64.ln(), 1e-2f64.ln());
     let n = WORKED.len();
@@ -339,7 +342,10 @@ fn feasible_ranges_of_the_worked_chain() {
     // Each feasible range holds the MDF range.
     let r = m.ranges.as_ref().expect("ranges");
     for (a, b) in r.iter().zip(f) {
-        assert!(b.0 <= a.0 * (1.0 + 1e-9) && a.1 <= b.1 * (1.0 + 1e-9), "{a:?} in {b:?}");
+        assert!(
+            b.0 <= a.0 * (1.0 + 1e-9) && a.1 <= b.1 * (1.0 + 1e-9),
+            "{a:?} in {b:?}"
+        );
     }
 }
 
@@ -387,4 +393,34 @@ fn carriers_are_held_unless_freed() {
     let m = solve(&prep, &state).expect("solves");
     assert!((m.value - m.rt * 1e5f64.ln()).abs() < 1e-3, "{}", m.value);
     assert_eq!((m.parts[atp], m.parts[adp]), (Part::Free, Part::Held));
+}
+
+#[test]
+fn one_feasible_range_matches_all_of_them() {
+    // A step with two products is not a difference constraint, so this takes the programmes.
+    let text = "format = 1\n[pathway]\nname = \"split\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
+        a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\nd = { conc = \"1 mM\" }\n\
+        [[steps]]\nid = \"r1\"\nreaction = \"a -> b + c\"\ndg0 = \"40 kJ/mol\"\n\
+        [[steps]]\nid = \"r2\"\nreaction = \"b -> d\"\ndg0 = \"-3 kJ/mol\"\n";
+    let prep = prepared(text);
+    let state = State::from_pathway(&prep.pathway);
+    let all = solve_with_ranges(&prep, &state).expect("solves");
+    assert_optimal(&prep, &state, &all);
+    let f = all.feasible_ranges.as_ref().expect("MDF > 0");
+    let one = solve(&prep, &state).expect("solves");
+    for (c, fc) in f.iter().enumerate() {
+        let r = feasible_range(&prep, &state, &one, c)
+            .expect("solves")
+            .expect("free");
+        assert!(
+            (r.0 / fc.0 - 1.0).abs() < 1e-5 && (r.1 / fc.1 - 1.0).abs() < 1e-5,
+            "{c}: {r:?} vs {fc:?}"
+        );
+    }
+    // r1 at −dG' ≥ 0 needs a / (b c) ≥ exp(40 / RT): with a ≤ 10 mM and c ≥ 1 µM,
+    // b ≤ 1e-2 / 1e-6 × exp(−40 / RT); a ≥ 1 µM × 1 µM × exp(40 / RT) [C].
+    let rt = one.rt;
+    let e = (40e3 / rt).exp();
+    assert!((f[1].1 / (1e4 / e) - 1.0).abs() < 1e-5, "{:?}", f[1]);
+    assert!((f[0].0 / (1e-12 * e) - 1.0).abs() < 1e-5, "{:?}", f[0]);
 }
