@@ -87,6 +87,8 @@ pub struct StepSpread {
     pub prime: usize,
     /// Samples in which this step runs backward (dG' > 0).
     pub against: usize,
+    /// Their names, in table order.
+    pub against_samples: Vec<String>,
 }
 
 /// The picture across all samples.
@@ -140,7 +142,7 @@ pub struct Accumulator {
     classes: Vec<ClassCounts>,
     largest: Vec<usize>,
     prime: Vec<usize>,
-    against: Vec<usize>,
+    against: Vec<Vec<String>>,
     runs_forward: usize,
     primes: Vec<(String, Option<usize>)>,
     class_of: Vec<Vec<Class>>,
@@ -156,7 +158,7 @@ impl Accumulator {
             classes: vec![ClassCounts::default(); steps],
             largest: vec![0; steps],
             prime: vec![0; steps],
-            against: vec![0; steps],
+            against: vec![Vec::new(); steps],
             runs_forward: 0,
             primes: Vec::new(),
             class_of: vec![Vec::new(); steps],
@@ -171,7 +173,9 @@ impl Accumulator {
             self.step[k] = s.step;
             self.classes[k].add(s.class);
             self.class_of[k].push(s.class);
-            self.against[k] += usize::from(s.against);
+            if s.against {
+                self.against[k].push(name.to_string());
+            }
         }
         self.runs_forward += usize::from(a.runs_forward);
         if let Some(k) = a.largest_drop {
@@ -201,7 +205,8 @@ impl Accumulator {
                 classes: self.classes[k],
                 largest: self.largest[k],
                 prime: self.prime[k],
-                against: self.against[k],
+                against: self.against[k].len(),
+                against_samples: std::mem::take(&mut self.against[k]),
             });
         }
         // The most common prime step; "none" counts as a value; ties go to a step, the earlier one.
@@ -441,6 +446,10 @@ dg0 = "-8 kJ/mol"
         assert_eq!(cd[1].samples.len(), 3);
         // -8 + 2L = +3.4 kJ/mol > 0: s1 runs backward in t5, s2 in t3; the other three run forward.
         assert_eq!((s1.against, s.steps[1].against), (1, 1));
+        assert_eq!(
+            (&s1.against_samples[..], &s.steps[1].against_samples[..]),
+            (&["t5".to_string()][..], &["t3".to_string()][..])
+        );
         assert_eq!(s.runs_forward, 3);
     }
 
