@@ -362,7 +362,7 @@ fn the_largest_drop_row_is_bold_and_marked() {
     let line: String = (0..76)
         .map(|x| buf[(x, pdc)].symbol().to_string())
         .collect();
-    assert!(line.contains("48%◀"), "{line}");
+    assert!(line.contains("49%◀"), "{line}");
 }
 
 #[test]
@@ -379,7 +379,7 @@ fn without_colour_no_cell_carries_a_colour() {
     assert_eq!(coloured, 0);
     let text = export::to_text(&buf);
     assert!(
-        text.contains("g6p      2.39 mM* "),
+        text.contains("g6p       2.39 mM* "),
         "edited value marked by a star:\n{text}"
     );
     assert!(text.contains("● unsaved"));
