@@ -9,8 +9,8 @@
 //! binary itself: `dgpath report pathways/fermenter.toml --samples FILE.csv`).
 
 use dgpath::analysis::{self, batch};
+use dgpath::model::samples::SampleReader;
 use dgpath::report::{EnergyUnit, samples as render};
-use dgpath::samples::SampleReader;
 use dgpath::scenario::State;
 use std::io::Write;
 use std::time::{Duration, Instant};

@@ -4,16 +4,18 @@
 //! is, where flux is controlled, whether the route can run at all).
 //!
 //! Module map (arrows point at what a module may use):
-//! `cli -> {tui, report, plot} -> analysis -> thermo -> model`;
-//! `scenario` holds the editable state.
+//! `cli -> {tui, report, plot} -> present -> analysis -> thermo -> model`;
+//! `analysis -> scenario -> model` (`scenario` holds the editable state and
+//! `Direction`). The front ends (`tui`, `report`, `plot`) share `present` and
+//! never import each other. The binary's `cli` lives in `src/cli/`.
 #![forbid(unsafe_code)]
 
 pub mod analysis;
 pub mod model;
 #[cfg(feature = "plot")]
 pub mod plot;
+pub mod present;
 pub mod report;
-pub mod samples;
 pub mod scenario;
 pub mod thermo;
 pub mod tui;

@@ -9,7 +9,7 @@
 
 use crate::analysis::batch::Summary;
 use crate::analysis::{Analysis, Class, Prepared};
-use crate::report::EnergyUnit;
+use crate::present::EnergyUnit;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 

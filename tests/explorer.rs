@@ -7,7 +7,8 @@ use dgpath::analysis::{self, Direction};
 use dgpath::model;
 use dgpath::report::EnergyUnit;
 use dgpath::scenario::State;
-use dgpath::tui::app::{App, Mode, Options, Pane, Source, parse_keys};
+use dgpath::tui::app::{App, Mode, Options, Pane, Source};
+use dgpath::tui::keys::parse_keys;
 use dgpath::tui::{export, view};
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use ratatui::style::Modifier;
@@ -468,12 +469,12 @@ fn snapshot_help_in_ascii() {
 }
 
 /// The demo with the demo samples table, as `explore --samples` opens it.
-fn demo_with_samples() -> (App, Vec<dgpath::samples::Sample>) {
+fn demo_with_samples() -> (App, Vec<dgpath::model::samples::Sample>) {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
     let app = demo();
     let table = root.join("pathways/fermenter-samples.csv");
     let samples: Vec<_> =
-        dgpath::samples::SampleReader::open(&table, app.pathway(), &app.state().conc)
+        dgpath::model::samples::SampleReader::open(&table, app.pathway(), &app.state().conc)
             .unwrap()
             .collect::<Result<_, _>>()
             .unwrap();
@@ -633,7 +634,7 @@ fn samples_step_with_brackets_and_save_names_the_sample() {
 fn saving_after_a_sample_says_which_sample() {
     let (dir, path, app) = on_disk();
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
-    let samples = dgpath::samples::read_str(
+    let samples = dgpath::model::samples::read_str(
         &std::fs::read_to_string(root.join("pathways/fermenter-samples.csv")).unwrap(),
         "fermenter-samples.csv",
         app.pathway(),

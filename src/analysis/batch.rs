@@ -8,7 +8,7 @@
 //! (10,000 samples × 12 steps is under 1 MB) so that quantiles are exact.
 
 use super::{Analysis, Class, Prepared, VerdictKind, analyze};
-use crate::samples::{Sample, SampleError};
+use crate::model::samples::{Sample, SampleError};
 use crate::scenario::State;
 use rayon::prelude::*;
 
@@ -326,7 +326,8 @@ where
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::{model, samples, thermo};
+    use crate::model::samples;
+    use crate::{model, thermo};
 
     const PW: &str = r#"
 format = 1

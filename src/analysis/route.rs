@@ -4,33 +4,8 @@
 //! depends on concentrations, so it is built once per file.
 
 use crate::model::{LoadError, Pathway, Problem};
-
-/// Which way the route runs.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
-pub enum Direction {
-    /// As written.
-    #[default]
-    Forward,
-    /// Backward, with bypasses in place of the steps they replace.
-    Reverse,
-}
-
-impl Direction {
-    /// "forward" or "reverse".
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Direction::Forward => "forward",
-            Direction::Reverse => "reverse",
-        }
-    }
-    /// The other direction.
-    pub fn flipped(self) -> Self {
-        match self {
-            Direction::Forward => Direction::Reverse,
-            Direction::Reverse => Direction::Forward,
-        }
-    }
-}
+/// Which way a route runs (it belongs to the scenario; re-exported here).
+pub use crate::scenario::Direction;
 
 /// A compound's role on one route.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -168,10 +143,15 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
         Direction::Reverse => {
+            // Bypasses of each step, in file order.
+            let mut bypasses_of: Vec<Vec<usize>> = vec![Vec::new(); p.steps.len()];
+            for (b, st) in p.steps.iter().enumerate() {
+                if let Some(f) = st.bypass_of {
+                    bypasses_of[f].push(b);
+                }
+            }
             for &f in p.route.iter().rev() {
-                let bypasses: Vec<usize> = (0..p.steps.len())
-                    .filter(|&b| p.steps[b].bypass_of == Some(f))
-                    .collect();
+                let bypasses = std::mem::take(&mut bypasses_of[f]);
                 if bypasses.is_empty() {
                     steps.push(RouteStep {
                         step: f,
@@ -248,7 +228,16 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    // Coupled groups.
+    // Coupled groups. Positions of each step on the route, and of the steps
+    // that couple to each step, so that each link is found without a scan.
+    let mut positions: std::collections::HashMap<usize, Vec<usize>> = Default::default();
+    let mut coupled_to: std::collections::HashMap<usize, Vec<usize>> = Default::default();
+    for (m, rs) in steps.iter().enumerate() {
+        positions.entry(rs.step).or_default().push(m);
+        if let Some(c) = p.steps[rs.step].couple {
+            coupled_to.entry(c).or_default().push(m);
+        }
+    }
     let mut groups: Vec<Vec<usize>> = Vec::new();
     let mut in_group = vec![false; steps.len()];
     for k in 0..steps.len() {
@@ -259,10 +248,15 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
         let mut cur = k;
         loop {
             // Forward: cur couples to the next; reverse: the next couples to cur.
-            let next = (cur + 1..steps.len()).find(|&m| match direction {
-                Direction::Forward => p.steps[steps[cur].step].couple == Some(steps[m].step),
-                Direction::Reverse => p.steps[steps[m].step].couple == Some(steps[cur].step),
-            });
+            let next = match direction {
+                Direction::Forward => p.steps[steps[cur].step]
+                    .couple
+                    .and_then(|c| positions.get(&c))
+                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+                Direction::Reverse => coupled_to
+                    .get(&steps[cur].step)
+                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+            };
             match next {
                 Some(m) if !in_group[m] => {
                     chain.push(m);
@@ -298,12 +292,13 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
         }
     }
     if direction == Direction::Forward {
+        let mut route_pos: std::collections::HashMap<usize, usize> = Default::default();
+        for (i, &x) in p.route.iter().enumerate() {
+            route_pos.entry(x).or_insert(i);
+        }
         for &s in &p.route {
             if let Some(c) = p.steps[s].couple {
-                let (ps, pc) = (
-                    p.route.iter().position(|&x| x == s),
-                    p.route.iter().position(|&x| x == c),
-                );
+                let (ps, pc) = (route_pos.get(&s).copied(), route_pos.get(&c).copied());
                 if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
                     return Err(problem(
                         p,
@@ -401,78 +396,23 @@ fn balance(
         v
     };
     let m = unknown.len();
-    let mut rows: Vec<Vec<f64>> = Vec::with_capacity(inter.len());
-    let mut rhs: Vec<f64> = Vec::with_capacity(inter.len());
-    let mut label: Vec<usize> = Vec::with_capacity(inter.len());
     let cidx: std::collections::HashMap<usize, usize> =
         inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
-    for _ in &inter {
-        rows.push(vec![0.0; m]);
-        rhs.push(0.0);
-    }
-    label.extend(inter.iter().copied());
+    let mut sys = Sparse::new(inter.len(), m);
     for (k, rs) in steps.iter().enumerate() {
         let st = &p.steps[rs.step];
         for &(c, nu) in &st.stoich {
             if let Some(&r) = cidx.get(&c) {
                 let a = nu * rs.sign;
                 match (col_of[k], st.times) {
-                    (Some(j), _) => rows[r][j] += a,
-                    (None, Some(t)) => rhs[r] -= a * t,
+                    (Some(j), _) => sys.add(r, j, a),
+                    (None, Some(t)) => sys.rhs[r] -= a * t,
                     (None, None) => {}
                 }
             }
         }
     }
-    // Reduced row echelon form with partial pivoting; zero entries are skipped,
-    // so sparse routes (chains, trees) stay fast.
-    let eps = 1e-9;
-    let mut pivots: Vec<(usize, usize)> = Vec::new(); // (row, col)
-    let mut r0 = 0;
-    for j in 0..m {
-        if r0 >= rows.len() {
-            break;
-        }
-        let (mut best, mut bv) = (r0, rows[r0][j].abs());
-        for (r, row) in rows.iter().enumerate().skip(r0 + 1) {
-            if row[j].abs() > bv {
-                best = r;
-                bv = row[j].abs();
-            }
-        }
-        if bv < eps {
-            continue;
-        }
-        rows.swap(r0, best);
-        rhs.swap(r0, best);
-        label.swap(r0, best);
-        let piv = rows[r0][j];
-        let nz: Vec<usize> = (j..m).filter(|&q| rows[r0][q] != 0.0).collect();
-        for &q in &nz {
-            rows[r0][q] /= piv;
-        }
-        rhs[r0] /= piv;
-        let prow: Vec<(usize, f64)> = nz.iter().map(|&q| (q, rows[r0][q])).collect();
-        let prhs = rhs[r0];
-        for r in 0..rows.len() {
-            if r == r0 {
-                continue;
-            }
-            let f = rows[r][j];
-            if f == 0.0 {
-                continue;
-            }
-            for &(q, v) in &prow {
-                rows[r][q] -= f * v;
-                if rows[r][q].abs() < 1e-13 {
-                    rows[r][q] = 0.0;
-                }
-            }
-            rhs[r] -= f * prhs;
-        }
-        pivots.push((r0, j));
-        r0 += 1;
-    }
+    let pivots = sys.reduce();
     let unbalanced = |c: usize, why: String| {
         let comp = &p.compounds[c];
         problem(
@@ -498,11 +438,13 @@ fn balance(
             x[j] = 1.0;
         }
     }
-    for &(r, j) in &pivots {
-        let mut v = rhs[r];
-        for q in 0..m {
-            if q != j && free[q] && rows[r][q] != 0.0 {
-                v -= rows[r][q] * x[q];
+    // Back substitution: a pivot row holds its own column, later pivot
+    // columns (solved first) and free columns (one turn each).
+    for &(r, j) in pivots.iter().rev() {
+        let mut v = sys.rhs[r];
+        for (&q, &a) in &sys.rows[r] {
+            if q != j && a != 0.0 {
+                v -= a * x[q];
             }
         }
         x[j] = v;
@@ -513,25 +455,25 @@ fn balance(
             None => p.steps[steps[k].step].times.unwrap_or(1.0),
         };
     }
-    // Check every intermediate balances (catches inconsistent systems).
-    for &c in &inter {
-        let mut sum = 0.0;
-        let mut scale = 0.0f64;
-        for rs in steps.iter() {
-            for &(cc, nu) in &p.steps[rs.step].stoich {
-                if cc == c {
-                    sum += nu * rs.sign * rs.times;
-                    scale = scale.max((nu * rs.times).abs());
-                }
+    // Check every intermediate balances (catches inconsistent systems), in
+    // one pass over the route's stoichiometry.
+    let mut sum = vec![0.0; inter.len()];
+    let mut scale = vec![0.0f64; inter.len()];
+    for rs in steps.iter() {
+        for &(c, nu) in &p.steps[rs.step].stoich {
+            if let Some(&r) = cidx.get(&c) {
+                sum[r] += nu * rs.sign * rs.times;
+                scale[r] = scale[r].max((nu * rs.times).abs());
             }
         }
-        if sum.abs() > 1e-7 * scale.max(1.0) {
-            let _ = &label;
+    }
+    for (r, &c) in inter.iter().enumerate() {
+        if sum[r].abs() > 1e-7 * scale[r].max(1.0) {
             return Err(unbalanced(
                 c,
                 format!(
                     "what the route makes and uses of it differs by {} per pass",
-                    fmt_t(sum)
+                    fmt_t(sum[r])
                 ),
             ));
         }
@@ -556,4 +498,110 @@ fn balance(
         }
     }
     Ok(())
+}
+
+/// A sparse linear system (rows: intermediates, columns: steps whose turns
+/// are unknown) brought to row echelon form. Only non-zero entries
+/// are stored, and each column knows its rows, so a chain or a tree of n
+/// steps reduces in O(n) time and memory.
+struct Sparse {
+    rows: Vec<std::collections::BTreeMap<usize, f64>>,
+    rhs: Vec<f64>,
+    /// Rows with a non-zero entry in each column.
+    col_rows: Vec<std::collections::BTreeSet<usize>>,
+}
+
+impl Sparse {
+    fn new(rows: usize, cols: usize) -> Self {
+        Sparse {
+            rows: vec![Default::default(); rows],
+            rhs: vec![0.0; rows],
+            col_rows: vec![Default::default(); cols],
+        }
+    }
+
+    fn add(&mut self, r: usize, j: usize, a: f64) {
+        let e = self.rows[r].entry(j).or_insert(0.0);
+        *e += a;
+        if *e == 0.0 {
+            self.rows[r].remove(&j);
+            self.col_rows[j].remove(&r);
+        } else {
+            self.col_rows[j].insert(r);
+        }
+    }
+
+    /// Gaussian elimination to row echelon form with partial pivoting,
+    /// columns in order; returns the (row, column) pivots. Rows are ranked as a dense
+    /// elimination that swaps rows would rank them, so ties between equal
+    /// pivots fall the same way.
+    fn reduce(&mut self) -> Vec<(usize, usize)> {
+        const EPS: f64 = 1e-9;
+        let n = self.rows.len();
+        // pos[r]: where row r stands; at[p]: the row standing at p.
+        let mut pos: Vec<usize> = (0..n).collect();
+        let mut at: Vec<usize> = (0..n).collect();
+        let mut pivots = Vec::new();
+        let mut r0 = 0;
+        for j in 0..self.col_rows.len() {
+            if r0 >= n {
+                break;
+            }
+            // The largest entry at or below position r0; the first such on ties.
+            let mut best: Option<(usize, f64)> = None;
+            for &r in &self.col_rows[j] {
+                if pos[r] < r0 {
+                    continue;
+                }
+                let v = self.rows[r][&j].abs();
+                best = match best {
+                    Some((b, bv)) if bv > v || (bv == v && pos[b] < pos[r]) => Some((b, bv)),
+                    _ => Some((r, v)),
+                };
+            }
+            let Some((prow, _)) = best.filter(|&(_, bv)| bv >= EPS) else {
+                continue;
+            };
+            // Swap positions r0 and pos[prow].
+            let (pa, other) = (pos[prow], at[r0]);
+            at.swap(r0, pa);
+            pos[prow] = r0;
+            pos[other] = pa;
+            let piv = self.rows[prow][&j];
+            for (&q, v) in self.rows[prow].iter_mut() {
+                if q >= j {
+                    *v /= piv;
+                }
+            }
+            self.rhs[prow] /= piv;
+            let pentries: Vec<(usize, f64)> =
+                self.rows[prow].range(j..).map(|(&q, &v)| (q, v)).collect();
+            let prhs = self.rhs[prow];
+            // Only the rows below are cleared (row echelon form; the solve
+            // substitutes backwards): clearing the rows above too would make
+            // every pivot row of a chain carry the newest column, O(n²).
+            let targets: Vec<usize> = self.col_rows[j]
+                .iter()
+                .copied()
+                .filter(|&r| pos[r] > r0)
+                .collect();
+            for r in targets {
+                let f = self.rows[r][&j];
+                for &(q, v) in &pentries {
+                    let e = self.rows[r].entry(q).or_insert(0.0);
+                    *e -= f * v;
+                    if e.abs() < 1e-13 {
+                        self.rows[r].remove(&q);
+                        self.col_rows[q].remove(&r);
+                    } else {
+                        self.col_rows[q].insert(r);
+                    }
+                }
+                self.rhs[r] -= f * prhs;
+            }
+            pivots.push((prow, j));
+            r0 += 1;
+        }
+        pivots
+    }
 }

@@ -1,11 +1,13 @@
 //! The pathway file: what it may say, how it is read, and the checked
 //! `Pathway` that every other module works from. Reading never guesses: every
 //! mistake becomes a `Problem` that names the file, the line and what to write
-//! instead. No thermodynamics here, only unit conversion.
+//! instead. No thermodynamics here, only unit conversion. `samples` reads
+//! tables of measured concentrations against a pathway.
 
 pub mod check;
 mod load;
 pub mod reaction;
+pub mod samples;
 pub mod units;
 
 pub use load::{MAX_FILE_BYTES, load_file, load_str};
@@ -14,10 +16,6 @@ use std::fmt;
 
 /// Highest temperature (K) a file or option may state (see `check`).
 pub const MAX_TEMPERATURE: f64 = check::MAX_TEMPERATURE;
-/// Most steps a pathway file may have (the mass balance is a dense matrix).
-pub const MAX_STEPS: usize = 2000;
-/// Most compounds a pathway file may declare.
-pub const MAX_COMPOUNDS: usize = 5000;
 
 /// One mistake in an input, with where it is and how to fix it.
 #[derive(Debug, Clone, PartialEq)]

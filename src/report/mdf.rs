@@ -3,10 +3,11 @@
 //! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
 //! beyond unit conversion.
 
+use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
-use crate::analysis::{Direction, Prepared};
+use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
-use crate::report::{EnergyUnit, TextOptions, clean};
+use crate::present::{EnergyUnit, clean, headline};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 
@@ -182,14 +183,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     let u = o.unit;
     let ul = u.label();
     let c = &state.conditions;
-    let mut out = format!(
-        "{} — {} route, {:.2} °C, pH {}, I = {} M\n\n",
-        p.name,
-        m.direction.as_str(),
-        c.temperature - 273.15,
-        c.ph,
-        c.ionic_strength
-    );
+    let mut out = headline(&p.name, m.direction, c);
     let v = two(u.of(m.value));
     let way = match m.direction {
         Direction::Forward => "forward",
@@ -320,4 +314,68 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     }
     out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
     out
+}
+
+/// The ids of an optimum's bottleneck steps, in route order.
+fn bottleneck_ids(prep: &Prepared, route: &Route, m: &Mdf) -> Vec<String> {
+    m.bottlenecks
+        .iter()
+        .map(|&k| prep.pathway.steps[route.steps[k].step].id.clone())
+        .collect()
+}
+
+/// `mdf --samples --format json`: one optimum (MDF and bottlenecks) per sample.
+pub fn samples_json(
+    prep: &Prepared,
+    route: &Route,
+    rows: &[(String, Mdf)],
+    u: EnergyUnit,
+) -> Value {
+    let list: Vec<Value> = rows
+        .iter()
+        .map(|(name, m)| {
+            json!({
+                "sample": name,
+                "mdf": clean(u.of(m.value)),
+                "bottlenecks": bottleneck_ids(prep, route, m),
+            })
+        })
+        .collect();
+    json!({
+        "pathway": prep.pathway.name,
+        "direction": route.direction.as_str(),
+        "energy_unit": u.label(),
+        "samples": list,
+    })
+}
+
+/// `mdf --samples`: one line per sample with its MDF and bottlenecks.
+pub fn samples_table(
+    prep: &Prepared,
+    route: &Route,
+    rows: &[(String, Mdf)],
+    u: EnergyUnit,
+) -> String {
+    let w = rows
+        .iter()
+        .map(|r| r.0.chars().count())
+        .max()
+        .unwrap_or(6)
+        .max(6);
+    let mut s = format!(
+        "{} — max-min driving force per sample ({} route)\n\n{:<w$}  {:>12}  bottlenecks\n",
+        prep.pathway.name,
+        route.direction.as_str(),
+        "sample",
+        format!("MDF [{}]", u.label()),
+    );
+    for (name, m) in rows {
+        s.push_str(&format!(
+            "{name:<w$}  {:>12.2}  {}\n",
+            clean(u.of(m.value)),
+            bottleneck_ids(prep, route, m).join(", ")
+        ));
+    }
+    s.push_str("\nOnly compounds marked fixed (and the conditions) differ between samples in this optimisation; the others are chosen within their bounds.\n");
+    s
 }

@@ -3,9 +3,10 @@
 //! summary across samples as a table, Markdown or JSON. Nothing here computes
 //! results; the numbers come from `analysis::batch`.
 
-use super::{EnergyUnit, TextOptions, clean};
+use super::table::TextOptions;
 use crate::analysis::batch::{StepSpread, Summary, prime_of};
 use crate::analysis::{Analysis, Class, Prepared};
+use crate::present::{EnergyUnit, clean};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 

@@ -4,7 +4,8 @@
 //! and one `<text>` per run of equally styled cells, so the file stays small
 //! and box lines join (crispEdges, cell height about 1.17 × font size).
 
-use super::app::{App, parse_keys};
+use super::app::App;
+use super::keys::parse_keys;
 use super::view;
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;

@@ -5,16 +5,25 @@
 //! `Analysis` and the driving-force optimisation when the scenario
 //! changed), `view::render` a pure drawing.
 //!
-//! Module map: `app` (state, keys → messages, update, saving and reloading
-//! through `scenario::save`), `view` (panes and status line), `ladder` (the
-//! text energy ladder), `export` (buffer → text / SVG for screenshots).
+//! Module map: `app` (state, messages, update), `keys` (keys → messages,
+//! key scripts), `edit` (the edit line), `find`, `nav` (moving the
+//! selection, walking the route), `sample` (stepping through samples),
+//! `optimum` (the live MDF), `disk` (saving and reloading through
+//! `scenario::save`), `view` (panes, energy ladder, status line and key
+//! overlay, one file each), `export` (buffer → text / SVG for screenshots).
 //! This file owns the terminal: the `IsTerminal` check, init and restore
 //! (on quit, error and panic) and the event loop, which redraws only when
 //! something changed and polls the file on disk about every 500 ms.
 
 pub mod app;
+pub mod disk;
+pub mod edit;
 pub mod export;
-pub mod ladder;
+pub mod find;
+pub mod keys;
+pub mod nav;
+pub mod optimum;
+pub mod sample;
 pub mod view;
 
 pub use app::{App, Message, Options, Source};

@@ -1,19 +1,43 @@
-//! The `--samples` branch of `report` and the `plot` command: open the
-//! samples table, hand rows to the batch analysis, stream the renderings to
-//! stdout or write the picture. Thin glue; the work is in the library.
+//! `report FILE`: per-step results as a table, JSON, CSV or Markdown; with
+//! `--samples TABLE`, one analysis per sample streamed to stdout.
 
-use super::{Common, Format, state_from};
-use anyhow::{Context, Result, anyhow, bail};
+use crate::cli::args::{Common, Format};
+use crate::cli::output::{colour_ok, emit, is_broken_pipe};
+use crate::cli::request::state_from;
+use anyhow::{Context, Result, anyhow};
 use dgpath::analysis::batch::{self, BatchError, Summary};
 use dgpath::analysis::{self, Prepared};
-use dgpath::report::{TextOptions, samples as render};
-use dgpath::samples::SampleReader;
+use dgpath::model::samples::SampleReader;
+use dgpath::report::{self, TextOptions, samples as render};
 use dgpath::scenario::State;
 use std::io::Write;
 use std::path::Path;
 
-fn is_broken_pipe(e: &std::io::Error) -> bool {
-    e.kind() == std::io::ErrorKind::BrokenPipe
+/// Runs the report command on a prepared pathway.
+pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
+    let state = state_from(prep, common)?;
+    let a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    let u = common.unit();
+    let text = match format {
+        Format::Json => {
+            let mut s = serde_json::to_string_pretty(&report::json_value(prep, &state, &a, u))?;
+            s.push('\n');
+            s
+        }
+        Format::Csv => report::csv(prep, &a, u),
+        Format::Md => report::markdown(prep, &state, &a, u),
+        Format::Table => report::table(
+            prep,
+            &state,
+            &a,
+            TextOptions {
+                unit: u,
+                color: colour_ok(),
+                ascii: false,
+            },
+        ),
+    };
+    emit(&text)
 }
 
 /// Reads the whole table once without analysing, so mistakes are reported before any output.
@@ -62,7 +86,7 @@ pub fn run_samples_report(
                     },
                 )
             };
-            super::emit(&text)
+            emit(&text)
         }
         Format::Csv | Format::Json => {
             check_table(prep, &state, path)?;
@@ -117,59 +141,4 @@ pub fn run_samples_report(
             }
         }
     }
-}
-
-/// `plot FILE -o OUT.svg|OUT.png [--samples TABLE]`.
-pub fn run_plot(prep: &Prepared, common: &Common, output: &Path) -> Result<()> {
-    let ext = output
-        .extension()
-        .and_then(|e| e.to_str())
-        .map(str::to_ascii_lowercase);
-    let png = match ext.as_deref() {
-        Some("svg") => false,
-        Some("png") => true,
-        _ => bail!(
-            "{}: the output must end in .svg or .png, e.g. -o profile.svg",
-            output.display()
-        ),
-    };
-    let state = state_from(prep, common)?;
-    let a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
-    let sum = match &common.samples {
-        Some(path) => Some(summarise(prep, &state, path)?),
-        None => None,
-    };
-    let bytes = picture(prep, &a, sum.as_ref(), common, png)?;
-    std::fs::write(output, bytes)
-        .with_context(|| format!("{}: cannot write the picture", output.display()))?;
-    super::emit(&format!("wrote {}\n", output.display()))
-}
-
-/// The plot as SVG text or PNG bytes.
-#[cfg(feature = "plot")]
-fn picture(
-    prep: &Prepared,
-    a: &analysis::Analysis,
-    sum: Option<&Summary>,
-    common: &Common,
-    png: bool,
-) -> Result<Vec<u8>> {
-    let svg = dgpath::plot::svg(prep, a, sum, common.unit())?;
-    Ok(if png {
-        dgpath::plot::png(&svg)?
-    } else {
-        svg.into_bytes()
-    })
-}
-
-/// Without the `plot` feature there is nothing to draw with.
-#[cfg(not(feature = "plot"))]
-fn picture(
-    _: &Prepared,
-    _: &analysis::Analysis,
-    _: Option<&Summary>,
-    _: &Common,
-    _: bool,
-) -> Result<Vec<u8>> {
-    bail!("this dgpath was built without the `plot` feature: rebuild it with default features")
 }

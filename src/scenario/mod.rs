@@ -1,10 +1,38 @@
 //! What the person is changing: conditions, concentrations and direction,
-//! with undo and redo. Computing results is the analysis module's job.
+//! with undo and redo. Computing results is the analysis module's job; this
+//! module uses only `model` (`analysis` uses it, never the other way round).
+//! `save` writes a state back into the pathway file.
 
-use crate::analysis::Direction;
 pub mod save;
 
 use crate::model::{Conditions, Pathway};
+
+/// Which way the route runs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub enum Direction {
+    /// As written.
+    #[default]
+    Forward,
+    /// Backward, with bypasses in place of the steps they replace.
+    Reverse,
+}
+
+impl Direction {
+    /// "forward" or "reverse".
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Direction::Forward => "forward",
+            Direction::Reverse => "reverse",
+        }
+    }
+    /// The other direction.
+    pub fn flipped(self) -> Self {
+        match self {
+            Direction::Forward => Direction::Reverse,
+            Direction::Reverse => Direction::Forward,
+        }
+    }
+}
 
 /// One state of the editable inputs.
 #[derive(Debug, Clone, PartialEq)]
@@ -79,14 +107,6 @@ impl Scenario {
             }
             None => false,
         }
-    }
-    /// Replaces the state without history (after a reload).
-    pub fn reset(&mut self, state: State) {
-        self.current = state;
-    }
-    /// Number of edits that can be undone.
-    pub fn undo_depth(&self) -> usize {
-        self.undo.len()
     }
 }
 

@@ -6,10 +6,14 @@
 //! ladder (dG'° at the conditions) beside it on the same scale. Pure: it
 //! turns an `App` into lines for a given size.
 
-use super::app::App;
-use super::view::{Theme, fit, tenth};
+use super::text::{fit, tenth};
+use super::theme::{Theme, block};
+use crate::tui::app::{App, Pane};
+use ratatui::buffer::Buffer;
+use ratatui::layout::Rect;
 use ratatui::style::{Modifier, Style};
 use ratatui::text::{Line, Span};
+use ratatui::widgets::{Paragraph, Widget};
 
 /// Glyphs of the ladder, Unicode or ASCII.
 struct Glyphs {
@@ -329,6 +333,23 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         out.push(Line::from(spans));
     }
     out
+}
+
+/// Draws the energy-ladder pane.
+pub fn ladder_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
+    let title = match app.walk {
+        Some(k) => format!(
+            "Energy ladder — walk {}/{}",
+            k + 1,
+            app.analysis.steps.len()
+        ),
+        None => "Energy ladder".to_string(),
+    };
+    let b = block(app, t, Pane::Ladder, &title);
+    let inner = b.inner(area);
+    b.render(area, buf);
+    let lines = lines(app, inner.width as usize, inner.height as usize, t);
+    Paragraph::new(lines).render(inner, buf);
 }
 
 #[cfg(test)]

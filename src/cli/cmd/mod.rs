@@ -1,0 +1,9 @@
+//! One file per command.
+
+pub mod check;
+pub mod explore;
+pub mod mdf;
+pub mod new;
+pub mod plot;
+pub mod report;
+pub mod screenshot;

@@ -1,0 +1,247 @@
+//! The step detail pane: the selected step's numbers, verdict and notes.
+
+use super::text::{class_text, fit, kv};
+use super::theme::bottleneck_mark;
+use super::theme::{Theme, block};
+use crate::analysis::{Class, StepResult};
+use crate::model::units;
+use crate::present::{self, sci};
+use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
+use crate::tui::optimum::LiveMdf;
+use ratatui::buffer::Buffer;
+use ratatui::layout::Rect;
+use ratatui::style::Modifier;
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{Paragraph, Widget, Wrap};
+
+/// The detail lines for the selected step.
+pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
+    let Some(s) = app.selected_step() else {
+        return vec![Line::from("no step selected")];
+    };
+    let p = app.pathway();
+    let a = &app.analysis;
+    let u = app.opts.unit;
+    let ul = u.label();
+    let ascii = app.opts.ascii;
+    let st = &p.steps[s.step];
+    let rt = a.rt;
+    let mut out = Vec::new();
+    let mut head = vec![
+        Span::styled(st.id.clone(), t.bold()),
+        Span::raw(format!(" {} ", st.enzyme.as_deref().unwrap_or(""))),
+        Span::styled(
+            class_text(s, ascii),
+            t.class(s.class).add_modifier(Modifier::BOLD),
+        ),
+    ];
+    if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
+        head.push(Span::raw("  "));
+        head.push(Span::styled(
+            present::verdict_symbol(v.kind, ascii).to_string(),
+            t.verdict(v.kind),
+        ));
+    }
+    out.push(Line::from(head));
+    let mut rx = present::reaction_as_run(&app.prep, s);
+    if !ascii {
+        rx = rx.replace("->", "→").replace("<=>", "⇌");
+    }
+    out.push(Line::from(format!(
+        "{rx}{}",
+        if s.times != 1.0 {
+            format!("   ×{} per pass", units::sig3(s.times))
+        } else {
+            String::new()
+        }
+    )));
+    let mut l = kv("Q", sci(s.q()));
+    l.extend(kv("K'", sci(s.keq())));
+    l.extend(kv("RT", format!("{:.3} {ul}", u.of(rt))));
+    out.push(Line::from(l));
+    out.push(Line::styled("dG' = dG'° + RT ln Q:", t.dim()));
+    out.push(Line::from(format!(
+        "  {:>8.2}  dG'° at the conditions",
+        u.of(s.dg0)
+    )));
+    let biggest = s
+        .contributions
+        .iter()
+        .map(|c| c.energy.abs())
+        .fold(0.0, f64::max);
+    for c in &s.contributions {
+        let comp = &p.compounds[c.compound];
+        let drives = biggest > 0.0 && c.energy.abs() == biggest;
+        let line = format!(
+            "  {:>+8.2}  {} {:<8} {:>9}",
+            u.of(c.energy),
+            if c.nu < 0.0 { "−" } else { "+" }.replace('−', if ascii { "-" } else { "−" }),
+            fit(&comp.id, 8, ascii),
+            units::format_conc(app.state().conc[c.compound], ascii),
+        );
+        let mut spans = vec![Span::raw(line)];
+        if (c.nu.abs() - 1.0).abs() > 1e-12 {
+            spans.push(Span::styled(
+                format!(" ×{}", units::sig3(c.nu.abs())),
+                t.dim(),
+            ));
+        }
+        if drives {
+            spans.push(Span::styled(
+                if ascii { " <- largest" } else { " ◀ largest" },
+                t.bold(),
+            ));
+        }
+        out.push(Line::from(spans));
+    }
+    let sd = s
+        .dg_sd
+        .map(|sd| format!(" {} {:.2}", if ascii { "+/-" } else { "±" }, u.of(sd)))
+        .unwrap_or_default();
+    out.push(Line::from(vec![
+        Span::raw("  "),
+        Span::styled(format!("{:>+8.2}", u.of(s.dg)), t.bold()),
+        Span::raw(format!("  dG' {ul}{sd}")),
+    ]));
+    if let Some(main) = s.sd_main {
+        let what = match main {
+            None => "the dG'° uncertainty".to_string(),
+            Some(c) => format!("the measured {} (cv)", p.compounds[c].id),
+        };
+        out.push(Line::styled(
+            format!("  spread mostly from {what}"),
+            t.dim(),
+        ));
+    }
+    if !s.class_sure {
+        let mut could: Vec<&str> = Vec::new();
+        for c in [s.class_range.0, s.class_range.1] {
+            if c != s.class && !could.contains(&c.as_str()) {
+                could.push(c.as_str());
+            }
+        }
+        out.push(Line::styled(
+            format!("  not sure: within 95 % it could be {}", could.join(" or ")),
+            t.bold(),
+        ));
+    }
+    let mut l = kv("J+/J−", sci(s.flux_ratio(rt)));
+    if ascii {
+        l[0] = Span::raw("J+/J- ");
+    }
+    l.extend(kv(
+        "reverse share",
+        format!("{:.1}%", 100.0 * s.reverse_share(rt).min(1e6)),
+    ));
+    out.push(Line::from(l));
+    match s.enzyme_factor(rt) {
+        Some(f) => out.push(Line::from(kv("enzyme factor", format!("×{}", sci(f))))),
+        None => out.push(Line::styled(
+            "enzyme factor: none (dG' ≥ 0: no net forward flux)"
+                .replace('≥', if ascii { ">=" } else { "≥" }),
+            t.warn(),
+        )),
+    }
+    out.push(optimum_line(app, t, s));
+    if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
+        out.push(Line::styled(
+            format!("verdict: {}", v.kind.as_str().replace('_', " ")),
+            t.verdict(v.kind),
+        ));
+        for r in &v.reasons {
+            out.push(Line::from(format!("  {r}")));
+        }
+    } else if s.class != Class::Far {
+        out.push(Line::styled(
+            "verdict: none (only far steps get one)",
+            t.dim(),
+        ));
+    }
+    if let Some(nb) = a
+        .needs_bypass
+        .iter()
+        .find(|nb| a.steps.get(nb.position).is_some_and(|x| std::ptr::eq(x, s)))
+    {
+        out.push(Line::styled(
+            format!(
+                "reversed and uphill with no bypass: lacks {:.2} {ul} per turn",
+                u.of(nb.lacks)
+            ),
+            t.warn(),
+        ));
+    }
+    if let (Some(cp), Some(f)) = (a.counterpart, s.replaces)
+        && a.steps.get(cp).is_some_and(|x| std::ptr::eq(x, s))
+    {
+        out.push(Line::from(format!(
+            "bypass for {}, the forward route's committed step",
+            p.steps[f].id
+        )));
+    }
+    if let Some(g) = a.groups.iter().find(|g| {
+        g.members
+            .iter()
+            .any(|&m| a.steps.get(m).is_some_and(|x| std::ptr::eq(x, s)))
+    }) {
+        let ids: Vec<&str> = g
+            .members
+            .iter()
+            .map(|&m| p.steps[a.steps[m].step].id.as_str())
+            .collect();
+        out.push(Line::from(format!(
+            "coupled: {} together dG' {:+.2} {ul}",
+            ids.join(" + "),
+            u.of(g.dg)
+        )));
+    }
+    out
+}
+
+/// The selected step at the driving-force optimum.
+fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
+    let u = app.opts.unit;
+    let a = &app.analysis;
+    match &app.mdf {
+        LiveMdf::Failed(e) => Line::styled(format!("optimum: not solved — {e}"), t.warn()),
+        LiveMdf::Skipped(n) => Line::styled(
+            format!(
+                "optimum: not computed live for routes over {LIVE_MDF_MAX_STEPS} steps ({n} here); run `dgpath mdf FILE`"
+            ),
+            t.dim(),
+        ),
+        LiveMdf::Solved(_) => {
+            let pos = a.steps.iter().position(|x| std::ptr::eq(x, s));
+            match pos.and_then(|k| app.price_at(k).map(|pf| (k, pf))) {
+                None => Line::styled(
+                    "optimum: side steps are not part of the driving-force optimisation",
+                    t.dim(),
+                ),
+                Some((k, (price, force))) => {
+                    let mut l = kv("shadow price", format!("{price:.2}"));
+                    l.extend(kv(
+                        "driving force at optimum",
+                        format!("{:.2} {}", u.of(force), u.label()),
+                    ));
+                    if app.is_bottleneck(k) {
+                        l.push(Span::styled(
+                            format!("{} bottleneck", bottleneck_mark(app.opts.ascii)),
+                            t.warn(),
+                        ));
+                    }
+                    Line::from(l)
+                }
+            }
+        }
+    }
+}
+
+/// Draws the step detail pane.
+pub fn detail_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
+    let b = block(app, t, Pane::Detail, "Step detail");
+    let inner = b.inner(area);
+    b.render(area, buf);
+    Paragraph::new(detail_lines(app, t))
+        .wrap(Wrap { trim: false })
+        .scroll((app.detail_scroll, 0))
+        .render(inner, buf);
+}
