@@ -130,8 +130,8 @@ impl StepResult {
     }
     /// Share of forward flux undone by the reverse flux, e^{dG'/RT}; None
     /// unless dG' < 0 (with dG' ≥ 0 there is no net forward flux to undo).
-    pub fn reverse_share(&self, rt: f64) -> f64 {
-        (self.dg / rt).exp()
+    pub fn reverse_share(&self, rt: f64) -> Option<f64> {
+        (self.dg < 0.0).then(|| (self.dg / rt).exp())
     }
     /// Enzyme needed relative to an irreversible step, 1/(1 − e^{dG'/RT}); None unless dG' < 0.
     pub fn enzyme_factor(&self, rt: f64) -> Option<f64> {

@@ -66,14 +66,14 @@ pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         })
         .collect();
     lines.push(Line::styled(
-        " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck ± 1 sd",
+        " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck ⇄ backward ± 1 sd",
         t.dim(),
     ));
     if app.opts.ascii {
         lines = lines.into_iter().map(ascii_line).collect();
         if let Some(last) = lines.last_mut() {
             *last = Line::styled(
-                " v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck +- 1 sd",
+                " v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck ! backward +- 1 sd",
                 t.dim(),
             );
         }
