@@ -189,3 +189,33 @@ fn feasible_ranges_through_the_binary() {
     assert!(f(&d["mdf"]) < 0.0);
     assert!(d["feasible_ranges_m"].is_null());
 }
+
+#[test]
+fn the_demo_optimum_with_carriers_held_and_freed_is_optimal() {
+    use dgpath::analysis::mdf::{self, Options};
+    let prep = crate::support::prepare_file("../pathways/fermenter.toml");
+    let state = dgpath::scenario::State::from_pathway(&prep.pathway);
+    for free_currencies in [false, true] {
+        let opts = Options {
+            free_currencies,
+            ranges: true,
+        };
+        let m = mdf::solve_with(&prep, &state, &opts).expect("solves");
+        // Primal and dual feasibility, strong duality and complementary slackness
+        // of the programme actually solved (carriers held or not).
+        let c = mdf::certificate(&prep, &state, &m).expect("certificate");
+        assert!(
+            c.primal < 1e-6 && c.dual < 1e-6 && c.gap < 1e-6 && c.complementary < 1e-6,
+            "{free_currencies}: {c:?}"
+        );
+        // Every feasible range holds the optimum and lies within the bounds.
+        let f = m.feasible_ranges.as_ref().expect("MDF > 0");
+        for (i, part) in m.parts.iter().enumerate() {
+            if *part == mdf::Part::Free {
+                let (lo, hi) = f[i];
+                assert!(lo <= m.conc[i] * (1.0 + 1e-9) && m.conc[i] <= hi * (1.0 + 1e-9));
+                assert!(lo >= m.bounds[i].0 * (1.0 - 1e-9) && hi <= m.bounds[i].1 * (1.0 + 1e-9));
+            }
+        }
+    }
+}
