@@ -126,8 +126,15 @@ fn a_typed_value_with_a_unit_is_applied_and_a_bad_one_changes_nothing() {
     assert!(matches!(app.mode, Mode::Edit { error: Some(_), .. }));
     keys(&mut app, "Esc");
     assert_eq!(app.state(), &before);
-    // Conditions: temperature (bare number is °C), pH, ionic strength.
-    keys(&mut app, "t 37 Enter p 7.4 Enter i 150 mM Enter");
+    // A bare temperature is refused, as in the file and on the command line.
+    keys(&mut app, "t 37 Enter");
+    match &app.mode {
+        Mode::Edit { error: Some(e), .. } => assert!(e.contains("needs a unit"), "{e}"),
+        m => panic!("expected an inline error, got {m:?}"),
+    }
+    keys(&mut app, "Esc");
+    // Conditions: temperature, pH, ionic strength.
+    keys(&mut app, "t 37 C Enter p 7.4 Enter i 150 mM Enter");
     let c = app.state().conditions;
     assert!((c.temperature - 310.15).abs() < 1e-9);
     assert_eq!(c.ph, 7.4);
@@ -205,7 +212,7 @@ fn find_walk_and_selection_highlights() {
 #[test]
 fn save_writes_the_file_keeping_comments() {
     let (_dir, path, mut app) = on_disk();
-    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter t 37 Enter s");
+    keys(&mut app, "Tab Down Down Enter 2.5 mM Enter t 37 C Enter s");
     let text = std::fs::read_to_string(&path).unwrap();
     assert!(
         text.contains(r#"f6p   = { name = "fructose 6-phosphate", conc = "2.5 mM", cv = 0.25 }"#),
@@ -840,4 +847,23 @@ fn the_compound_detail_gives_the_range_where_the_route_can_run() {
         "{text}"
     );
     assert_eq!(m.parts[ci(&app, "atp")], Part::Held);
+}
+
+#[test]
+fn an_edit_the_analysis_refuses_is_never_applied_and_keeps_the_redo_history() {
+    // 3e304 protons are harmless at the reference pH (no shift) but make
+    // dG'° overflow two pH units away, which the analysis refuses.
+    let text = "format = 1\n[pathway]\nname = \"overflow\"\n[conditions]\ntemperature = \"30 C\"\n[compounds]\na = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\n[[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\nprotons = 3e304\n";
+    let mut app = app_from(text, Source::demo());
+    keys(&mut app, "Tab +");
+    let edited = app.state().clone();
+    keys(&mut app, "u");
+    let before = app.state().clone();
+    assert_ne!(before, edited);
+    keys(&mut app, "p 5 Enter");
+    assert_eq!(app.state(), &before, "the refused pH is not applied");
+    let status = screen(&app, 100, 30);
+    assert!(status.contains("cannot apply"), "{status}");
+    keys(&mut app, "C-r");
+    assert_eq!(app.state(), &edited, "redo still has the undone edit");
 }

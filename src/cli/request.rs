@@ -6,7 +6,7 @@ use super::args::Common;
 use anyhow::{Context, Result, anyhow, bail};
 use dgpath::analysis::{self, Direction, Prepared};
 use dgpath::model::samples::Sample;
-use dgpath::model::{self, LoadError, units};
+use dgpath::model::{self, LoadError, check, units};
 use dgpath::scenario::State;
 use dgpath::tui::Source;
 use std::path::Path;
@@ -31,32 +31,17 @@ pub fn load_demo() -> Result<Prepared> {
 pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
     let p = &prep.pathway;
     let mut s = State::from_pathway(p);
+    // The same checker as the file and the explorer (model::check).
     if let Some(t) = &c.temperature {
-        s.conditions.temperature =
-            units::parse(t, units::Kind::Temperature).map_err(|e| anyhow!("--temperature: {e}"))?;
-        if s.conditions.temperature <= 0.0 {
-            bail!("--temperature: {t} is at or below absolute zero; write e.g. \"37 C\"");
-        }
-        if s.conditions.temperature > model::MAX_TEMPERATURE {
-            bail!(
-                "--temperature: {t} is above {} K, far outside any cell; write e.g. \"37 C\"",
-                model::MAX_TEMPERATURE
-            );
-        }
+        s.conditions.temperature = check::quantity(t, units::Kind::Temperature)
+            .map_err(|e| anyhow!("--temperature: {e}"))?;
     }
     if let Some(ph) = c.ph {
-        if !(0.0..=14.0).contains(&ph) {
-            bail!("--ph: {ph} is outside 0–14; write e.g. --ph 7.2");
-        }
-        s.conditions.ph = ph;
+        s.conditions.ph = check::ph(ph).map_err(|e| anyhow!("--ph: {e}"))?;
     }
     if let Some(i) = &c.ionic_strength {
-        let v = units::parse(i, units::Kind::IonicStrength)
+        s.conditions.ionic_strength = check::quantity(i, units::Kind::IonicStrength)
             .map_err(|e| anyhow!("--ionic-strength: {e}"))?;
-        if v < 0.0 {
-            bail!("--ionic-strength: cannot be negative; write e.g. \"0.15 M\"");
-        }
-        s.conditions.ionic_strength = v;
     }
     for item in &c.set {
         let (id, val) = item
@@ -77,11 +62,7 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
                 });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
         })?;
-        let v = units::parse(val, units::Kind::Concentration)
-            .map_err(|e| anyhow!("--set '{item}': {e}"))?;
-        if v <= 0.0 {
-            bail!("--set '{item}': a concentration must be above zero; write e.g. {id}=1uM");
-        }
+        let v = check::concentration(val).map_err(|e| anyhow!("--set '{item}': {e}"))?;
         if p.compounds[ci].is_solvent() {
             bail!(
                 "--set '{item}': '{id}' is a solvent (activity 1); its concentration does not enter Q"

@@ -77,6 +77,15 @@ pub fn concentration(text: &str) -> Result<f64, String> {
     Ok(c)
 }
 
+/// Checks a concentration already in mol/L (a stepped value in the explorer).
+pub fn concentration_si(c: f64) -> Result<f64, String> {
+    if c > 0.0 {
+        plausible(c, Kind::Concentration)
+    } else {
+        Err("a concentration must stay above zero".into())
+    }
+}
+
 /// Checks a pH value.
 pub fn ph(value: f64) -> Result<f64, String> {
     if value.is_finite() && (PH_RANGE.0..=PH_RANGE.1).contains(&value) {

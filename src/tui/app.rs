@@ -475,9 +475,10 @@ impl App {
                     return;
                 }
                 let keep = self.selected_step().map(|s| s.step);
-                self.commit(|s| s.direction = next);
-                self.reselect(keep);
-                self.say(format!("route runs {}", next.as_str()), Tone::Info);
+                if self.commit(|s| s.direction = next) {
+                    self.reselect(keep);
+                    self.say(format!("route runs {}", next.as_str()), Tone::Info);
+                }
             }
             Message::Walk => self.walk_next(),
             Message::LoadOptimum => self.load_optimum(),
@@ -514,40 +515,62 @@ impl App {
     }
 
     pub(super) fn set_conc(&mut self, i: usize, v: f64) {
-        if !(v > 0.0 && v <= 100.0) {
-            self.say("that would leave the range a cell can hold", Tone::Warn);
+        if let Err(e) = crate::model::check::concentration_si(v) {
+            self.say(e, Tone::Warn);
             return;
         }
-        self.commit(|s| s.conc[i] = v);
+        if !self.commit(|s| s.conc[i] = v) {
+            return;
+        }
         let c = &self.prep.pathway.compounds[i];
         let m = format!("{} = {}", c.id, units::format_conc(v, self.opts.ascii));
         self.say(m, Tone::Info);
     }
 
-    /// Applies an undoable edit and recomputes.
-    pub(super) fn commit(&mut self, f: impl FnOnce(&mut State)) {
-        if self.scenario.edit(f) {
-            self.recompute();
+    /// Applies an undoable edit and recomputes. The edited state is analysed
+    /// first: an edit the analysis refuses never enters the history (so the
+    /// redo history survives it) and the status line says why.
+    /// Returns false when the edit was refused.
+    pub(super) fn commit(&mut self, f: impl FnOnce(&mut State)) -> bool {
+        let mut next = self.scenario.state().clone();
+        f(&mut next);
+        if &next == self.scenario.state() {
+            return true;
+        }
+        match analysis::analyze(&self.prep, &next) {
+            Ok(a) => {
+                self.scenario.edit(|s| *s = next);
+                self.install(a);
+                true
+            }
+            Err(e) => {
+                self.say(format!("cannot apply: {}", e.message), Tone::Warn);
+                false
+            }
         }
     }
 
-    /// Recomputes the analysis for the current state.
+    /// Recomputes the analysis for the current state (after undo, redo, a
+    /// save or a reload). A state in the history was analysed when it was
+    /// made, so a failure here is unexpected; it steps back one edit.
     pub(super) fn recompute(&mut self) {
         match analysis::analyze(&self.prep, self.scenario.state()) {
-            Ok(a) => {
-                self.analysis = a;
-                self.mdf =
-                    LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
-                self.track_sample();
-                self.step_sel = self.step_sel.min(self.step_rows().saturating_sub(1));
-                if let Some(w) = self.walk {
-                    self.walk = Some(w.min(self.analysis.steps.len().saturating_sub(1)));
-                }
-            }
+            Ok(a) => self.install(a),
             Err(e) => {
                 self.scenario.undo();
                 self.say(format!("cannot apply: {}", e.message), Tone::Warn);
             }
+        }
+    }
+
+    /// Makes `a` the current analysis and brings what depends on it up to date.
+    fn install(&mut self, a: Analysis) {
+        self.analysis = a;
+        self.mdf = LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
+        self.track_sample();
+        self.step_sel = self.step_sel.min(self.step_rows().saturating_sub(1));
+        if let Some(w) = self.walk {
+            self.walk = Some(w.min(self.analysis.steps.len().saturating_sub(1)));
         }
     }
 

@@ -4,7 +4,8 @@
 use super::app::{App, LIVE_MDF_MAX_STEPS, Mode, Target, Tone};
 use super::optimum::{LiveMdf, round_conc_sig3};
 use crate::analysis::mdf::Part;
-use crate::model::{Pathway, units};
+use crate::model::units::Kind;
+use crate::model::{Pathway, check};
 
 /// Why a value typed into an edit line was refused.
 fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> {
@@ -12,52 +13,18 @@ fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> 
     if t.is_empty() {
         return Err("type a value, or Esc to cancel".into());
     }
+    // The same checker as the file and the command line (model::check).
     match target {
-        Target::Conc(i) => {
-            let v = units::parse(t, units::Kind::Concentration)?;
-            if v <= 0.0 {
-                return Err(format!(
-                    "a concentration must be above zero; write e.g. 80 uM for {}",
-                    p.compounds[i].id
-                ));
-            }
-            if v > 100.0 {
-                return Err(format!(
-                    "{} M is not a concentration a cell holds; write e.g. 2.5 mM",
-                    units::sig3(v)
-                ));
-            }
-            Ok(v)
-        }
-        Target::Temperature => {
-            // A bare number is read as °C here (the file always carries a unit).
-            let with_unit = if t.ends_with(|c: char| c.is_ascii_digit() || c == '.') {
-                format!("{t} C")
+        Target::Conc(i) => check::concentration(t).map_err(|e| {
+            if e.contains("not above zero") {
+                format!("{e} (for {})", p.compounds[i].id)
             } else {
-                t.to_string()
-            };
-            let k = units::parse(&with_unit, units::Kind::Temperature)?;
-            if !(273.15..=373.15).contains(&k) {
-                return Err("a temperature between 0 and 100 °C, e.g. 37 C".into());
+                e
             }
-            Ok(k)
-        }
-        Target::Ph => {
-            let v: f64 = t
-                .parse()
-                .map_err(|_| format!("'{t}' is not a pH; write e.g. 7.2"))?;
-            if !(0.0..=14.0).contains(&v) {
-                return Err(format!("{v} is outside 0–14; write e.g. 7.2"));
-            }
-            Ok(v)
-        }
-        Target::IonicStrength => {
-            let v = units::parse(t, units::Kind::IonicStrength)?;
-            if !(0.0..=2.0).contains(&v) {
-                return Err("an ionic strength between 0 and 2 M, e.g. 0.15 M".into());
-            }
-            Ok(v)
-        }
+        }),
+        Target::Temperature => check::quantity(t, Kind::Temperature),
+        Target::Ph => check::ph_text(t),
+        Target::IonicStrength => check::quantity(t, Kind::IonicStrength),
     }
 }
 
@@ -81,16 +48,19 @@ impl App {
                     Ok(v) => match target {
                         Target::Conc(i) => self.set_conc(i, v),
                         Target::Temperature => {
-                            self.commit(|s| s.conditions.temperature = v);
-                            self.say(format!("temperature {:.2} °C", v - 273.15), Tone::Info);
+                            if self.commit(|s| s.conditions.temperature = v) {
+                                self.say(format!("temperature {:.2} °C", v - 273.15), Tone::Info);
+                            }
                         }
                         Target::Ph => {
-                            self.commit(|s| s.conditions.ph = v);
-                            self.say(format!("pH {v}"), Tone::Info);
+                            if self.commit(|s| s.conditions.ph = v) {
+                                self.say(format!("pH {v}"), Tone::Info);
+                            }
                         }
                         Target::IonicStrength => {
-                            self.commit(|s| s.conditions.ionic_strength = v);
-                            self.say(format!("ionic strength {v} M"), Tone::Info);
+                            if self.commit(|s| s.conditions.ionic_strength = v) {
+                                self.say(format!("ionic strength {v} M"), Tone::Info);
+                            }
                         }
                     },
                 }
@@ -139,11 +109,13 @@ impl App {
             );
             return;
         }
-        self.commit(|s| {
+        if !self.commit(|s| {
             for &(i, v) in &values {
                 s.conc[i] = v;
             }
-        });
+        }) {
+            return;
+        }
         self.say(
             format!(
                 "loaded the optimal concentrations of {changed} compound{} (rounded to 3 significant figures; MDF {:.2} {}); u undoes",

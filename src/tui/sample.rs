@@ -33,9 +33,8 @@ impl App {
         let conc = self.samples[k].conc.clone();
         let (was, was_edited) = (self.sample_at, self.sample_edited);
         self.sample_at = k;
-        self.commit(|s| s.conc = conc);
-        if self.state().conc != self.samples[k].conc {
-            // The sample could not be analysed; `recompute` said why and undid it.
+        if !self.commit(|s| s.conc = conc) {
+            // The sample could not be analysed; `commit` said why.
             (self.sample_at, self.sample_edited) = (was, was_edited);
             return;
         }
