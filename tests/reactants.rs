@@ -36,6 +36,40 @@ fn single_pka_through_a_file() {
     assert!(a.steps[0].species);
 }
 
+#[test]
+fn the_json_says_which_steps_got_the_reactant_model() {
+    // succinate.toml: the carboxylation and the hydratase have data for every reactant;
+    // the NADH steps do not (NAD+/NADH lack charge and hydrogens).
+    let out = crate::support::run(&[
+        "report",
+        crate::support::path("../pathways/succinate.toml")
+            .to_str()
+            .unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert!(out.status.success());
+    let d: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let model: Vec<(String, bool)> = d["steps"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|s| {
+            (
+                s["id"].as_str().unwrap().to_string(),
+                s["reactant_model"].as_bool().unwrap(),
+            )
+        })
+        .collect();
+    let want = [
+        ("ppc", true),
+        ("mdh", false),
+        ("fum_h", true),
+        ("frd", false),
+    ];
+    assert_eq!(model, want.map(|(i, b)| (i.to_string(), b)).to_vec());
+}
+
 /// Base species of ATP hydrolysis (science.md §4 [S via M]: pKa computed from
 /// Alberty's species formation energies, BasicBiochemData3 as transcribed in public tables).
 const ATP: (f64, f64, &[f64]) = (-4.0, 12.0, &[7.60, 4.68]);

@@ -77,6 +77,7 @@ fn step_json(
         );
     }
     m.insert("dg0_kept_at_reference".into(), json!(s.kept_reference_dg0));
+    m.insert("reactant_model".into(), json!(s.species));
     Value::Object(m)
 }
 
