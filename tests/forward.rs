@@ -219,3 +219,28 @@ fn the_demo_optimum_with_carriers_held_and_freed_is_optimal() {
         }
     }
 }
+
+#[test]
+fn the_total_sd_says_when_it_is_partial() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("partial.toml");
+    std::fs::write(
+        &file,
+        "format = 1\n[pathway]\nname = \"p\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
+         a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\n\
+         [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = -5\ndg0_sd = 1.5\n\
+         [[steps]]\nid = \"s2\"\nreaction = \"b -> c\"\ndg0 = -5\n",
+    )
+    .unwrap();
+    let f = file.to_str().unwrap();
+    let (table, _) = texts(&run(&["report", f]));
+    assert!(
+        table.contains("± 1.50; 1 of 2 steps give no dg0_sd"),
+        "{table}"
+    );
+    let md = texts(&run(&["report", f, "--format", "md"])).0;
+    assert!(md.contains("± 1.50; 1 of 2 steps give no dg0_sd"), "{md}");
+    let d = json(&["report", f, "--format", "json"]);
+    assert_eq!(d["total"]["steps_without_dg0_sd"], 1);
+    close(d["total"]["dg_sd"].as_f64().unwrap(), 1.5, 1e-9);
+}
