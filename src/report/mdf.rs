@@ -430,6 +430,6 @@ pub fn samples_table(
             bottleneck_ids(prep, route, m).join(", ")
         ));
     }
-    s.push_str("\nOnly compounds marked fixed (and the conditions) differ between samples in this optimisation; the others are chosen within their bounds.\n");
+    s.push_str("\nOnly held compounds (carriers, unless freed, and those marked fixed) and the conditions differ between samples in this optimisation; the others are chosen within their bounds.\n");
     s
 }
