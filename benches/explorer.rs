@@ -106,6 +106,36 @@ fn main() {
         d.as_secs_f64() * 1e3
     );
 
+    // The demo at its optimum (key o): every step runs forward, so the flux
+    // control estimate is computed on every edit; the range is computed
+    // between keys in parts of IDLE_DRAWS draws.
+    let mut opt = app(dgpath::DEMO, dgpath::DEMO_NAME);
+    opt.handle_key(key('o'));
+    opt.finish_idle_work();
+    assert!(opt.analysis.control_estimate.coefficients.is_some());
+    let d = edit_render(&mut opt, 120, 36, 400);
+    println!(
+        "demo at its optimum (estimate on every edit): edit + recompute + render 120x36: {:.3} ms (target 2 ms)",
+        d.as_secs_f64() * 1e3
+    );
+    let mut parts = Vec::new();
+    let t_all = Instant::now();
+    opt.handle_key(key('+'));
+    while opt.busy() {
+        let t0 = Instant::now();
+        opt.idle_work();
+        parts.push(t0.elapsed());
+    }
+    let all = t_all.elapsed();
+    parts.sort();
+    println!(
+        "  range between keys: {} parts of {} draws, longest part {:.3} ms, whole range {:.1} ms",
+        parts.len(),
+        dgpath::tui::app::IDLE_DRAWS,
+        parts.last().map_or(0.0, |p| p.as_secs_f64() * 1e3),
+        all.as_secs_f64() * 1e3
+    );
+
     // The longest route still optimised live, at the limit.
     let n = dgpath::tui::app::LIVE_MDF_MAX_STEPS;
     let text = synthetic(n);

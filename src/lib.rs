@@ -9,8 +9,11 @@
 //! `Direction`). The front ends (`tui`, `report`, `plot`) share `present` and
 //! never import each other. The binary's `cli` lives in `src/cli/`.
 #![forbid(unsafe_code)]
+// No unwrap or expect outside tests: every failure becomes a message.
+#![deny(clippy::unwrap_used, clippy::expect_used)]
 
 pub mod analysis;
+pub mod import;
 pub mod model;
 #[cfg(feature = "plot")]
 pub mod plot;

@@ -1,6 +1,9 @@
 //! The `dgpath` binary: parse arguments, run, map errors to exit codes
 //! (0 ok, 1 bad input, 2 usage).
 
+// No unwrap or expect: every failure becomes a message and an exit code.
+#![deny(clippy::unwrap_used, clippy::expect_used)]
+
 mod cli;
 
 use clap::Parser;

@@ -176,20 +176,18 @@ fn profile_panel<DB: DrawingBackend>(
             .map_err(draw_err)?;
     }
     let span = y.1 - y.0;
-    if actual {
-        if let Some(k) = pr.largest {
-            let mid = (k as f64 + 0.5, (pr.actual[k] + pr.actual[k + 1]) / 2.0);
-            chart
-                .draw_series([Circle::new(mid, 7, MARK.filled())])
-                .map_err(draw_err)?;
-            chart
-                .draw_series([Text::new(
-                    "largest drop",
-                    (mid.0 + 0.15, mid.1),
-                    font(13).pos(Pos::new(HPos::Left, VPos::Center)),
-                )])
-                .map_err(draw_err)?;
-        }
+    if actual && let Some(k) = pr.largest {
+        let mid = (k as f64 + 0.5, (pr.actual[k] + pr.actual[k + 1]) / 2.0);
+        chart
+            .draw_series([Circle::new(mid, 7, MARK.filled())])
+            .map_err(draw_err)?;
+        chart
+            .draw_series([Text::new(
+                "largest drop",
+                (mid.0 + 0.15, mid.1),
+                font(13).pos(Pos::new(HPos::Left, VPos::Center)),
+            )])
+            .map_err(draw_err)?;
     }
     // Coupled groups: a bracket under the steps they join.
     for &(a, b) in &pr.groups {

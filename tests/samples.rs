@@ -215,7 +215,8 @@ fn csv_has_one_row_per_sample_and_step() {
             "class",
             "against",
             "verdict",
-            "cumulative"
+            "cumulative",
+            "control_coefficient"
         ]
     );
     let rows: Vec<csv::StringRecord> = r.records().map(Result::unwrap).collect();

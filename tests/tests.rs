@@ -1,8 +1,14 @@
+//! dgpath's integration tests, one binary: each module tests what a user sees
+//! (the command line, references with their sources, the explorer, properties,
+//! bad inputs, limits, saving).
+
 mod bad_input;
 mod cli;
+mod control_estimate;
 mod explorer;
 mod explorer_tmux;
 mod forward;
+mod import;
 mod library;
 mod limits;
 mod mdf;

@@ -85,6 +85,10 @@ pub struct StepSpread {
     pub largest: usize,
     /// Samples in which this step is the prime control step.
     pub prime: usize,
+    /// Median flux control estimate over the samples that have one (science.md §7).
+    pub control_median: Option<f64>,
+    /// Samples with a flux control estimate (every route step runs forward).
+    pub control_samples: usize,
     /// Samples in which this step runs backward (dG' > 0).
     pub against: usize,
     /// Their names, in table order.
@@ -146,6 +150,7 @@ pub struct Accumulator {
     runs_forward: usize,
     primes: Vec<(String, Option<usize>)>,
     class_of: Vec<Vec<Class>>,
+    control: Vec<Vec<f64>>,
 }
 
 impl Accumulator {
@@ -162,6 +167,7 @@ impl Accumulator {
             runs_forward: 0,
             primes: Vec::new(),
             class_of: vec![Vec::new(); steps],
+            control: vec![Vec::new(); steps],
         }
     }
 
@@ -173,6 +179,9 @@ impl Accumulator {
             self.step[k] = s.step;
             self.classes[k].add(s.class);
             self.class_of[k].push(s.class);
+            if let Some(c) = a.control_estimate.coefficient(k) {
+                self.control[k].push(c);
+            }
             if s.against {
                 self.against[k].push(name.to_string());
             }
@@ -194,6 +203,8 @@ impl Accumulator {
         let mut steps = Vec::with_capacity(self.dg.len());
         for (k, v) in self.dg.iter_mut().enumerate() {
             v.sort_by(f64::total_cmp);
+            let cc = &mut self.control[k];
+            cc.sort_by(f64::total_cmp);
             steps.push(StepSpread {
                 step: self.step[k],
                 dg0: self.dg0[k],
@@ -205,6 +216,8 @@ impl Accumulator {
                 classes: self.classes[k],
                 largest: self.largest[k],
                 prime: self.prime[k],
+                control_median: (!cc.is_empty()).then(|| quantile(cc, 0.5)),
+                control_samples: cc.len(),
                 against: self.against[k].len(),
                 against_samples: std::mem::take(&mut self.against[k]),
             });
@@ -426,6 +439,15 @@ dg0 = "-8 kJ/mol"
                 && (s1.max - (-8000.0 + 2.0 * l)).abs() < 1e-6
         );
         assert_eq!(s1.dg0, -8000.0);
+        // Flux control (science.md §7 closed form for two steps [C]):
+        // t3 and t5 have a step at dG' = −8 + 2L > 0: no estimate. Over t1,
+        // t2, t4, C1 = ε2,S / (ε2,S − ε1,P) falls as b rises, so its median is
+        // t1's, where both steps have dG' = −8 kJ/mol.
+        let rho = (-8000.0 / thermo::rt(298.15)).exp();
+        let c1 = (1.0 / (1.0 - rho)) / (1.0 / (1.0 - rho) + rho / (1.0 - rho));
+        assert_eq!((s1.control_samples, s.steps[1].control_samples), (3, 3));
+        assert!((s1.control_median.unwrap() - c1).abs() < 1e-12);
+        assert!((s.steps[1].control_median.unwrap() - (1.0 - c1)).abs() < 1e-12);
         // Far and near tie for s1 (2 each); far comes first. The others are listed.
         let cd = &s.class_differs;
         assert_eq!(cd.len(), 2);

@@ -5,6 +5,7 @@
 
 pub mod batch;
 pub mod control;
+pub mod mca;
 pub mod mdf;
 mod notes;
 mod route;
@@ -202,6 +203,8 @@ pub struct Analysis {
     pub counterpart: Option<usize>,
     /// Notes and warnings for the reader, one line each.
     pub notes: Vec<String>,
+    /// Flux control estimated from the thermodynamics (science.md §7).
+    pub control_estimate: mca::Estimate,
 }
 
 /// z for a two-sided 95 % interval.
@@ -364,11 +367,11 @@ fn weighted_sd(
         }
     }
     for (c, &coef) in per_compound.iter().enumerate() {
-        if let Some(cv) = p.compounds[c].cv {
-            if used_by[c] {
-                any = true;
-                var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
-            }
+        if let Some(cv) = p.compounds[c].cv
+            && used_by[c]
+        {
+            any = true;
+            var += (rt * coef * thermo::ln_sd_from_cv(cv)).powi(2);
         }
     }
     any.then(|| var.sqrt())
@@ -472,11 +475,14 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         needs_bypass: Vec::new(),
         counterpart: None,
         notes: Vec::new(),
+        control_estimate: mca::Estimate::default(),
     };
     a.control = control::verdicts(p, &a);
     for (i, v) in a.control.iter().enumerate() {
         a.steps[v.position].verdict = Some(i);
     }
     a.notes = notes::notes(p, &a, state);
+    a.control_estimate = mca::estimate(p, &a, &state.conc);
+    a.notes.extend(a.control_estimate.notes.iter().cloned());
     a
 }

@@ -25,13 +25,22 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
         "share",
         "verdict",
         "side",
+        "control_coefficient",
+        "control_low",
+        "control_high",
     ]);
-    for (s, side) in a
+    let est = &a.control_estimate;
+    for (k, (s, side)) in a
         .steps
         .iter()
         .map(|s| (s, false))
         .chain(a.side.iter().map(|s| (s, true)))
+        .enumerate()
     {
+        let route = (!side).then_some(k);
+        let coef = route.and_then(|k| est.coefficient(k));
+        let range = route.and_then(|k| est.range(k));
+        let cell = |x: Option<f64>| x.map(|v| format!("{}", clean(v))).unwrap_or_default();
         let st = &p.steps[s.step];
         let _ = w.write_record([
             st.id.clone(),
@@ -67,6 +76,9 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
                 .map(|v| a.control[v].kind.as_str().to_string())
                 .unwrap_or_default(),
             side.to_string(),
+            cell(coef),
+            cell(range.map(|r| r.0)),
+            cell(range.map(|r| r.1)),
         ]);
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()

@@ -28,8 +28,9 @@ fn step_json(
     a: &Analysis,
     s: &StepResult,
     u: EnergyUnit,
-    on_route: bool,
+    position: Option<usize>,
 ) -> Value {
+    let on_route = position.is_some();
     let p = &prep.pathway;
     let st = &p.steps[s.step];
     let mut m = Map::new();
@@ -52,9 +53,19 @@ fn step_json(
     m.insert("class".into(), json!(s.class.as_str()));
     m.insert("class_sure".into(), json!(s.class_sure));
     m.insert("against".into(), json!(s.against));
-    if on_route {
+    if let Some(k) = position {
         m.insert("cumulative".into(), num(u.of(s.cumulative)));
         m.insert("share".into(), num(s.share));
+        let est = &a.control_estimate;
+        m.insert(
+            "control_coefficient".into(),
+            est.coefficient(k).map_or(Value::Null, num),
+        );
+        m.insert(
+            "control_coefficient_range".into(),
+            est.range(k)
+                .map_or(Value::Null, |(lo, hi)| json!([num(lo), num(hi)])),
+        );
     }
     m.insert(
         "reverse_share".into(),
@@ -88,12 +99,13 @@ pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -
     let steps: Vec<Value> = a
         .steps
         .iter()
-        .map(|s| step_json(prep, a, s, u, true))
+        .enumerate()
+        .map(|(k, s)| step_json(prep, a, s, u, Some(k)))
         .collect();
     let side: Vec<Value> = a
         .side
         .iter()
-        .map(|s| step_json(prep, a, s, u, false))
+        .map(|s| step_json(prep, a, s, u, None))
         .collect();
     let groups: Vec<Value> = a
         .groups

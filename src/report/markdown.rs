@@ -11,7 +11,7 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
     let ul = u.label();
     let c = &state.conditions;
     let mut out = format!(
-        "## {}\n\n{} route, {:.2} °C, pH {}, I = {} M\n\n| step | enzyme | turns | dG'° [{ul}] | dG' [{ul}] | class | share | cumulative [{ul}] | verdict |\n|---|---|---:|---:|---:|---|---:|---:|---|\n",
+        "## {}\n\n{} route, {:.2} °C, pH {}, I = {} M\n\n| step | enzyme | turns | dG'° [{ul}] | dG' [{ul}] | class | share | cumulative [{ul}] | verdict | control | 5–95 % |\n|---|---|---:|---:|---:|---|---:|---:|---|---:|---|\n",
         p.name,
         a.direction.as_str(),
         c.temperature - 273.15,
@@ -21,7 +21,7 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
     for (k, s) in a.steps.iter().enumerate() {
         let st = &p.steps[s.step];
         out.push_str(&format!(
-            "| {}{}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} |\n",
+            "| {}{}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} | {} | {} |\n",
             st.id,
             if s.against {
                 " ⇄ **runs backward**"
@@ -45,7 +45,13 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
                 String::new()
             },
             clean(u.of(s.cumulative)),
-            s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or("")
+            s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
+            a.control_estimate
+                .coefficient(k)
+                .map_or("-".into(), |c| format!("{c:.3}")),
+            a.control_estimate
+                .range(k)
+                .map_or(String::new(), |(lo, hi)| format!("{lo:.3}–{hi:.3}"))
         ));
     }
     out.push_str(&format!(
@@ -70,6 +76,10 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
     for n in &a.notes {
         out.push_str(&format!("\n> note: {n}\n"));
     }
-    out.push_str(&format!("\n_{}_\n", control::CAUTION));
+    out.push_str(&format!(
+        "\n_{}{}_\n",
+        crate::report::table::control_legend(a).replace('\n', " "),
+        control::CAUTION
+    ));
     out
 }

@@ -24,7 +24,7 @@ fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
 
 /// The header line of `report --samples --format csv`.
 pub fn csv_header() -> String {
-    "sample,step,dg0,dg,class,against,verdict,cumulative\n".to_string()
+    "sample,step,dg0,dg,class,against,verdict,cumulative,control_coefficient\n".to_string()
 }
 
 /// One CSV row per route step of one sample.
@@ -32,7 +32,7 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
     let mut w = csv::WriterBuilder::new()
         .has_headers(false)
         .from_writer(Vec::with_capacity(64 * a.steps.len()));
-    for s in &a.steps {
+    for (k, s) in a.steps.iter().enumerate() {
         let _ = w.write_record([
             name,
             &prep.pathway.steps[s.step].id,
@@ -42,6 +42,10 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
             if s.against { "true" } else { "false" },
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
             &format!("{}", clean(u.of(s.cumulative))),
+            &a.control_estimate
+                .coefficient(k)
+                .map(|c| format!("{}", clean(c)))
+                .unwrap_or_default(),
         ]);
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
@@ -56,6 +60,7 @@ struct StepRow<'a> {
     against: bool,
     verdict: Option<&'static str>,
     cumulative: Option<f64>,
+    control_coefficient: Option<f64>,
 }
 
 #[derive(serde::Serialize)]
@@ -83,7 +88,8 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
         steps: a
             .steps
             .iter()
-            .map(|s| StepRow {
+            .enumerate()
+            .map(|(k, s)| StepRow {
                 id: &prep.pathway.steps[s.step].id,
                 dg0: opt(u.of(s.dg0)),
                 dg: opt(u.of(s.dg)),
@@ -91,6 +97,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
                 against: s.against,
                 verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
                 cumulative: opt(u.of(s.cumulative)),
+                control_coefficient: a.control_estimate.coefficient(k).and_then(opt),
             })
             .collect(),
         total: Total {
@@ -159,6 +166,8 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
                 "prime": s.prime,
                 "against": s.against,
                 "against_samples": s.against_samples,
+                "control_coefficient_median": s.control_median.map_or(Value::Null, num),
+                "control_samples": s.control_samples,
             })
         })
         .collect();
@@ -333,7 +342,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         .unwrap_or(4)
         .max(4);
     let head = format!(
-        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}",
+        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}",
         "step",
         format!("dG'° [{ul}]"),
         format!("median dG' [{ul}]"),
@@ -344,7 +353,8 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         "uphill",
         "largest drop",
         "prime",
-        "backward"
+        "backward",
+        "median control"
     );
     let width = head.chars().count();
     out.push_str(&head);
@@ -354,7 +364,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
     let n = sum.samples;
     for s in &sum.steps {
         out.push_str(&format!(
-            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}\n",
+            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -366,6 +376,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.largest, n),
             pct(s.prime, n),
             backward(s.against, n),
+            control_cell(s),
         ));
     }
     out.push('\n');
@@ -385,7 +396,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         }
     }
     out.push_str(&format!(
-        "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; per-sample rows: --format csv or json\n"
+        "\nshares are of {n} samples; dG' range is the 10th to 90th percentile across samples; median control is the median flux control estimate (mass action) over the samples where every route step runs forward, their number in brackets when not all; per-sample rows: --format csv or json\n"
     ));
     out.push_str(&format!("\n{}\n", crate::analysis::control::CAUTION));
     out
@@ -396,7 +407,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | backward |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | backward | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -404,7 +415,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -417,6 +428,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
             pct(s.largest, n),
             pct(s.prime, n),
             backward(s.against, n),
+            control_cell(s),
         ));
     }
     out.push('\n');
@@ -431,4 +443,19 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     }
     out.push_str(&format!("\n_{}_\n", crate::analysis::control::CAUTION));
     out
+}
+
+/// Median flux control estimate of a step across samples, with the number
+/// of samples behind it when some had none ("-" when none had one).
+fn control_cell(s: &StepSpread) -> String {
+    match s.control_median {
+        None => "-".into(),
+        Some(m)
+            if s.control_samples
+                == s.classes.far + s.classes.moderate + s.classes.near + s.classes.uphill =>
+        {
+            format!("{m:.3}")
+        }
+        Some(m) => format!("{m:.3} ({})", s.control_samples),
+    }
 }

@@ -65,6 +65,8 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         "share".to_string(),
         format!("cumul. [{ul}]"),
         "verdict".to_string(),
+        "control".to_string(),
+        "5–95 %".to_string(),
     ];
     // The cells both kinds of rows share: energies, ratios, flux-force, class.
     let middle = |s: &StepResult| -> Vec<String> {
@@ -126,6 +128,11 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         });
         cells.push(format!("{:.2}", clean(u.of(s.cumulative))));
         cells.push(verdict);
+        let est = &a.control_estimate;
+        cells.push(est.coefficient(k).map_or("-".into(), |c| format!("{c:.3}")));
+        cells.push(est.range(k).map_or(String::new(), |(lo, hi)| {
+            format!("{lo:.3}{}{hi:.3}", if o.ascii { "-" } else { "–" })
+        }));
         rows.push((cells, Some(s.class)));
     }
     for s in &a.side {
@@ -136,7 +143,7 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
             String::new(),
         ];
         cells.extend(middle(s));
-        cells.extend([String::new(), String::new(), String::new()]);
+        cells.extend(std::iter::repeat_n(String::new(), 5));
         rows.push((cells, Some(s.class)));
     }
     let ncol = head.len();
@@ -151,7 +158,7 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
     }
     let numeric = [
         false, false, true, true, true, true, true, true, true, true, true, false, true, true,
-        false,
+        false, true, false,
     ];
     let class_col = 11;
     let fmt_row = |cells: &[String]| -> Vec<String> {
@@ -251,7 +258,15 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         out.push_str("\ncontrol:\n");
         for v in &a.control {
             let id = &p.steps[a.steps[v.position].step].id;
-            out.push_str(&format!("  {} {}\n", id, verdict_symbol(v.kind, o.ascii)));
+            let est = match a.control_estimate.coefficient(v.position) {
+                Some(c) => format!("   flux control estimate {c:.3}"),
+                None => String::new(),
+            };
+            out.push_str(&format!(
+                "  {} {}{est}\n",
+                id,
+                verdict_symbol(v.kind, o.ascii)
+            ));
             for r in &v.reasons {
                 out.push_str(&format!("      {r}\n"));
             }
@@ -264,8 +279,25 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         }
     }
     out.push_str(&format!(
-        "\nundone: share of forward flux undone by the reverse flux, e^(dG'/RT); enzyme x: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT)).\n{}\n",
+        "\nundone: share of forward flux undone by the reverse flux, e^(dG'/RT); enzyme x: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT)).\n{}{}\n",
+        control_legend(a),
         control::CAUTION
     ));
     out
+}
+
+/// What the control columns mean, with the number of saturation draws.
+pub fn control_legend(a: &Analysis) -> String {
+    let est = &a.control_estimate;
+    let range = if est.draws > 0 {
+        format!(
+            "; 5–95 %: its range over {} random saturations of the enzymes (fixed seed)",
+            est.draws
+        )
+    } else {
+        String::new()
+    };
+    format!(
+        "control: flux control coefficient estimated from each step's dG' (mass action, no regulation){range}.\n"
+    )
 }

@@ -6,6 +6,7 @@
 //! terminal.
 
 pub use super::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
+use crate::analysis::mca::{self, RangeJob};
 use crate::analysis::mdf::Mdf;
 use crate::analysis::{self, Analysis, Direction, Prepared, StepResult};
 use crate::model::samples::Sample;
@@ -214,7 +215,14 @@ pub struct App {
     pub quit: bool,
     /// Focus and selections before a find, restored when it is cancelled.
     pub(super) find_from: (Pane, usize, usize),
+    /// Saturation draws behind the flux control range.
+    pub draws: usize,
+    /// The flux control range being computed between keys.
+    pub(super) range_job: Option<RangeJob>,
 }
+
+/// Saturation draws computed in one go between keys (about 1.5 ms on the demo).
+pub const IDLE_DRAWS: usize = 500;
 
 impl App {
     /// Opens the explorer on a prepared pathway and a starting state.
@@ -257,7 +265,53 @@ impl App {
             status: None,
             quit: false,
             find_from: (Pane::Steps, 0, comp_sel),
+            draws: mca::DEFAULT_DRAWS,
+            range_job: None,
         })
+    }
+
+    /// Sets the number of saturation draws behind the flux control range.
+    pub fn with_draws(mut self, draws: usize) -> App {
+        self.draws = draws.max(1);
+        self
+    }
+
+    /// True while the flux control range of the current analysis is still to be computed.
+    pub fn busy(&self) -> bool {
+        self.range_job.is_some() || self.analysis.control_estimate.range_pending()
+    }
+
+    /// Computes a part of the flux control range (off the keystroke path:
+    /// the event loop calls it when no key is waiting); true when the screen
+    /// should be drawn again.
+    pub fn idle_work(&mut self) -> bool {
+        if self.analysis.control_estimate.range_pending() {
+            self.range_job = mca::start_ranges(&mut self.analysis, self.draws);
+            if self.range_job.is_none() {
+                return true;
+            }
+        }
+        let Some(job) = self.range_job.as_mut() else {
+            return false;
+        };
+        let Some(model) = self.analysis.control_estimate.model.as_ref() else {
+            self.range_job = None;
+            return false;
+        };
+        if job.run(model, IDLE_DRAWS) {
+            if let Some(job) = self.range_job.take() {
+                mca::finish_ranges(&mut self.analysis, job);
+            }
+            return true;
+        }
+        false
+    }
+
+    /// Runs `idle_work` until nothing is left (for screenshots and tests).
+    pub fn finish_idle_work(&mut self) {
+        while self.busy() {
+            self.idle_work();
+        }
     }
 
     /// Adds the samples of a samples table; the explorer starts on the first

@@ -47,6 +47,7 @@ pub fn screenshot(
     height: u16,
 ) -> Result<(String, String), String> {
     replay(app, keys)?;
+    app.finish_idle_work();
     let buf = render_buffer(app, width, height);
     Ok((to_text(&buf), to_svg(&buf)))
 }

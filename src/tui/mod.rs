@@ -80,13 +80,20 @@ pub fn run(mut app: App) -> Result<(), TuiError> {
             terminal.draw(|f| view::draw(f, &app))?;
             redraw = false;
         }
-        let wait = POLL.saturating_sub(last_poll.elapsed());
+        // Work left between keys (the flux control range) polls without waiting.
+        let wait = if app.busy() {
+            Duration::ZERO
+        } else {
+            POLL.saturating_sub(last_poll.elapsed())
+        };
         if event::poll(wait)? {
             match event::read()? {
                 Event::Key(k) => redraw |= app.handle_key(k),
                 Event::Resize(..) => redraw = true,
                 _ => {}
             }
+        } else if app.busy() {
+            redraw |= app.idle_work();
         }
         if app.quit {
             break;

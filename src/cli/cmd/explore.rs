@@ -23,6 +23,7 @@ pub fn explore(
     };
     let app = tui::App::new(prep, state, source, opts)
         .and_then(|a| a.with_samples(samples))
+        .map(|a| a.with_draws(c.draws()))
         .map_err(|e| anyhow!("{e}"))?;
     tui::run(app).map_err(|e| anyhow!("{e}"))
 }

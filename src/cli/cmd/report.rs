@@ -16,7 +16,8 @@ use std::path::Path;
 /// Runs the report command on a prepared pathway.
 pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
     let state = state_from(prep, common)?;
-    let a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    let mut a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    analysis::mca::add_ranges(&mut a, common.draws());
     let u = common.unit();
     let text = match format {
         Format::Json => {

@@ -28,6 +28,7 @@ pub fn screenshot(
     };
     let mut app = tui::App::new(prep, state, source, opts)
         .and_then(|a| a.with_samples(samples))
+        .map(|a| a.with_draws(c.draws()))
         .map_err(|e| anyhow!("{e}"))?;
     let (txt, svg) =
         tui::export::screenshot(&mut app, keys, w, h).map_err(|e| anyhow!("--keys: {e}"))?;

@@ -4,7 +4,7 @@ use super::text::{class_text, fit, kv, role_text};
 use super::theme::{Theme, block};
 use super::theme::{against_mark, bottleneck_mark};
 use crate::analysis::mdf::{self, Mdf, Part};
-use crate::analysis::{Class, Role, StepResult};
+use crate::analysis::{Class, Role, StepResult, mca};
 use crate::model::units;
 use crate::present::{self, sci};
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
@@ -42,6 +42,14 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             present::verdict_symbol(v.kind, ascii).to_string(),
             t.verdict(v.kind),
         ));
+    }
+    // The flux control estimate beside the verdict (the range and its
+    // reasons follow the verdict below).
+    if let Some(c) = (app.step_sel < a.steps.len())
+        .then(|| a.control_estimate.coefficient(app.step_sel))
+        .flatten()
+    {
+        head.push(Span::raw(format!("  ctrl {c:.3}")));
     }
     out.push(Line::from(head));
     let mut rx = present::reaction_as_run(&app.prep, s);
@@ -174,6 +182,32 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             "verdict: none (only far steps get one)",
             t.dim(),
         ));
+    }
+    if app.step_sel < a.steps.len() {
+        let fix = |l: String| {
+            if ascii {
+                l.replace('–', "-").replace('≥', ">=").replace('…', "...")
+            } else {
+                l
+            }
+        };
+        // The estimate with its range, then how it comes about here.
+        for (i, l) in mca::explain(p, a, app.step_sel).into_iter().enumerate() {
+            let l = fix(l);
+            out.push(if i == 0 {
+                Line::styled(l, t.bold())
+            } else {
+                Line::from(format!("  {l}"))
+            });
+        }
+        // With an estimate, its notes are the disagreement sentence.
+        let notes = match a.control_estimate.coefficients {
+            Some(_) => a.control_estimate.notes.as_slice(),
+            None => &[],
+        };
+        for n in notes {
+            out.push(Line::styled(format!("  {}", fix(n.clone())), t.warn()));
+        }
     }
     if let Some(nb) = a
         .needs_bypass

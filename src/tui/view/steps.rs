@@ -47,7 +47,17 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     } else {
         (8, 10, 6, 12)
     };
-    let fixed = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + 7 + clw + shw + 1 + vw;
+    // Flux control estimate (science.md §7): " 0.57" when there is room for
+    // it and a 10-character enzyme column, else a one-character bar.
+    let base = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + 7 + clw + shw + 1 + vw;
+    let ctw = if !compact && w >= base + 5 + 1 + 10 {
+        5
+    } else if w >= base + 2 {
+        2
+    } else {
+        0
+    };
+    let fixed = base + ctw;
     let enzw = w.saturating_sub(fixed + 1);
     let show_enz = enzw >= 8;
     let mut header = format!("  {:<idw$} {:MARKER_COLUMN$}", "step", "");
@@ -56,12 +66,17 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         header.push(' ');
     }
     header.push_str(&format!(
-        "{:>dgw$}{:>dgw$} {:>5} {:<clw$}{:>shw$} {}",
+        "{:>dgw$}{:>dgw$} {:>5} {:<clw$}{:>shw$}{:>ctw$} {}",
         "dG'°",
         "dG'",
         "turns",
         "class",
         "share",
+        match ctw {
+            5 => "ctrl",
+            2 => "c",
+            _ => "",
+        },
         if compact { "" } else { "verdict" }
     ));
     let mut lines = vec![Line::styled(fit(&header, w, ascii), t.bold())];
@@ -152,6 +167,13 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             format!("{}{mark}", rpad(&share, shw - 1, ascii)),
             row_style,
         ));
+        let ctrl = match (side, a.control_estimate.coefficient(k)) {
+            (false, Some(c)) if ctw == 5 => format!("{c:.2}"),
+            (false, Some(c)) if ctw == 2 => control_bar(c, ascii).to_string(),
+            (false, None) if ctw == 5 => "-".into(),
+            _ => String::new(),
+        };
+        spans.push(Span::styled(format!("{ctrl:>ctw$}"), row_style));
         if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
             let full = present::verdict_symbol(v.kind, ascii);
             let txt = if compact {
@@ -208,4 +230,12 @@ fn mdf_title(app: &App, t: &Theme, room: usize) -> Vec<Span<'static>> {
         ],
         None => Vec::new(),
     }
+}
+
+/// One character for a flux control coefficient in [0, 1]: eight heights.
+pub fn control_bar(c: f64, ascii: bool) -> &'static str {
+    const BARS: [&str; 8] = ["▁", "▂", "▃", "▄", "▅", "▆", "▇", "█"];
+    const ASCII: [&str; 8] = [".", ":", "-", "=", "+", "*", "#", "@"];
+    let i = ((c.clamp(0.0, 1.0) * 8.0).floor() as usize).min(7);
+    if ascii { ASCII[i] } else { BARS[i] }
 }
