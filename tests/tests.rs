@@ -8,6 +8,7 @@ mod control_estimate;
 mod explorer;
 mod explorer_tmux;
 mod explorer_use;
+mod forward;
 mod import;
 mod library;
 mod limits;
@@ -15,6 +16,7 @@ mod mdf;
 #[cfg(feature = "plot")]
 mod plot;
 mod properties;
+mod reactants;
 mod references;
 mod regressions;
 mod samples;

@@ -234,8 +234,8 @@ pub const BINDINGS: &[Binding] = &[
     plain(
         Browse,
         &[Char('w')],
-        "w",
-        "walk the route one step at a time (Esc ends)",
+        "w / Esc",
+        "walk the route one step at a time / end the walk",
         Some("w walk"),
         |_, _| Some(Message::Walk),
     ),
@@ -285,8 +285,9 @@ pub const BINDINGS: &[Binding] = &[
     plain(
         Browse,
         &[Esc],
-        "Esc",
-        "end a walk, clear the message",
+        // Shown on the `w` row (it also clears the message).
+        "",
+        "",
         None,
         |_, _| Some(Message::Cancel),
     ),

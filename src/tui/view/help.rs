@@ -18,16 +18,18 @@ pub fn key_rows() -> impl Iterator<Item = (&'static str, &'static str)> {
 }
 
 /// Every glyph of the screen, by pane.
-pub const LEGEND: [&str; 4] = [
+pub const LEGEND: [&str; 5] = [
     " steps: ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck",
+    "   ⇄ runs backward (dG' > 0)",
     " verdict: ◆ control point ◇ candidate · not here; ctrl ▁…█ flux control 0…1",
     " ladder: ━ drop █ largest ╍ rise ┃ rung (cumulative dG') │─ dG'° ┌│└ coupled",
     "   ├─┤ ±x 1 sd ┊ next start; lists: ▶ selected • used by it * unsaved … cut",
 ];
 
 /// The legend in ASCII (each stand-in distinct within its pane).
-pub const LEGEND_ASCII: [&str; 4] = [
+pub const LEGEND_ASCII: [&str; 5] = [
     " steps: v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck",
+    "   ! runs backward (dG' > 0)",
     " verdict: * control point o candidate - not here; ctrl .:-=+*#@ 0 to 1",
     " ladder: = drop # largest ~ rise | rung (cumulative dG') :- dG'o /|\\ coupled",
     "   [-] +-x 1 sd : next start; lists: > selected + used by it * unsaved $ cut",
