@@ -19,11 +19,123 @@ const EXTRA: usize = 29;
 /// Enzyme columns kept before the sd, Q and K' block is shown.
 const ENZ_ROOM: usize = 24;
 
+/// The widths of the step list's columns for a pane `w` wide.
+struct Cols {
+    idw: usize,
+    compact: bool,
+    dgw: usize,
+    clw: usize,
+    shw: usize,
+    pw: usize,
+    ctw: usize,
+    extra: bool,
+    enzw: usize,
+    show_enz: bool,
+}
+
+impl Cols {
+    fn new(app: &App, w: usize) -> Cols {
+        let p = app.pathway();
+        let rows = || (0..app.step_rows()).filter_map(|k| app.step_row(k));
+        let idw = rows()
+            .map(|s| p.steps[s.step].id.chars().count())
+            .max()
+            .unwrap_or(3)
+            .clamp(3, 10);
+        let compact = w < 72;
+        // `pw`: the per pass column ("/pass" when compact).
+        let (dgw, clw, shw, vw, pw) = if compact {
+            (7, 9, 5, 2, 5)
+        } else {
+            (8, 11, 6, 12, 8)
+        };
+        // Flux control estimate (science.md §7): " 0.57" when there is room for
+        // it and a 10-character enzyme column, else a one-character bar.
+        let base = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + pw + 2 + clw + shw + 1 + vw;
+        let ctw = if !compact && w >= base + 5 + 1 + 10 {
+            5
+        } else if w >= base + 2 {
+            2
+        } else {
+            0
+        };
+        let fixed = base + ctw;
+        // A wide pane shows sd, Q and K' (`EXTRA` columns) once the enzyme has
+        // `ENZ_ROOM` columns; the enzyme takes what is left.
+        let extra = w >= fixed + 1 + ENZ_ROOM + EXTRA;
+        let mut enzw = w.saturating_sub(fixed + 1 + if extra { EXTRA } else { 0 });
+        if extra {
+            // Room left after a full enzyme name is left blank at the end.
+            let longest = rows()
+                .map(|s| {
+                    p.steps[s.step]
+                        .enzyme
+                        .as_deref()
+                        .map_or(0, |e| e.chars().count())
+                        + 7
+                })
+                .max()
+                .unwrap_or(0);
+            enzw = enzw.min(longest.max(ENZ_ROOM));
+        }
+        Cols {
+            idw,
+            compact,
+            dgw,
+            clw,
+            shw,
+            pw,
+            ctw,
+            extra,
+            enzw,
+            show_enz: enzw >= 8,
+        }
+    }
+
+    fn header(&self, ascii: bool) -> String {
+        let Cols {
+            idw,
+            dgw,
+            pw,
+            clw,
+            shw,
+            ctw,
+            enzw,
+            ..
+        } = *self;
+        let mut header = format!(
+            "  {:<idw$} {:MARKER_COLUMN$}",
+            "step",
+            bottleneck_mark(ascii)
+        );
+        if self.show_enz {
+            header.push_str(&pad("enzyme", enzw, ascii));
+            header.push(' ');
+        }
+        if self.extra {
+            header.push_str(&format!("{:>8}{:>10}{:>10} ", "sd", "Q", "K'"));
+        }
+        header.push_str(&format!(
+            "{:>dgw$}{:>dgw$} {:>pw$} {:<clw$}{:>shw$}{:>ctw$} {}",
+            "dG'°",
+            "dG'",
+            if self.compact { "/pass" } else { "per pass" },
+            "class",
+            "share",
+            match ctw {
+                5 => "ctrl",
+                2 => "c",
+                _ => "",
+            },
+            if self.compact { "" } else { "verdict" }
+        ));
+        header
+    }
+}
+
 /// Draws the step list.
 pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let a = &app.analysis;
-    let p = app.pathway();
-    let u = app.opts.unit;
     let ascii = app.opts.ascii;
     let title = format!(
         "Steps ({} route{}) {}",
@@ -40,195 +152,149 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let inner = b.inner(area);
     b.render(area, buf);
     let w = inner.width as usize;
-    let idw = (0..app.step_rows())
-        .filter_map(|k| app.step_row(k))
-        .map(|s| p.steps[s.step].id.chars().count())
-        .max()
-        .unwrap_or(3)
-        .clamp(3, 10);
-    let compact = w < 72;
-    // `pw`: the per pass column ("/pass" when compact).
-    let (dgw, clw, shw, vw, pw) = if compact {
-        (7, 9, 5, 2, 5)
-    } else {
-        (8, 11, 6, 12, 8)
-    };
-    // Flux control estimate (science.md §7): " 0.57" when there is room for
-    // it and a 10-character enzyme column, else a one-character bar.
-    let base = 2 + idw + 1 + MARKER_COLUMN + dgw * 2 + pw + 2 + clw + shw + 1 + vw;
-    let ctw = if !compact && w >= base + 5 + 1 + 10 {
-        5
-    } else if w >= base + 2 {
-        2
-    } else {
-        0
-    };
-    let fixed = base + ctw;
-    // A wide pane shows sd, Q and K' (`EXTRA` columns) once the enzyme has
-    // `ENZ_ROOM` columns; the enzyme takes what is left.
-    let extra = w >= fixed + 1 + ENZ_ROOM + EXTRA;
-    let mut enzw = w.saturating_sub(fixed + 1 + if extra { EXTRA } else { 0 });
-    if extra {
-        // Room left after a full enzyme name is left blank at the end.
-        let longest = (0..app.step_rows())
-            .filter_map(|k| app.step_row(k))
-            .map(|s| {
-                p.steps[s.step]
-                    .enzyme
-                    .as_deref()
-                    .map_or(0, |e| e.chars().count())
-                    + 7
-            })
-            .max()
-            .unwrap_or(0);
-        enzw = enzw.min(longest.max(ENZ_ROOM));
-    }
-    let show_enz = enzw >= 8;
-    let mut header = format!(
-        "  {:<idw$} {:MARKER_COLUMN$}",
-        "step",
-        bottleneck_mark(ascii)
-    );
-    if show_enz {
-        header.push_str(&pad("enzyme", enzw, ascii));
-        header.push(' ');
-    }
-    if extra {
-        header.push_str(&format!("{:>8}{:>10}{:>10} ", "sd", "Q", "K'"));
-    }
-    header.push_str(&format!(
-        "{:>dgw$}{:>dgw$} {:>pw$} {:<clw$}{:>shw$}{:>ctw$} {}",
-        "dG'°",
-        "dG'",
-        if compact { "/pass" } else { "per pass" },
-        "class",
-        "share",
-        match ctw {
-            5 => "ctrl",
-            2 => "c",
-            _ => "",
-        },
-        if compact { "" } else { "verdict" }
-    ));
-    let mut lines = vec![Line::styled(fit(&header, w, ascii), t.bold())];
+    let cols = Cols::new(app, w);
+    let mut lines = vec![Line::styled(fit(&cols.header(ascii), w, ascii), t.bold())];
     let h = inner.height.saturating_sub(1) as usize;
     let n = app.step_rows();
     let first = window(n, h, app.step_sel);
-    let rel_comp = (app.focus == Pane::Compounds).then_some(app.comp_sel);
     for k in first..(first + h).min(n) {
-        let Some(s) = app.step_row(k) else { break };
-        let st = &p.steps[s.step];
-        let side = k >= a.steps.len();
-        let selected = k == app.step_sel;
-        let related = rel_comp.is_some_and(|c| app.step_uses(k, c));
-        let largest = !side && a.largest_drop == Some(k);
-        let row_style = if selected {
-            t.selected()
-        } else if related {
-            t.related()
-        } else {
-            Style::default()
+        let Some(line) = row(app, t, k, &cols) else {
+            break;
         };
-        let row_style = if largest {
-            row_style.add_modifier(Modifier::BOLD)
-        } else {
-            row_style
-        };
-        let lead = match (selected, related, ascii) {
-            (true, _, false) => "▶ ",
-            (true, _, true) => "> ",
-            (false, true, false) => "• ",
-            (false, true, true) => "+ ",
-            _ => "  ",
-        };
-        let mut spans = vec![Span::styled(lead, row_style)];
-        spans.push(Span::styled(pad(&st.id, idw, ascii), row_style));
-        let marker = match (!side && app.is_bottleneck(k), s.against) {
-            (true, true) => format!("{}{}", bottleneck_mark(ascii), against_mark(ascii)),
-            (true, false) => bottleneck_mark(ascii).to_string(),
-            (false, true) => against_mark(ascii).to_string(),
-            (false, false) => String::new(),
-        };
-        spans.push(Span::styled(" ", row_style));
-        spans.push(Span::styled(
-            format!("{marker:MARKER_COLUMN$}"),
-            row_style.patch(t.warn()),
-        ));
-        if show_enz {
-            let enz = match (side, s.replaces) {
-                (true, _) => format!("{} (side)", st.enzyme.as_deref().unwrap_or("")),
-                (_, Some(f)) => format!(
-                    "{} (for {})",
-                    st.enzyme.as_deref().unwrap_or(""),
-                    p.steps[f].id
-                ),
-                _ => st.enzyme.clone().unwrap_or_default(),
-            };
-            spans.push(Span::styled(pad(&enz, enzw, ascii) + " ", row_style));
-        }
-        if extra {
-            let sd = s
-                .dg_sd
-                .map(|sd| format!("{}{:.1}", if ascii { "+-" } else { "±" }, u.of(sd)))
-                .unwrap_or_default();
-            spans.push(Span::styled(
-                format!("{sd:>8}{:>10}{:>10} ", num3(s.q()), num3(s.keq())),
-                row_style,
-            ));
-        }
-        spans.push(Span::styled(
-            format!(
-                "{:>dgw$.1}{:>dgw$.1}",
-                tenth(u.of(s.dg0)),
-                tenth(u.of(s.dg))
-            ),
-            row_style,
-        ));
-        let turns = if side {
-            format!(" {:>pw$}", "side")
-        } else {
-            format!(" {:>pw$}", units::sig3(s.times))
-        };
-        spans.push(Span::styled(turns + " ", row_style));
-        spans.push(Span::styled(
-            pad(&class_text(s, ascii), clw, ascii),
-            row_style.patch(t.class(s.class)),
-        ));
-        let share = if side || s.share <= 0.0 {
-            String::new()
-        } else {
-            format!("{:.0}%", s.share * 100.0)
-        };
-        let mark = if largest {
-            if ascii { "<" } else { "◀" }
-        } else {
-            " "
-        };
-        spans.push(Span::styled(
-            format!("{}{mark}", rpad(&share, shw - 1, ascii)),
-            row_style,
-        ));
-        let ctrl = match (side, a.control_estimate.coefficient(k)) {
-            (false, Some(c)) if ctw == 5 => format!("{c:.2}"),
-            (false, Some(c)) if ctw == 2 => control_bar(c, ascii).to_string(),
-            (false, None) if ctw == 5 => "-".into(),
-            _ => String::new(),
-        };
-        spans.push(Span::styled(format!("{ctrl:>ctw$}"), row_style));
-        if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
-            let full = present::verdict_symbol(v.kind, ascii);
-            let txt = if compact {
-                full.split(' ').next().unwrap_or("").to_string()
-            } else {
-                full.to_string()
-            };
-            spans.push(Span::raw(" "));
-            spans.push(Span::styled(txt, row_style.patch(t.verdict(v.kind))));
-        }
-        lines.push(Line::from(spans));
+        lines.push(line);
     }
     Paragraph::new(lines).render(inner, buf);
     more_mark(area, buf, first, h, n, ascii);
+}
+
+/// The style and lead of step-list row `k` (selected, used by the selected
+/// compound, the largest drop).
+fn row_look(app: &App, t: &Theme, k: usize) -> (Style, &'static str) {
+    let a = &app.analysis;
+    let side = k >= a.steps.len();
+    let selected = k == app.step_sel;
+    let related = app.focus == Pane::Compounds && app.step_uses(k, app.comp_sel);
+    let largest = !side && a.largest_drop == Some(k);
+    let style = if selected {
+        t.selected()
+    } else if related {
+        t.related()
+    } else {
+        Style::default()
+    };
+    let style = if largest {
+        style.add_modifier(Modifier::BOLD)
+    } else {
+        style
+    };
+    let lead = match (selected, related, app.opts.ascii) {
+        (true, _, false) => "▶ ",
+        (true, _, true) => "> ",
+        (false, true, false) => "• ",
+        (false, true, true) => "+ ",
+        _ => "  ",
+    };
+    (style, lead)
+}
+
+/// One row of the step list.
+fn row(app: &App, t: &Theme, k: usize, cols: &Cols) -> Option<Line<'static>> {
+    let Cols {
+        idw,
+        dgw,
+        pw,
+        clw,
+        shw,
+        ctw,
+        enzw,
+        ..
+    } = *cols;
+    let (a, p, u, ascii) = (&app.analysis, app.pathway(), app.opts.unit, app.opts.ascii);
+    let s = app.step_row(k)?;
+    let st = &p.steps[s.step];
+    let side = k >= a.steps.len();
+    let largest = !side && a.largest_drop == Some(k);
+    let (row_style, lead) = row_look(app, t, k);
+    let mut spans = vec![Span::styled(lead, row_style)];
+    spans.push(Span::styled(pad(&st.id, idw, ascii), row_style));
+    let marker = match (!side && app.is_bottleneck(k), s.against) {
+        (true, true) => format!("{}{}", bottleneck_mark(ascii), against_mark(ascii)),
+        (true, false) => bottleneck_mark(ascii).to_string(),
+        (false, true) => against_mark(ascii).to_string(),
+        (false, false) => String::new(),
+    };
+    spans.push(Span::styled(" ", row_style));
+    spans.push(Span::styled(
+        format!("{marker:MARKER_COLUMN$}"),
+        row_style.patch(t.warn()),
+    ));
+    if cols.show_enz {
+        let enz = match (side, s.replaces) {
+            (true, _) => format!("{} (side)", st.enzyme.as_deref().unwrap_or("")),
+            (_, Some(f)) => format!(
+                "{} (for {})",
+                st.enzyme.as_deref().unwrap_or(""),
+                p.steps[f].id
+            ),
+            _ => st.enzyme.clone().unwrap_or_default(),
+        };
+        spans.push(Span::styled(pad(&enz, enzw, ascii) + " ", row_style));
+    }
+    if cols.extra {
+        let sd = s
+            .dg_sd
+            .map(|sd| format!("{}{:.1}", if ascii { "+-" } else { "±" }, u.of(sd)))
+            .unwrap_or_default();
+        let text = format!("{sd:>8}{:>10}{:>10} ", num3(s.q()), num3(s.keq()));
+        spans.push(Span::styled(text, row_style));
+    }
+    let dgs = format!(
+        "{:>dgw$.1}{:>dgw$.1}",
+        tenth(u.of(s.dg0)),
+        tenth(u.of(s.dg))
+    );
+    spans.push(Span::styled(dgs, row_style));
+    let times = if side {
+        "side".to_string()
+    } else {
+        units::sig3(s.times)
+    };
+    spans.push(Span::styled(format!(" {times:>pw$} "), row_style));
+    spans.push(Span::styled(
+        pad(&class_text(s, ascii), clw, ascii),
+        row_style.patch(t.class(s.class)),
+    ));
+    let share = if side || s.share <= 0.0 {
+        String::new()
+    } else {
+        format!("{:.0}%", s.share * 100.0)
+    };
+    let mark = match (largest, ascii) {
+        (true, true) => "<",
+        (true, false) => "◀",
+        _ => " ",
+    };
+    spans.push(Span::styled(
+        format!("{}{mark}", rpad(&share, shw - 1, ascii)),
+        row_style,
+    ));
+    let ctrl = match (side, a.control_estimate.coefficient(k)) {
+        (false, Some(c)) if ctw == 5 => format!("{c:.2}"),
+        (false, Some(c)) if ctw == 2 => control_bar(c, ascii).to_string(),
+        (false, None) if ctw == 5 => "-".into(),
+        _ => String::new(),
+    };
+    spans.push(Span::styled(format!("{ctrl:>ctw$}"), row_style));
+    if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
+        let full = present::verdict_symbol(v.kind, ascii);
+        let txt = match cols.compact {
+            true => full.split(' ').next().unwrap_or("").to_string(),
+            false => full.to_string(),
+        };
+        spans.push(Span::raw(" "));
+        spans.push(Span::styled(txt, row_style.patch(t.verdict(v.kind))));
+    }
+    Some(Line::from(spans))
 }
 
 /// On the bottom border of a list pane: how many rows are above and below
