@@ -203,7 +203,9 @@ impl App {
     /// the shown sample's).
     pub fn edited(&self, i: usize) -> bool {
         let c = &self.pathway().compounds[i];
-        !c.is_solvent() && c.conc != Some(self.edits_only().conc[i])
+        let v = self.state().conc[i];
+        let shown_sample = self.samples.get(self.sample_at).and_then(|s| s.conc.get(i));
+        !c.is_solvent() && c.conc != Some(v) && shown_sample != Some(&v)
     }
 
     /// The state with every concentration that is the shown sample's put

@@ -13,7 +13,6 @@ use ratatui::widgets::{Paragraph, Widget};
 /// Draws the concentration pane.
 pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
     let p = app.pathway();
-    let a = &app.analysis;
     let ascii = app.opts.ascii;
     let any_edit = (0..p.compounds.len()).any(|i| app.edited(i));
     let title = if any_edit {
@@ -51,60 +50,71 @@ pub fn compounds_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         None
     };
     for i in first..(first + h).min(n) {
-        let c = &p.compounds[i];
-        let selected = i == app.comp_sel;
-        let related = sel_step.is_some_and(|st| p.steps[st].stoich.iter().any(|x| x.0 == i));
-        let style = if selected {
-            t.selected()
-        } else if related {
-            t.related()
-        } else {
-            Style::default()
-        };
-        let lead = match (selected, related, ascii) {
-            (true, _, false) => "▶ ",
-            (true, _, true) => "> ",
-            (false, true, false) => "• ",
-            (false, true, true) => "+ ",
-            _ => "  ",
-        };
-        let edited = app.edited(i);
-        let value = if c.is_solvent() {
-            "activity 1".to_string()
-        } else {
-            units::format_conc(app.state().conc[i], ascii)
-        };
-        let mut spans = vec![
-            Span::styled(lead, style),
-            Span::styled(pad(&c.id, idw, ascii) + " ", style),
-            Span::styled(
-                rpad(&value, 10, ascii),
-                if edited {
-                    style.patch(t.edited())
-                } else {
-                    style
-                },
-            ),
-            if edited {
-                Span::styled("* ", style.patch(t.edited()))
-            } else {
-                Span::styled("  ", style)
-            },
-            Span::styled(pad(role_text(a.roles[i], compact), rolew, ascii), style),
-        ];
-        let branch = a.branch.get(i).copied().unwrap_or(false);
-        if compact && branch {
-            // No room for a column: the branch point takes the role's place.
-            spans.pop();
-            spans.push(Span::styled(
-                pad("branch", rolew, ascii),
-                style.patch(t.bold()),
-            ));
-        } else if branch {
-            spans.push(Span::styled("branch", style.patch(t.bold())));
-        }
-        lines.push(Line::from(spans));
+        lines.push(row(app, t, i, sel_step, (idw, rolew, compact)));
     }
     Paragraph::new(lines).render(inner, buf);
     super::steps::more_mark(area, buf, first, h, n, ascii);
+}
+
+/// One row of the concentration pane; `widths` are the id and role widths
+/// and whether the pane is compact.
+fn row(
+    app: &App,
+    t: &Theme,
+    i: usize,
+    sel_step: Option<usize>,
+    (idw, rolew, compact): (usize, usize, bool),
+) -> Line<'static> {
+    let (p, a, ascii) = (app.pathway(), &app.analysis, app.opts.ascii);
+    let c = &p.compounds[i];
+    let selected = i == app.comp_sel;
+    let related = sel_step.is_some_and(|st| p.steps[st].stoich.iter().any(|x| x.0 == i));
+    let style = if selected {
+        t.selected()
+    } else if related {
+        t.related()
+    } else {
+        Style::default()
+    };
+    let lead = match (selected, related, ascii) {
+        (true, _, false) => "▶ ",
+        (true, _, true) => "> ",
+        (false, true, false) => "• ",
+        (false, true, true) => "+ ",
+        _ => "  ",
+    };
+    let edited = app.edited(i);
+    let value = if c.is_solvent() {
+        "activity 1".to_string()
+    } else {
+        units::format_conc(app.state().conc[i], ascii)
+    };
+    let value_style = if edited {
+        style.patch(t.edited())
+    } else {
+        style
+    };
+    let mut spans = vec![
+        Span::styled(lead, style),
+        Span::styled(pad(&c.id, idw, ascii) + " ", style),
+        Span::styled(rpad(&value, 10, ascii), value_style),
+        Span::styled(if edited { "* " } else { "  " }, value_style),
+    ];
+    let branch = a.branch.get(i).copied().unwrap_or(false);
+    if compact && branch {
+        // No room for a column: the branch point takes the role's place.
+        spans.push(Span::styled(
+            pad("branch", rolew, ascii),
+            style.patch(t.bold()),
+        ));
+    } else {
+        spans.push(Span::styled(
+            pad(role_text(a.roles[i], compact), rolew, ascii),
+            style,
+        ));
+        if branch {
+            spans.push(Span::styled("branch", style.patch(t.bold())));
+        }
+    }
+    Line::from(spans)
 }
