@@ -967,7 +967,7 @@ impl<'s> Cx<'s> {
             let what = format!("step '{}'", s.id);
             let mut stoich: Vec<(usize, f64)> = Vec::new();
             if let Some((text, span)) = &s.reaction {
-                match reaction::parse_with(text, &|id| compound_ids.contains(&id)) {
+                match reaction::parse_with(text, &|id| compound_at.contains_key(id)) {
                     Err(m) => self.err(span.clone(), format!("{what}: {m}")),
                     Ok(eq) => {
                         let mut left_ids = Vec::new();
