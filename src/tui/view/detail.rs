@@ -22,11 +22,8 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     };
     let p = app.pathway();
     let a = &app.analysis;
-    let u = app.opts.unit;
-    let ul = u.label();
     let ascii = app.opts.ascii;
     let st = &p.steps[s.step];
-    let rt = a.rt;
     let mut out = Vec::new();
     let mut head = vec![
         Span::styled(st.id.clone(), t.bold()),
@@ -64,6 +61,21 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             String::new()
         }
     )));
+    out.extend(energy_lines(app, t, s));
+    out.extend(flux_lines(app, t, s));
+    out.extend(verdict_lines(app, t, s));
+    out
+}
+
+/// Q, K' and the terms of dG' = dG'° + RT ln Q, with the spread.
+fn energy_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
+    let p = app.pathway();
+    let a = &app.analysis;
+    let u = app.opts.unit;
+    let ul = u.label();
+    let ascii = app.opts.ascii;
+    let rt = a.rt;
+    let mut out = Vec::new();
     let mut l = kv("Q", num3(s.q()));
     l.extend(kv("K'", num3(s.keq())));
     l.extend(kv("RT", format!("{:.3} {ul}", u.of(rt))));
@@ -134,6 +146,15 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             t.bold(),
         ));
     }
+    out
+}
+
+/// Flux ratio, enzyme factor, a backward step, the optimum.
+fn flux_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
+    let a = &app.analysis;
+    let ascii = app.opts.ascii;
+    let rt = a.rt;
+    let mut out = Vec::new();
     let mut l = kv("J+/J−", num3(s.flux_ratio(rt)));
     if ascii {
         l[0] = Span::raw("J+/J- ");
@@ -169,6 +190,17 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
         ));
     }
     out.push(optimum_line(app, t, s));
+    out
+}
+
+/// The verdict with its reasons, the flux control estimate, bypass and coupling.
+fn verdict_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
+    let p = app.pathway();
+    let a = &app.analysis;
+    let u = app.opts.unit;
+    let ul = u.label();
+    let ascii = app.opts.ascii;
+    let mut out = Vec::new();
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
         out.push(Line::styled(
             format!("verdict: {}", v.kind.as_str().replace('_', " ")),
