@@ -13,6 +13,7 @@
 #![deny(clippy::unwrap_used, clippy::expect_used)]
 
 pub mod analysis;
+pub mod import;
 pub mod model;
 #[cfg(feature = "plot")]
 pub mod plot;

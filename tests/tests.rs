@@ -7,6 +7,7 @@ mod cli;
 mod control_estimate;
 mod explorer;
 mod explorer_tmux;
+mod import;
 mod library;
 mod limits;
 mod mdf;

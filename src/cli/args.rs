@@ -53,6 +53,8 @@ pub enum Command {
         #[arg(short = 'o', long = "output")]
         output: PathBuf,
     },
+    /// A pathway file from a route of an SBML model (docs/import.md).
+    Import(ImportArgs),
     /// Render the explorer to OUT.txt and OUT.svg.
     Screenshot {
         file: PathBuf,
@@ -70,6 +72,64 @@ pub enum Command {
         #[arg(long)]
         ascii: bool,
     },
+}
+
+/// `dgpath import`: the model, the route, the tables and where to write.
+#[derive(Args, Debug)]
+pub struct ImportArgs {
+    /// The SBML model (.xml, or .xml.gz).
+    pub model: PathBuf,
+    /// Reaction ids of the route in the order it runs, e.g. "PGI PFK FBA".
+    #[arg(long, value_name = "\"R1 R2 ...\"", required_unless_present = "list")]
+    pub route: Option<String>,
+    /// Standard energies: CSV with columns step, dg0 [, dg0_sd], each for the reaction as the model writes it.
+    #[arg(long, value_name = "TABLE.csv")]
+    pub dg0: Option<PathBuf>,
+    /// Concentrations: CSV with columns compound, conc.
+    #[arg(long, value_name = "TABLE.csv")]
+    pub conc: Option<PathBuf>,
+    /// Temperature written into the file, e.g. "37 C" (default 25 C).
+    #[arg(long)]
+    pub temperature: Option<String>,
+    /// pH written into the file (default 7.0).
+    #[arg(long)]
+    pub ph: Option<f64>,
+    /// Run this route step against the direction the model writes it; repeatable.
+    #[arg(long, value_name = "ID")]
+    pub flip: Vec<String>,
+    /// Run this route step as the model writes it; repeatable.
+    #[arg(long, value_name = "ID")]
+    pub keep: Vec<String>,
+    /// Which reactions make branch points.
+    #[arg(long = "branches-from", value_enum, default_value_t = BranchesArg::Network)]
+    pub branches_from: BranchesArg,
+    /// The pathway file to write.
+    #[arg(
+        short = 'o',
+        long = "output",
+        value_name = "OUT.toml",
+        required_unless_present = "list"
+    )]
+    pub output: Option<PathBuf>,
+    /// Replace OUT if it exists.
+    #[arg(long)]
+    pub force: bool,
+    /// Print the model's reactions (id, name, equation) instead of importing.
+    #[arg(long, conflicts_with_all = ["route", "output", "dg0", "conc", "flip", "keep"])]
+    pub list: bool,
+    /// With --list: only reactions whose id, name or equation contains WORD (any case).
+    #[arg(long, value_name = "WORD", requires = "list")]
+    pub grep: Option<String>,
+}
+
+/// Which reactions of the model make branch points.
+#[derive(ValueEnum, Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub enum BranchesArg {
+    /// All but the objective, exchange/sink/demand and bypass reactions.
+    #[default]
+    Network,
+    /// Every reaction of the model.
+    All,
 }
 
 /// Output formats.

@@ -30,6 +30,7 @@ pub fn run(cli: Cli) -> Result<()> {
             }
         }
         Some(Command::New { file }) => cmd::new::new_file(&file),
+        Some(Command::Import(args)) => cmd::import::run(&args),
         Some(Command::Check { file }) => cmd::check::run(&file),
         Some(Command::Report {
             file,

@@ -142,6 +142,11 @@ fn duplicate_key_message(text: &str, span: &Span) -> Option<String> {
     })
 }
 
+/// `"?"`: a value `dgpath import` left for the person to fill in.
+fn open(t: &dyn TableLike, k: &str) -> bool {
+    t.get(k).and_then(|i| i.as_str()).map(str::trim) == Some("?")
+}
+
 struct Cx<'s> {
     file: String,
     src: &'s str,
@@ -625,7 +630,10 @@ impl<'s> Cx<'s> {
     fn compound(&mut self, id: &str, item: &Item, kspan: Span) -> Option<Compound> {
         let line = self.line(&kspan);
         if !reaction::valid_id(id) {
-            self.err(kspan.clone(), format!("compound id '{id}' is not valid; ids start with a letter and contain letters, digits and '_'"));
+            self.err(
+                kspan.clone(),
+                format!("compound id '{id}' is not valid; {}", reaction::ID_RULE),
+            );
         }
         let Some(t) = item.as_table_like() else {
             self.err(kspan, format!("compound '{id}' must be a table, e.g. {id} = {{ name = \"...\", conc = \"1 mM\" }}"));
@@ -651,7 +659,12 @@ impl<'s> Cx<'s> {
                 }
             },
         };
-        let conc = self.quantity(t, "conc", Kind::Concentration, &what);
+        let conc = if open(t, "conc") {
+            self.err(Self::value_span(t, "conc"), format!("{what}: conc is still \"?\" (left open by dgpath import); write its concentration, e.g. conc = \"1 mM\""));
+            None
+        } else {
+            self.quantity(t, "conc", Kind::Concentration, &what)
+        };
         let solvent = role == Some(StatedRole::Solvent);
         match conc {
             Some(c) if c <= 0.0 && !solvent => self.err(
@@ -705,7 +718,10 @@ impl<'s> Cx<'s> {
         };
         let what = format!("step '{id}'");
         if !reaction::valid_id(&id) {
-            self.err(Self::value_span(t, "id"), format!("step id '{id}' is not valid; ids start with a letter and contain letters, digits and '_'"));
+            self.err(
+                Self::value_span(t, "id"),
+                format!("step id '{id}' is not valid; {}", reaction::ID_RULE),
+            );
         }
         self.known_keys(t, STEP, &what);
         let reaction = match self.string(t, "reaction", &what) {
@@ -720,7 +736,12 @@ impl<'s> Cx<'s> {
                 None
             }
         };
-        let dg0 = self.quantity(t, "dg0", Kind::Energy, &what);
+        let dg0 = if open(t, "dg0") {
+            self.err(Self::value_span(t, "dg0"), format!("{what}: dg0 is still \"?\" (left open by dgpath import); write the step's standard energy as it runs here, e.g. dg0 = \"-16.7 kJ/mol\""));
+            None
+        } else {
+            self.quantity(t, "dg0", Kind::Energy, &what)
+        };
         let keq = self.number(t, "keq", &what);
         let standard = match (t.get("dg0").is_some(), t.get("keq").is_some()) {
             (true, true) => {
@@ -845,7 +866,7 @@ impl<'s> Cx<'s> {
             let what = format!("step '{}'", s.id);
             let mut stoich: Vec<(usize, f64)> = Vec::new();
             if let Some((text, span)) = &s.reaction {
-                match reaction::parse(text) {
+                match reaction::parse_with(text, &|id| compound_ids.contains(&id)) {
                     Err(m) => self.err(span.clone(), format!("{what}: {m}")),
                     Ok(eq) => {
                         let mut left_ids = Vec::new();

@@ -27,15 +27,32 @@ pub const MAX_TERMS: usize = 100;
 /// `<=>` is not read as `=`. `→` is how the explorer shows `->`.
 const ARROWS: [&str; 7] = ["<=>", "<->", "->", "=>", "→", "⇌", "="];
 
-/// True for ids of the form `[A-Za-z][A-Za-z0-9_]*`.
+/// True for ids made of letters, digits and `_` that start with a letter, or
+/// with a digit (model ids such as `13dpg_c`) as long as they are not a bare
+/// number (`12`, `1e5`).
 pub fn valid_id(id: &str) -> bool {
     let mut c = id.chars();
-    matches!(c.next(), Some(f) if f.is_ascii_alphabetic())
-        && c.all(|ch| ch.is_ascii_alphanumeric() || ch == '_')
+    let first_ok = match c.next() {
+        Some(f) if f.is_ascii_alphabetic() => true,
+        Some(f) if f.is_ascii_digit() => id.parse::<f64>().is_err(),
+        _ => false,
+    };
+    first_ok && c.all(|ch| ch.is_ascii_alphanumeric() || ch == '_')
 }
+
+/// What the message says an id may be.
+pub const ID_RULE: &str =
+    "ids contain letters, digits and '_', start with a letter or digit, and are not a bare number";
 
 /// Parses an equation; the error says what is wrong and what to write instead.
 pub fn parse(text: &str) -> Result<Equation, String> {
+    parse_with(text, &|_| false)
+}
+
+/// Parses an equation where `known` tells which ids are declared, so that a
+/// declared id starting with digits (`13dpg_c`) is not read as a coefficient
+/// glued to an id (`2atp`).
+pub fn parse_with(text: &str, known: &dyn Fn(&str) -> bool) -> Result<Equation, String> {
     let shown = super::shorten(text);
     let mut found: Option<(usize, &str)> = None;
     for arrow in ARROWS {
@@ -55,8 +72,8 @@ pub fn parse(text: &str) -> Result<Equation, String> {
             "reaction '{shown}' has more than one arrow; write exactly one"
         ));
     }
-    let left = side(l, &shown)?;
-    let right = side(r, &shown)?;
+    let left = side(l, &shown, known)?;
+    let right = side(r, &shown, known)?;
     if left.len() + right.len() > MAX_TERMS {
         return Err(format!(
             "reaction '{shown}' has {} terms, over the limit of {MAX_TERMS}; write it as several steps",
@@ -71,7 +88,7 @@ pub fn parse(text: &str) -> Result<Equation, String> {
     Ok(Equation { left, right })
 }
 
-fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
+fn side(s: &str, whole: &str, known: &dyn Fn(&str) -> bool) -> Result<Vec<Term>, String> {
     let s = s.trim();
     if s.is_empty() {
         return Ok(Vec::new());
@@ -100,6 +117,7 @@ fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
                 })?;
                 (c, second)
             }
+            None if known(first) => (1.0, first),
             None => split_glued(first),
         };
         if !coef.is_finite() || coef <= 0.0 {
@@ -114,7 +132,7 @@ fn side(s: &str, whole: &str) -> Result<Vec<Term>, String> {
         }
         if !valid_id(id) {
             return Err(format!(
-                "'{id}' in reaction '{whole}' is not a valid compound id; ids start with a letter and contain letters, digits and '_'"
+                "'{id}' in reaction '{whole}' is not a valid compound id; {ID_RULE}"
             ));
         }
         out.push(Term {
@@ -225,6 +243,20 @@ mod tests {
 
     #[test]
     fn id_rule() {
-        assert!(valid_id("g6p") && valid_id("Fru_16bp") && !valid_id("6pg") && !valid_id("a-b"));
+        assert!(valid_id("g6p") && valid_id("Fru_16bp") && valid_id("6pg") && !valid_id("a-b"));
+        // Model ids may start with a digit; a bare number never is an id.
+        assert!(valid_id("13dpg_c") && valid_id("2pg_c") && valid_id("nan"));
+        assert!(!valid_id("12") && !valid_id("1e5") && !valid_id("1.5") && !valid_id("_a"));
+    }
+
+    #[test]
+    fn declared_ids_starting_with_digits_are_not_coefficients() {
+        let known = |id: &str| id == "13dpg_c" || id == "atp";
+        let e = parse_with("13dpg_c + 2atp -> 2 13dpg_c", &known).unwrap();
+        assert_eq!(ids(&e.left), vec![(1.0, "13dpg_c"), (2.0, "atp")]);
+        assert_eq!(ids(&e.right), vec![(2.0, "13dpg_c")]);
+        // Without the declaration the glued reading stays.
+        let e = parse("2atp -> b").unwrap();
+        assert_eq!(ids(&e.left), vec![(2.0, "atp")]);
     }
 }

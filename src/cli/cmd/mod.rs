@@ -2,6 +2,7 @@
 
 pub mod check;
 pub mod explore;
+pub mod import;
 pub mod mdf;
 pub mod new;
 pub mod plot;
