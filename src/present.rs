@@ -2,7 +2,7 @@
 //! unit a person asked for, the class and verdict symbols, number formats and
 //! the reaction as it runs. Front ends use this module, never each other.
 
-use crate::analysis::{Class, Prepared, StepResult, VerdictKind};
+use crate::analysis::{Analysis, Class, Prepared, StepResult, VerdictKind};
 use crate::model::{Conditions, units};
 use crate::scenario::Direction;
 
@@ -56,6 +56,18 @@ pub fn verdict_symbol(v: VerdictKind, ascii: bool) -> &'static str {
         (VerdictKind::Prime, true) => "* prime",
         (VerdictKind::Candidate, true) => "o candidate",
         (VerdictKind::NotHere, true) => "- not here",
+    }
+}
+
+/// "; 4 of 5 steps give no dg0_sd" when the total's ± leaves some dG'° out.
+pub fn sd_partial(a: &Analysis) -> String {
+    match a.steps_without_dg0_sd {
+        0 => String::new(),
+        n => format!(
+            "; {n} of {} step{} give no dg0_sd",
+            a.steps.len(),
+            if a.steps.len() == 1 { "" } else { "s" }
+        ),
     }
 }
 

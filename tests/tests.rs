@@ -7,6 +7,7 @@ mod cli;
 mod control_estimate;
 mod explorer;
 mod explorer_tmux;
+mod forward;
 mod import;
 mod library;
 mod limits;
@@ -14,6 +15,7 @@ mod mdf;
 #[cfg(feature = "plot")]
 mod plot;
 mod properties;
+mod reactants;
 mod references;
 mod regressions;
 mod samples;

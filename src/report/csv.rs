@@ -20,6 +20,7 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
         "reverse_share",
         "enzyme_factor",
         "class",
+        "against",
         "cumulative",
         "share",
         "verdict",
@@ -53,11 +54,14 @@ pub fn csv(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> String {
             format!("{}", s.keq()),
             format!("{}", s.q()),
             format!("{}", s.flux_ratio(a.rt)),
-            format!("{}", s.reverse_share(a.rt)),
+            s.reverse_share(a.rt)
+                .map(|r| format!("{r}"))
+                .unwrap_or_default(),
             s.enzyme_factor(a.rt)
                 .map(|f| format!("{f}"))
                 .unwrap_or_default(),
             s.class.as_str().to_string(),
+            s.against.to_string(),
             if side {
                 String::new()
             } else {

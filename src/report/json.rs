@@ -52,6 +52,7 @@ fn step_json(
     m.insert("flux_ratio".into(), ratio(s.flux_ratio(a.rt)));
     m.insert("class".into(), json!(s.class.as_str()));
     m.insert("class_sure".into(), json!(s.class_sure));
+    m.insert("against".into(), json!(s.against));
     if let Some(k) = position {
         m.insert("cumulative".into(), num(u.of(s.cumulative)));
         m.insert("share".into(), num(s.share));
@@ -66,7 +67,10 @@ fn step_json(
                 .map_or(Value::Null, |(lo, hi)| json!([num(lo), num(hi)])),
         );
     }
-    m.insert("reverse_share".into(), ratio(s.reverse_share(a.rt)));
+    m.insert(
+        "reverse_share".into(),
+        s.reverse_share(a.rt).map_or(Value::Null, ratio),
+    );
     m.insert(
         "enzyme_factor".into(),
         s.enzyme_factor(a.rt).map_or(Value::Null, ratio),
@@ -84,6 +88,7 @@ fn step_json(
         );
     }
     m.insert("dg0_kept_at_reference".into(), json!(s.kept_reference_dg0));
+    m.insert("reactant_model".into(), json!(s.species));
     Value::Object(m)
 }
 
@@ -146,7 +151,12 @@ pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -
     doc.insert("groups".into(), Value::Array(groups));
     doc.insert(
         "total".into(),
-        json!({ "dg0": num(u.of(a.total_dg0)), "dg": num(u.of(a.total_dg)), "dg_sd": a.total_sd.map_or(Value::Null, |v| num(u.of(v))) }),
+        json!({
+            "dg0": num(u.of(a.total_dg0)),
+            "dg": num(u.of(a.total_dg)),
+            "dg_sd": a.total_sd.map_or(Value::Null, |v| num(u.of(v))),
+            "steps_without_dg0_sd": a.steps_without_dg0_sd,
+        }),
     );
     doc.insert("net".into(), Value::Object(net));
     doc.insert(
@@ -154,6 +164,7 @@ pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -
         a.largest_drop
             .map_or(Value::Null, |k| json!(p.steps[a.steps[k].step].id)),
     );
+    doc.insert("runs_forward".into(), json!(a.runs_forward));
     doc.insert("control".into(), Value::Array(control));
     if a.direction == crate::analysis::Direction::Reverse {
         let nb: Vec<Value> = a

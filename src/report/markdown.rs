@@ -2,7 +2,7 @@
 
 use crate::analysis::{Analysis, Prepared, control};
 use crate::model::units;
-use crate::present::{EnergyUnit, class_symbol, clean};
+use crate::present::{EnergyUnit, class_symbol, clean, sd_partial};
 use crate::scenario::State;
 
 /// A Markdown table with verdicts and notes.
@@ -21,8 +21,13 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
     for (k, s) in a.steps.iter().enumerate() {
         let st = &p.steps[s.step];
         out.push_str(&format!(
-            "| {}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} | {} | {} |\n",
+            "| {}{}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} | {} | {} |\n",
             st.id,
+            if s.against {
+                " ⇄ **runs backward**"
+            } else {
+                ""
+            },
             if a.largest_drop == Some(k) {
                 " **(largest drop)**"
             } else {
@@ -50,9 +55,12 @@ pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> 
         ));
     }
     out.push_str(&format!(
-        "\n**Total:** dG'° {:.2} {ul}, dG' {:.2} {ul}\n",
+        "\n**Total:** dG'° {:.2} {ul}, dG' {:.2} {ul}{}\n",
         clean(u.of(a.total_dg0)),
-        clean(u.of(a.total_dg))
+        clean(u.of(a.total_dg)),
+        a.total_sd
+            .map(|s| format!(" ± {:.2}{}", u.of(s), sd_partial(a)))
+            .unwrap_or_default()
     ));
     if !a.control.is_empty() {
         out.push_str("\n### Control\n\n");

@@ -88,6 +88,8 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value
     let mut bounds = Map::new();
     let mut ranges = Map::new();
     let mut fixed = Vec::new();
+    let mut held = Vec::new();
+    let mut feasible = Map::new();
     for ci in shown(m) {
         let id = p.compounds[ci].id.clone();
         concs.insert(id.clone(), conc(m.conc[ci]));
@@ -99,7 +101,14 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value
             ranges.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
         }
         if m.parts[ci] == Part::Held {
-            fixed.push(id);
+            let (lo, hi) = p.bounds_of(ci);
+            if p.compounds[ci].fixed == Some(true) || lo == hi {
+                fixed.push(id.clone());
+            }
+            held.push(id.clone());
+        }
+        if let (Some(r), Part::Free) = (&m.feasible_ranges, m.parts[ci]) {
+            feasible.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
         }
     }
     doc.insert("concentrations_m".into(), Value::Object(concs));
@@ -111,6 +120,15 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value
     }
     doc.insert("bounds_m".into(), Value::Object(bounds));
     doc.insert("fixed".into(), json!(fixed));
+    doc.insert("held".into(), json!(held));
+    doc.insert(
+        "feasible_ranges_m".into(),
+        if m.feasible_ranges.is_some() {
+            Value::Object(feasible)
+        } else {
+            Value::Null
+        },
+    );
     let limiting: Vec<Value> = m
         .limiting
         .iter()
@@ -176,6 +194,31 @@ fn pad(cells: &[Vec<String>], right: &[bool]) -> Vec<String> {
         .collect()
 }
 
+/// Which compounds the optimisation held at their concentrations, and how to free them.
+fn held_line(p: &crate::model::Pathway, m: &Mdf) -> String {
+    let held: Vec<&str> = shown(m)
+        .filter(|&c| m.parts[c] == Part::Held)
+        .map(|c| p.compounds[c].id.as_str())
+        .collect();
+    let freed = if m.options.free_currencies {
+        " (carriers freed by --free-currencies)"
+    } else {
+        ""
+    };
+    if held.is_empty() {
+        return format!("nothing held at its concentration{freed}\n\n");
+    }
+    let hint = if m.options.free_currencies {
+        freed
+    } else {
+        " (carriers by default: fixed = false on one, or --free-currencies, frees them)"
+    };
+    format!(
+        "held at their concentrations: {}{hint}\n\n",
+        held.join(", ")
+    )
+}
+
 /// The aligned table: the MDF, each step's driving force and price, the
 /// limiting bounds and the optimal concentrations with their ranges.
 pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> String {
@@ -198,6 +241,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             "max-min driving force: {v} {ul} — no concentrations within the bounds let the whole route run {way};\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
         ));
     }
+    out.push_str(&held_line(p, m));
     let mark = if o.ascii { "<" } else { "◀" };
     let mut rows = vec![vec![
         "step".to_string(),
@@ -285,6 +329,11 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
         } else {
             String::new()
         },
+        if m.feasible_ranges.is_some() {
+            "range where the route can run".to_string()
+        } else {
+            String::new()
+        },
     ]];
     for ci in shown(m) {
         let held = m.parts[ci] == Part::Held;
@@ -301,9 +350,14 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
                 (None, _) => String::new(),
             },
+            match (&m.feasible_ranges, held) {
+                (Some(_), true) => "held".to_string(),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
+                (None, _) => String::new(),
+            },
         ]);
     }
-    let lines = pad(&rows, &[false, false, true, false]);
+    let lines = pad(&rows, &[false, false, true, false, false]);
     for (i, l) in lines.iter().enumerate() {
         out.push_str(l);
         out.push('\n');
@@ -376,6 +430,6 @@ pub fn samples_table(
             bottleneck_ids(prep, route, m).join(", ")
         ));
     }
-    s.push_str("\nOnly compounds marked fixed (and the conditions) differ between samples in this optimisation; the others are chosen within their bounds.\n");
+    s.push_str("\nOnly held compounds (carriers, unless freed, and those marked fixed) and the conditions differ between samples in this optimisation; the others are chosen within their bounds.\n");
     s
 }

@@ -24,7 +24,7 @@ fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
 
 /// The header line of `report --samples --format csv`.
 pub fn csv_header() -> String {
-    "sample,step,dg0,dg,class,verdict,cumulative,control_coefficient\n".to_string()
+    "sample,step,dg0,dg,class,against,verdict,cumulative,control_coefficient\n".to_string()
 }
 
 /// One CSV row per route step of one sample.
@@ -39,6 +39,7 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
             &format!("{}", clean(u.of(s.dg0))),
             &format!("{}", clean(u.of(s.dg))),
             s.class.as_str(),
+            if s.against { "true" } else { "false" },
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
             &format!("{}", clean(u.of(s.cumulative))),
             &a.control_estimate
@@ -56,6 +57,7 @@ struct StepRow<'a> {
     dg0: Option<f64>,
     dg: Option<f64>,
     class: &'static str,
+    against: bool,
     verdict: Option<&'static str>,
     cumulative: Option<f64>,
     control_coefficient: Option<f64>,
@@ -73,6 +75,7 @@ struct SampleRow<'a> {
     total: Total,
     largest_drop: Option<&'a str>,
     prime: Option<&'a str>,
+    runs_forward: bool,
 }
 
 fn opt(x: f64) -> Option<f64> {
@@ -91,6 +94,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
                 dg0: opt(u.of(s.dg0)),
                 dg: opt(u.of(s.dg)),
                 class: s.class.as_str(),
+                against: s.against,
                 verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
                 cumulative: opt(u.of(s.cumulative)),
                 control_coefficient: a.control_estimate.coefficient(k).and_then(opt),
@@ -101,6 +105,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
         },
         largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
         prime: prime_of(a).map(|k| step_id(prep, a, k)),
+        runs_forward: a.runs_forward,
     }
 }
 
@@ -159,6 +164,8 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
                 "classes": Value::Object(classes),
                 "largest_drop": s.largest,
                 "prime": s.prime,
+                "against": s.against,
+                "against_samples": s.against_samples,
                 "control_coefficient_median": s.control_median.map_or(Value::Null, num),
                 "control_samples": s.control_samples,
             })
@@ -181,6 +188,7 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
             })
             .collect::<Vec<_>>(),
         "prime_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "prime": id(*p) })).collect::<Vec<_>>(),
+        "runs_forward": sum.runs_forward,
     })
 }
 
@@ -215,6 +223,42 @@ fn names(list: &[(String, Option<usize>)], prep: &Prepared, sum: &Summary, max: 
         parts.push(format!("and {} more", list.len() - max));
     }
     parts.join(", ")
+}
+
+/// "2/12", or "-" when the step runs forward in every sample.
+fn backward(n: usize, of: usize) -> String {
+    if n == 0 {
+        "-".into()
+    } else {
+        format!("{n}/{of}")
+    }
+}
+
+/// In how many samples the route runs forward, and which steps run backward where.
+fn against_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
+    let mut out = vec![format!(
+        "the route runs forward in {} of {} samples",
+        sum.runs_forward, sum.samples
+    )];
+    for s in sum.steps.iter().filter(|s| s.against > 0) {
+        let mut shown = s
+            .against_samples
+            .iter()
+            .take(10)
+            .cloned()
+            .collect::<Vec<_>>()
+            .join(", ");
+        if s.against_samples.len() > 10 {
+            shown.push_str(&format!(" and {} more", s.against_samples.len() - 10));
+        }
+        out.push(format!(
+            "  {} runs backward (dG' > 0) in {} of {}: {shown}",
+            spread_id(prep, s),
+            s.against,
+            sum.samples
+        ));
+    }
+    out
 }
 
 fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
@@ -298,7 +342,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         .unwrap_or(4)
         .max(4);
     let head = format!(
-        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}",
+        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}",
         "step",
         format!("dG'° [{ul}]"),
         format!("median dG' [{ul}]"),
@@ -309,6 +353,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         "uphill",
         "largest drop",
         "prime",
+        "backward",
         "median control"
     );
     let width = head.chars().count();
@@ -319,7 +364,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
     let n = sum.samples;
     for s in &sum.steps {
         out.push_str(&format!(
-            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}\n",
+            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -330,10 +375,15 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            backward(s.against, n),
             control_cell(s),
         ));
     }
     out.push('\n');
+    for l in against_lines(prep, sum) {
+        out.push_str(&l);
+        out.push('\n');
+    }
     for l in prime_lines(prep, sum) {
         out.push_str(&l);
         out.push('\n');
@@ -357,7 +407,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | backward | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -365,7 +415,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
             clean(u.of(s.dg0)),
             clean(u.of(s.median)),
@@ -377,10 +427,14 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            backward(s.against, n),
             control_cell(s),
         ));
     }
     out.push('\n');
+    for l in against_lines(prep, sum) {
+        out.push_str(&format!("- {}\n", l.trim_start()));
+    }
     for l in prime_lines(prep, sum) {
         out.push_str(&format!("- {l}\n"));
     }

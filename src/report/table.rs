@@ -2,7 +2,7 @@
 
 use crate::analysis::{Analysis, Class, Prepared, StepResult, control};
 use crate::model::units;
-use crate::present::{EnergyUnit, class_symbol, clean, headline, sci, verdict_symbol};
+use crate::present::{EnergyUnit, class_symbol, clean, headline, sci, sd_partial, verdict_symbol};
 use crate::scenario::State;
 
 /// Options for the text renderings.
@@ -35,10 +35,9 @@ fn class_color(c: Class) -> &'static str {
 
 /// Share of forward flux undone by the reverse, as a percentage (only for downhill steps).
 fn undone(s: &StepResult, rt: f64) -> String {
-    if s.dg < 0.0 {
-        format!("{:.1} %", s.reverse_share(rt) * 100.0)
-    } else {
-        "-".into()
+    match s.reverse_share(rt) {
+        Some(r) => format!("{:.1} %", r * 100.0),
+        None => "-".into(),
     }
 }
 
@@ -98,6 +97,13 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         let mut id = st.id.clone();
         if a.largest_drop == Some(k) {
             id.push_str(if o.ascii { " <largest" } else { " ◀largest" });
+        }
+        if s.against {
+            id.push_str(if o.ascii {
+                " !backward"
+            } else {
+                " ⇄backward"
+            });
         }
         if s.sign < 0.0 {
             id.push_str(" (rev)");
@@ -186,7 +192,7 @@ pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> St
         clean(u.of(a.total_dg0)),
         clean(u.of(a.total_dg)),
         a.total_sd
-            .map(|s| format!(" ± {:.2}", u.of(s)))
+            .map(|s| format!(" ± {:.2}{}", u.of(s), sd_partial(a)))
             .unwrap_or_default()
     ));
     if let Some(k) = a.largest_drop {
