@@ -224,3 +224,85 @@ fn ionic_strength_above_0_3_m_is_flagged_and_low_values_are_not() {
         low.notes
     );
 }
+
+/// dG'° (J/mol) of one step between the given compounds (charge, hydrogens,
+/// pKa), stated as `dg0` (J/mol) at the `reference` (°C, pH, M) and moved to
+/// the `scenario`; with `hydration` the step is c0 + water -> c1, else the
+/// first half of the compounds make the second half.
+fn moved_dg0(
+    species: &[(i32, i32, Vec<f64>)],
+    dg0: f64,
+    reference: (f64, f64, f64),
+    scenario: (f64, f64, f64),
+    hydration: bool,
+) -> f64 {
+    let pka = |p: &[f64]| {
+        let list: Vec<String> = p.iter().map(|x| format!("{x:.3}")).collect();
+        format!("[{}]", list.join(", "))
+    };
+    let mut compounds = String::new();
+    for (k, (z, h, p)) in species.iter().enumerate() {
+        compounds.push_str(&format!(
+            "c{k} = {{ conc = \"1 mM\", charge = {z}, hydrogens = {h}, pka = {} }}\n",
+            pka(p)
+        ));
+    }
+    compounds.push_str("w = { role = \"solvent\" }\n");
+    let reaction = if hydration {
+        "c0 + w -> c1".to_string()
+    } else {
+        let n = species.len();
+        let left: Vec<String> = (0..n / 2).map(|k| format!("c{k}")).collect();
+        let right: Vec<String> = (n / 2..n).map(|k| format!("c{k}")).collect();
+        format!("{} -> {}", left.join(" + "), right.join(" + "))
+    };
+    let text = format!(
+        "format = 1\n[pathway]\nname = \"t\"\n[conditions]\ntemperature = \"{:.2} C\"\nph = {:.3}\nionic_strength = \"{:.3} M\"\nreference_temperature = \"{:.2} C\"\nreference_ph = {:.3}\nreference_ionic_strength = \"{:.3} M\"\n[compounds]\n{compounds}[[steps]]\nid = \"s\"\nreaction = \"{reaction}\"\ndg0 = \"{dg0:e} J/mol\"\n",
+        scenario.0, scenario.1, scenario.2, reference.0, reference.1, reference.2
+    );
+    let prep = prepare_str(&text, "p.toml");
+    analyze(&prep).steps[0].dg0
+}
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(64))]
+
+    /// Moving a step's dG'° from the reference pH and ionic strength to others
+    /// and back (the moved value stated at the new conditions) returns the
+    /// value it started from.
+    #[test]
+    fn moving_ph_and_ionic_strength_there_and_back_is_the_identity(
+        species in proptest::collection::vec((-4i32..=1, 0i32..=20, proptest::collection::vec(2.0f64..12.0, 0..3)), 2..5),
+        there in (5.0f64..9.0, 0.0f64..0.3),
+    ) {
+        let species: Vec<(i32, i32, Vec<f64>)> = species
+            .into_iter()
+            .map(|(z, h, mut p)| {
+                p.sort_by(|a, b| b.total_cmp(a));
+                (z, h, p)
+            })
+            .collect();
+        let home = (25.0, 7.0, 0.0);
+        let there = (25.0, there.0, there.1);
+        let moved = moved_dg0(&species, -10e3, home, there, false);
+        let back = moved_dg0(&species, moved, there, home, false);
+        proptest::prop_assert!((back + 10e3).abs() < 1e-6, "{} vs -10000", back);
+    }
+
+    /// A hydration step a + H2O -> b whose charge does not change (b has the
+    /// same charge and two more hydrogens) does not depend on ionic strength
+    /// (science.md §4 check [C]).
+    #[test]
+    fn hydration_without_charge_change_is_independent_of_ionic_strength(
+        z in -4i32..=1,
+        h in 0i32..=20,
+        i1 in 0.0f64..0.3,
+        i2 in 0.0f64..0.3,
+        ph in 5.0f64..9.0,
+    ) {
+        let species = vec![(z, h, vec![]), (z, h + 2, vec![])];
+        let a = moved_dg0(&species, -10e3, (25.0, 7.0, 0.0), (25.0, ph, i1), true);
+        let b = moved_dg0(&species, -10e3, (25.0, 7.0, 0.0), (25.0, ph, i2), true);
+        proptest::prop_assert!((a - b).abs() < 1e-9, "{} vs {}", a, b);
+    }
+}
