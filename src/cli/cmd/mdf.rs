@@ -29,13 +29,16 @@ fn run_mdf_samples(
     let u = common.unit();
     let route = prep.route(base.direction).map_err(|e| anyhow!("{e}"))?;
     let mut rows: Vec<(String, analysis::mdf::Mdf)> = Vec::new();
+    // Samples that differ only in free compounds share one programme.
+    let mut batch = analysis::mdf::Batch::default();
     for sample in SampleReader::open(path, p, &base.conc)? {
         let sample = sample?;
         let state = State {
             conc: sample.conc,
             ..base.clone()
         };
-        let m = analysis::mdf::solve_with(prep, &state, &opts)
+        let m = batch
+            .solve(prep, &state, &opts)
             .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
         rows.push((sample.name, m));
     }
