@@ -72,6 +72,13 @@ pub enum Command {
         #[arg(long)]
         ascii: bool,
     },
+    /// Print a shell completion script (bash, zsh, fish, elvish, powershell).
+    Completions {
+        /// The shell to complete for.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff) on stdout.
+    Manual,
 }
 
 /// `dgpath import`: the model, the route, the tables and where to write.

@@ -29,6 +29,8 @@ pub fn run(cli: Cli) -> Result<()> {
                 cmd::report::run_report(&prep, &Common::default(), Format::Table)
             }
         }
+        Some(Command::Completions { shell }) => cmd::shell::completions(shell),
+        Some(Command::Manual) => cmd::shell::manual(),
         Some(Command::New { file }) => cmd::new::new_file(&file),
         Some(Command::Import(args)) => cmd::import::run(&args),
         Some(Command::Check { file }) => cmd::check::run(&file),
