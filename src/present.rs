@@ -3,7 +3,7 @@
 //! the reaction as it runs. Front ends use this module, never each other.
 
 use crate::analysis::{Class, Prepared, StepResult, VerdictKind};
-use crate::model::{Conditions, units};
+use crate::model::Conditions;
 use crate::scenario::Direction;
 
 /// Energy unit for output.
@@ -50,13 +50,179 @@ pub fn class_symbol(c: Class, ascii: bool) -> &'static str {
 /// Short marker for a verdict.
 pub fn verdict_symbol(v: VerdictKind, ascii: bool) -> &'static str {
     match (v, ascii) {
-        (VerdictKind::Prime, false) => "◆ prime",
+        (VerdictKind::Prime, false) => "◆ control point",
         (VerdictKind::Candidate, false) => "◇ candidate",
         (VerdictKind::NotHere, false) => "· not here",
-        (VerdictKind::Prime, true) => "* prime",
+        (VerdictKind::Prime, true) => "* control point",
         (VerdictKind::Candidate, true) => "o candidate",
         (VerdictKind::NotHere, true) => "- not here",
     }
+}
+
+/// A verdict in words, without its symbol ("control point", "candidate", "not here").
+pub fn verdict_words(v: VerdictKind) -> &'static str {
+    match v {
+        VerdictKind::Prime => "control point",
+        VerdictKind::Candidate => "candidate",
+        VerdictKind::NotHere => "not here",
+    }
+}
+
+/// A number to `sig` significant figures with at most `max_dec` decimals,
+/// in scientific notation (`1.81e4`, `3.2e-7`) when it is 10,000 or more or
+/// below 0.001: the one number format of the tables and Markdown.
+pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
+    if !x.is_finite() {
+        return if x.is_nan() {
+            "nan".into()
+        } else if x > 0.0 {
+            "inf".into()
+        } else {
+            "-inf".into()
+        };
+    }
+    let x = clean(x);
+    if x == 0.0 {
+        return "0".into();
+    }
+    let a = x.abs();
+    if a >= 1e4 || a < 1e-3 {
+        let s = format!("{:.*e}", sig.saturating_sub(1), x);
+        return match s.split_once('e') {
+            Some((m, e)) if m.contains('.') => {
+                format!("{}e{e}", m.trim_end_matches('0').trim_end_matches('.'))
+            }
+            _ => s,
+        };
+    }
+    let mag = a.log10().floor() as i32;
+    let extra = mag - (sig as i32 - 1);
+    // Whole numbers longer than `sig` digits are rounded to `sig` figures.
+    let x = if extra > 0 {
+        let f = 10f64.powi(extra);
+        (x / f).round() * f
+    } else {
+        x
+    };
+    let dec = ((sig as i32 - 1 - mag).max(0) as usize).min(max_dec);
+    let s = format!("{x:.dec$}");
+    if s.trim_start_matches('-').trim_matches(['0', '.']).is_empty() {
+        "0".into()
+    } else {
+        s
+    }
+}
+
+/// A count or amount (turns, net change): three significant figures without
+/// trailing zeros ("2", "0.5", "1.33").
+pub fn amount(x: f64) -> String {
+    let s = fig3(x);
+    match s.split_once('e') {
+        None if s.contains('.') => s.trim_end_matches('0').trim_end_matches('.').to_string(),
+        _ => s,
+    }
+}
+
+/// Wraps prose at `width` characters, keeping its leading blanks; lines after
+/// the first start with `indent`.
+pub fn wrap(text: &str, width: usize, indent: &str) -> String {
+    let body = text.trim_start();
+    let mut line = text[..text.len() - body.len()].to_string();
+    let start = line.len();
+    let mut out = String::new();
+    for word in body.split_whitespace() {
+        let len = line.chars().count();
+        if len > start && len + 1 + word.chars().count() > width {
+            out.push_str(&line);
+            out.push('\n');
+            line = indent.to_string();
+        } else if len > start {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    out.push_str(&line);
+    out
+}
+
+/// Three significant figures (ratios, factors, coefficients).
+pub fn fig3(x: f64) -> String {
+    figures(x, 3, 12)
+}
+
+/// An energy in the unit asked for: three significant figures, at most two decimals.
+pub fn energy3(x: f64) -> String {
+    figures(x, 3, 2)
+}
+
+/// A number at full precision for CSV: the shortest text that reads back to
+/// the same value, in scientific notation when very large or very small.
+pub fn full(x: f64) -> String {
+    if !x.is_finite() {
+        return String::new();
+    }
+    let x = if x == 0.0 { 0.0 } else { x };
+    let a = x.abs();
+    if a != 0.0 && (a >= 1e15 || a < 1e-4) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
+/// How a column of an aligned table is justified.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Align {
+    /// Text: padded on the right.
+    Left,
+    /// Numbers: padded on the left.
+    Right,
+}
+
+/// Pads every cell to its column's width (in characters); the one table
+/// aligner of the text outputs. Rows may be shorter than `align`.
+pub fn align(rows: &[Vec<String>], align: &[Align]) -> Vec<Vec<String>> {
+    let mut w = vec![0usize; align.len()];
+    for r in rows {
+        for (i, c) in r.iter().enumerate().take(w.len()) {
+            w[i] = w[i].max(c.chars().count());
+        }
+    }
+    rows.iter()
+        .map(|r| {
+            r.iter()
+                .enumerate()
+                .take(w.len())
+                .map(|(i, c)| {
+                    let fill = " ".repeat(w[i] - c.chars().count());
+                    match align[i] {
+                        Align::Left => format!("{c}{fill}"),
+                        Align::Right => format!("{fill}{c}"),
+                    }
+                })
+                .collect()
+        })
+        .collect()
+}
+
+/// Aligned lines (two spaces between columns, no trailing blanks), with a rule
+/// of dashes under the first row.
+pub fn aligned_lines(rows: &[Vec<String>], al: &[Align]) -> String {
+    let lines: Vec<String> = align(rows, al)
+        .iter()
+        .map(|r| r.join("  ").trim_end().to_string())
+        .collect();
+    let width = lines.iter().map(|l| l.chars().count()).max().unwrap_or(0);
+    let mut out = String::new();
+    for (i, l) in lines.iter().enumerate() {
+        out.push_str(l);
+        out.push('\n');
+        if i == 0 {
+            out.push_str(&"-".repeat(width));
+            out.push('\n');
+        }
+    }
+    out
 }
 
 /// Rounds away solver and float noise for printing: no -0, no 1e-12 residues.
@@ -83,7 +249,7 @@ pub fn reaction_as_run(prep: &Prepared, s: &StepResult) -> String {
                 if (nu.abs() - 1.0).abs() < 1e-12 {
                     id.clone()
                 } else {
-                    format!("{} {id}", units::sig3(nu.abs()))
+                    format!("{} {id}", amount(nu.abs()))
                 }
             })
             .collect::<Vec<_>>()
@@ -92,7 +258,8 @@ pub fn reaction_as_run(prep: &Prepared, s: &StepResult) -> String {
     format!("{} -> {}", side(false), side(true))
 }
 
-/// Compact number for ratios that span many decades (Q, K', J+/J−).
+/// Compact number for ratios that span many decades (Q, K', J+/J−), as the
+/// explorer shows them.
 pub fn sci(x: f64) -> String {
     if !x.is_finite() {
         return if x > 0.0 { "inf".into() } else { "nan".into() };

@@ -453,7 +453,7 @@ side = true
     assert!(a.branch[w], "water is used by the side step");
     let kinds: Vec<&str> = a.control.iter().map(|v| v.kind.as_str()).collect();
     // s1 makes water (a branch point): not_here; s2 is the first left: prime; s3 is last.
-    assert_eq!(kinds, ["not_here", "prime", "not_here"]);
+    assert_eq!(kinds, ["not_here", "control_point", "not_here"]);
     assert!(
         a.control[0].reasons[0].contains("w is a branch point"),
         "{:?}",

@@ -20,7 +20,7 @@ impl VerdictKind {
     /// Name used in JSON and tables.
     pub fn as_str(self) -> &'static str {
         match self {
-            VerdictKind::Prime => "prime",
+            VerdictKind::Prime => "control_point",
             VerdictKind::Candidate => "candidate",
             VerdictKind::NotHere => "not_here",
         }

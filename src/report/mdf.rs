@@ -7,7 +7,7 @@ use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
-use crate::present::{EnergyUnit, clean, headline};
+use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, headline};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 
@@ -133,11 +133,6 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value
     Value::Object(doc)
 }
 
-/// Two decimals with no negative zero ("-0.00").
-fn two(x: f64) -> String {
-    let r = (clean(x) * 100.0).round() / 100.0;
-    format!("{:.2}", if r == 0.0 { 0.0 } else { r })
-}
 
 fn conc_text(c: f64, ascii: bool) -> String {
     units::format_conc(conc_value(c), ascii)
@@ -148,34 +143,6 @@ fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
     if a == b { a } else { format!("{a} to {b}") }
 }
 
-fn pad(cells: &[Vec<String>], right: &[bool]) -> Vec<String> {
-    let ncol = cells.first().map_or(0, |r| r.len());
-    let mut w = vec![0usize; ncol];
-    for r in cells {
-        for (i, c) in r.iter().enumerate() {
-            w[i] = w[i].max(c.chars().count());
-        }
-    }
-    cells
-        .iter()
-        .map(|r| {
-            let line: Vec<String> = r
-                .iter()
-                .enumerate()
-                .map(|(i, c)| {
-                    let fill = " ".repeat(w[i] - c.chars().count());
-                    if right[i] {
-                        format!("{fill}{c}")
-                    } else {
-                        format!("{c}{fill}")
-                    }
-                })
-                .collect();
-            line.join("  ").trim_end().to_string()
-        })
-        .collect()
-}
-
 /// The aligned table: the MDF, each step's driving force and price, the
 /// limiting bounds and the optimal concentrations with their ranges.
 pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> String {
@@ -184,7 +151,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     let ul = u.label();
     let c = &state.conditions;
     let mut out = headline(&p.name, m.direction, c);
-    let v = two(u.of(m.value));
+    let v = energy3(u.of(m.value));
     let way = match m.direction {
         Direction::Forward => "forward",
         Direction::Reverse => "in reverse",
@@ -221,10 +188,10 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 st.id.clone()
             },
             st.enzyme.clone().unwrap_or_default(),
-            two(u.of(m.dg0[k])),
-            two(u.of(m.driving_forces[k])),
+            energy3(u.of(m.dg0[k])),
+            energy3(u.of(m.driving_forces[k])),
             if m.prices[k] > 0.0 {
-                format!("{:.3}", clean(m.prices[k]))
+                fig3(m.prices[k])
             } else {
                 "0".into()
             },
@@ -235,15 +202,10 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             },
         ]);
     }
-    let lines = pad(&rows, &[false, false, true, true, true, false]);
-    out.push_str(&lines[0]);
-    out.push('\n');
-    out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
-    out.push('\n');
-    for l in &lines[1..] {
-        out.push_str(l);
-        out.push('\n');
-    }
+    out.push_str(&aligned_lines(
+        &rows,
+        &[Align::Left, Align::Left, Align::Right, Align::Right, Align::Right, Align::Left],
+    ));
     let ids: Vec<&str> = m
         .bottlenecks
         .iter()
@@ -267,11 +229,11 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 Bound::Upper => (m.bounds[ci].1, "upper"),
             };
             out.push_str(&format!(
-                "  {} at its {dir} bound {}: +{:.2} {ul} (price {:.3})\n",
+                "  {} at its {dir} bound {}: +{} {ul} (price {})\n",
                 p.compounds[ci].id,
                 conc_text(at, o.ascii),
-                clean(u.of(gain_per_decade(m, price))),
-                clean(price)
+                energy3(u.of(gain_per_decade(m, price))),
+                fig3(price)
             ));
         }
     }
@@ -303,15 +265,10 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             },
         ]);
     }
-    let lines = pad(&rows, &[false, false, true, false]);
-    for (i, l) in lines.iter().enumerate() {
-        out.push_str(l);
-        out.push('\n');
-        if i == 0 {
-            out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
-            out.push('\n');
-        }
-    }
+    out.push_str(&aligned_lines(
+        &rows,
+        &[Align::Left, Align::Left, Align::Right, Align::Left],
+    ));
     out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
     out
 }
@@ -347,6 +304,20 @@ pub fn samples_json(
         "energy_unit": u.label(),
         "samples": list,
     })
+}
+
+/// `mdf --samples --format csv`: one row per sample (MDF, bottlenecks joined by spaces).
+pub fn samples_csv(prep: &Prepared, route: &Route, rows: &[(String, Mdf)], u: EnergyUnit) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let _ = w.write_record(["sample".to_string(), format!("mdf [{}]", u.label()), "bottlenecks".into()]);
+    for (name, m) in rows {
+        let _ = w.write_record([
+            name.clone(),
+            crate::present::full(clean(u.of(m.value))),
+            bottleneck_ids(prep, route, m).join(" "),
+        ]);
+    }
+    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
 }
 
 /// `mdf --samples`: one line per sample with its MDF and bottlenecks.

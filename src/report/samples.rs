@@ -6,7 +6,7 @@
 use super::table::TextOptions;
 use crate::analysis::batch::{StepSpread, Summary, prime_of};
 use crate::analysis::{Analysis, Class, Prepared};
-use crate::present::{EnergyUnit, clean};
+use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, full};
 use crate::scenario::State;
 use serde_json::{Map, Value, json};
 
@@ -36,14 +36,14 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
         let _ = w.write_record([
             name,
             &prep.pathway.steps[s.step].id,
-            &format!("{}", clean(u.of(s.dg0))),
-            &format!("{}", clean(u.of(s.dg))),
+            &full(clean(u.of(s.dg0))),
+            &full(clean(u.of(s.dg))),
             s.class.as_str(),
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
-            &format!("{}", clean(u.of(s.cumulative))),
+            &full(clean(u.of(s.cumulative))),
             &a.control_estimate
                 .coefficient(k)
-                .map(|c| format!("{}", clean(c)))
+                .map(|c| full(clean(c)))
                 .unwrap_or_default(),
         ]);
     }
@@ -72,7 +72,7 @@ struct SampleRow<'a> {
     steps: Vec<StepRow<'a>>,
     total: Total,
     largest_drop: Option<&'a str>,
-    prime: Option<&'a str>,
+    control_point: Option<&'a str>,
 }
 
 fn opt(x: f64) -> Option<f64> {
@@ -100,7 +100,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
             dg: opt(u.of(a.total_dg)),
         },
         largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
-        prime: prime_of(a).map(|k| step_id(prep, a, k)),
+        control_point: prime_of(a).map(|k| step_id(prep, a, k)),
     }
 }
 
@@ -158,7 +158,7 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
                 "dg_max": num(u.of(s.max)),
                 "classes": Value::Object(classes),
                 "largest_drop": s.largest,
-                "prime": s.prime,
+                "control_point": s.prime,
                 "control_coefficient_median": s.control_median.map_or(Value::Null, num),
                 "control_samples": s.control_samples,
             })
@@ -168,7 +168,7 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
     json!({
         "samples": sum.samples,
         "steps": steps,
-        "usual_prime": id(sum.usual_prime),
+        "usual_control_point": id(sum.usual_prime),
         "class_differs": sum
             .class_differs
             .iter()
@@ -180,7 +180,7 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
                 })
             })
             .collect::<Vec<_>>(),
-        "prime_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "prime": id(*p) })).collect::<Vec<_>>(),
+        "control_point_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "control_point": id(*p) })).collect::<Vec<_>>(),
     })
 }
 
@@ -223,14 +223,14 @@ fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
         .map_or("none", |k| spread_id(prep, &sum.steps[k]));
     let same = sum.samples - sum.prime_differs.len();
     let mut out = vec![format!(
-        "usual prime step: {usual} ({same} of {} samples)",
+        "usual control point: {usual} ({same} of {} samples)",
         sum.samples
     )];
     if sum.prime_differs.is_empty() {
-        out.push("the prime step is the same in every sample".into());
+        out.push("the control point is the same in every sample".into());
     } else {
         out.push(format!(
-            "prime step differs in {} sample{}: {}",
+            "control point differs in {} sample{}: {}",
             sum.prime_differs.len(),
             if sum.prime_differs.len() == 1 {
                 ""
@@ -290,40 +290,29 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         c.ph,
         c.ionic_strength
     );
-    let w = sum
-        .steps
-        .iter()
-        .map(|s| spread_id(prep, s).chars().count())
-        .max()
-        .unwrap_or(4)
-        .max(4);
-    let head = format!(
-        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}",
-        "step",
-        format!("dG'° [{ul}]"),
-        format!("median dG' [{ul}]"),
-        "dG' 10–90 % range",
-        "far",
-        "moderate",
-        "near",
-        "uphill",
-        "largest drop",
-        "prime",
-        "median control"
-    );
-    let width = head.chars().count();
-    out.push_str(&head);
-    out.push('\n');
-    out.push_str(&"-".repeat(width));
-    out.push('\n');
     let n = sum.samples;
+    let mut rows = vec![
+        [
+            "step".to_string(),
+            format!("dG'° [{ul}]"),
+            format!("median dG' [{ul}]"),
+            "dG' 10–90 % range".to_string(),
+            "far".into(),
+            "moderate".into(),
+            "near".into(),
+            "uphill".into(),
+            "largest drop".into(),
+            "control point".into(),
+            "median control".into(),
+        ]
+        .to_vec(),
+    ];
     for s in &sum.steps {
-        out.push_str(&format!(
-            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>14}\n",
-            spread_id(prep, s),
-            clean(u.of(s.dg0)),
-            clean(u.of(s.median)),
-            format!("{:.2} {dash} {:.2}", clean(u.of(s.p10)), clean(u.of(s.p90))),
+        rows.push(vec![
+            spread_id(prep, s).to_string(),
+            energy3(u.of(s.dg0)),
+            energy3(u.of(s.median)),
+            format!("{} {dash} {}", energy3(u.of(s.p10)), energy3(u.of(s.p90))),
             pct(s.classes.far, n),
             pct(s.classes.moderate, n),
             pct(s.classes.near, n),
@@ -331,8 +320,11 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.largest, n),
             pct(s.prime, n),
             control_cell(s),
-        ));
+        ]);
     }
+    let mut al = vec![Align::Right; 11];
+    al[0] = Align::Left;
+    out.push_str(&aligned_lines(&rows, &al));
     out.push('\n');
     for l in prime_lines(prep, sum) {
         out.push_str(&l);
@@ -357,7 +349,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | control point | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -365,12 +357,12 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {} | {} | {} to {} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
-            clean(u.of(s.dg0)),
-            clean(u.of(s.median)),
-            clean(u.of(s.p10)),
-            clean(u.of(s.p90)),
+            energy3(u.of(s.dg0)),
+            energy3(u.of(s.median)),
+            energy3(u.of(s.p10)),
+            energy3(u.of(s.p90)),
             pct(s.classes.far, n),
             pct(s.classes.moderate, n),
             pct(s.classes.near, n),
@@ -400,8 +392,8 @@ fn control_cell(s: &StepSpread) -> String {
             if s.control_samples
                 == s.classes.far + s.classes.moderate + s.classes.near + s.classes.uphill =>
         {
-            format!("{m:.3}")
+            fig3(m)
         }
-        Some(m) => format!("{m:.3} ({})", s.control_samples),
+        Some(m) => format!("{} ({})", fig3(m), s.control_samples),
     }
 }

@@ -4,7 +4,7 @@
 use crate::cli::args::{Common, Format};
 use crate::cli::output::{colour_ok, emit};
 use crate::cli::request::state_from;
-use anyhow::{Result, anyhow, bail};
+use anyhow::{Result, anyhow};
 use dgpath::analysis::{self, Prepared};
 use dgpath::model::samples::SampleReader;
 use dgpath::report::{self, TextOptions};
@@ -29,22 +29,21 @@ fn run_mdf_samples(prep: &Prepared, common: &Common, path: &Path, format: Format
             .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
         rows.push((sample.name, m));
     }
-    let text = if format == Format::Json {
-        let doc = report::mdf::samples_json(prep, route, &rows, u);
-        let mut s = serde_json::to_string_pretty(&doc)?;
-        s.push('\n');
-        s
-    } else {
-        report::mdf::samples_table(prep, route, &rows, u)
+    let text = match format {
+        Format::Json => {
+            let doc = report::mdf::samples_json(prep, route, &rows, u);
+            let mut s = serde_json::to_string_pretty(&doc)?;
+            s.push('\n');
+            s
+        }
+        Format::Csv => report::mdf::samples_csv(prep, route, &rows, u),
+        Format::Table | Format::Md => report::mdf::samples_table(prep, route, &rows, u),
     };
     emit(&text)
 }
 
 /// Runs the driving-force optimisation (with concentration ranges) and prints it.
 pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
-    if matches!(format, Format::Csv | Format::Md) {
-        bail!("mdf writes --format table or --format json");
-    }
     if let Some(path) = &common.samples {
         return run_mdf_samples(prep, common, path, format);
     }
@@ -70,7 +69,8 @@ pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
                 ascii: false,
             },
         ),
-        Format::Csv | Format::Md => bail!("mdf writes --format table or --format json"),
+        Format::Csv => report::mdf_flat::mdf_csv(prep, &m, u),
+        Format::Md => report::mdf_flat::mdf_markdown(prep, &state, &m, u),
     };
     emit(&text)
 }
