@@ -225,6 +225,31 @@ pub fn aligned_lines(rows: &[Vec<String>], al: &[Align]) -> String {
     out
 }
 
+/// Plain ASCII stand-ins for the symbols of the text outputs (`--ascii`);
+/// any other non-ASCII character becomes `?`.
+pub fn to_ascii(text: &str) -> String {
+    const PAIRS: [(&str, &str); 13] = [
+        ("dG'°", "dG'0"),
+        ("°C", "C"),
+        ("°", " deg"),
+        ("—", "-"),
+        ("–", "-"),
+        ("−", "-"),
+        ("±", "+/-"),
+        ("≥", ">="),
+        ("≤", "<="),
+        ("…", "..."),
+        ("µ", "u"),
+        ("×", "x"),
+        ("→", "->"),
+    ];
+    let mut s = text.to_string();
+    for (from, to) in PAIRS {
+        s = s.replace(from, to);
+    }
+    s.chars().map(|c| if c.is_ascii() { c } else { '?' }).collect()
+}
+
 /// Rounds away solver and float noise for printing: no -0, no 1e-12 residues.
 pub fn clean(x: f64) -> f64 {
     if !x.is_finite() {

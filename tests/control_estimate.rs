@@ -666,7 +666,7 @@ fn the_explorer_shows_the_estimate_and_fills_in_the_range_between_keys() {
         |app: &App| dgpath::tui::export::to_text(&dgpath::tui::export::render_buffer(app, 120, 70));
     let first = screen(&app);
     let c0 = app.analysis.control_estimate.coefficient(0).unwrap();
-    assert!(first.contains(&format!("◆ prime  ctrl {c0:.3}")), "{first}");
+    assert!(first.contains(&format!("◆ control point  ctrl {c0:.3}")), "{first}");
     assert!(
         screen(&app).contains("range: computing"),
         "{}",

@@ -39,3 +39,183 @@ fn completions_and_manual_come_from_the_clap_definitions() {
     let bad = run(&["completions", "cmd.exe"]);
     assert_eq!(bad.status.code(), Some(2));
 }
+
+/// The table lines of a report: from the header to the first blank line.
+fn table_lines(text: &str) -> Vec<&str> {
+    text.lines()
+        .skip_while(|l| !l.starts_with("energies in"))
+        .skip(2)
+        .take_while(|l| !l.is_empty())
+        .collect()
+}
+
+#[test]
+fn default_table_fits_120_columns_and_wide_shows_every_column() {
+    let d = demo();
+    for extra in [&[][..], &["--reverse"][..]] {
+        let mut args = vec!["report", d.as_str()];
+        args.extend_from_slice(extra);
+        let t = ok(&args);
+        let lines = table_lines(&t);
+        assert!(lines.len() > 10, "{t}");
+        for l in &lines {
+            assert!(l.chars().count() <= 120, "{} wide: {l}", l.chars().count());
+        }
+        // Prose under the table is wrapped too.
+        assert!(t.lines().all(|l| l.chars().count() <= 120), "{t}");
+        assert!(lines[0].contains("per pass") && !lines[0].contains("turns"), "{}", lines[0]);
+    }
+    let wide = ok(&["report", &d, "--wide"]);
+    let head = table_lines(&wide)[0];
+    for h in ["reverse share", "enzyme factor", "J+/J-", "cumulative", "control 5–95 %"] {
+        assert!(head.contains(h), "{head}");
+    }
+    assert!(!head.contains("undone") && !head.contains("enzyme x"), "{head}");
+    // The full enzyme name only in the wide table.
+    let name = "glyceraldehyde-3-phosphate dehydrogenase (phosphorylating)";
+    assert!(wide.contains(name), "{wide}");
+    assert!(!ok(&["report", &d]).contains(name));
+}
+
+#[test]
+fn columns_option_chooses_and_orders_the_columns() {
+    let c = chain();
+    let t = ok(&["report", &c, "--columns", "dg,step,keq"]);
+    let lines = table_lines(&t);
+    let words: Vec<&str> = lines[0].split_whitespace().collect();
+    assert_eq!(words, ["dG'", "step", "K'"], "{t}");
+    // chain.toml s1: dG' = −10.708010 kJ/mol, K' = 7.515573 (worked in tests/cli.rs).
+    let s1: Vec<&str> = lines[2].split_whitespace().collect();
+    assert_eq!(s1, ["-10.7", "s1", "7.52"], "{t}");
+    let bad = run(&["report", &c, "--columns", "dg,undone"]);
+    let (_, err) = texts(&bad);
+    assert_eq!(bad.status.code(), Some(2));
+    assert!(err.contains("reverse_share"), "the message lists the names: {err}");
+}
+
+#[test]
+fn tables_and_markdown_show_three_significant_figures() {
+    let d = demo();
+    let json: serde_json::Value =
+        serde_json::from_str(&ok(&["report", &d, "--format", "json"])).unwrap();
+    let hxk = &json["steps"][0];
+    let pyk = &json["steps"][9];
+    assert_eq!(pyk["id"], "pyk");
+    // JSON keeps the full numbers.
+    let keq = hxk["keq"].as_f64().unwrap();
+    let flux = pyk["flux_ratio"].as_f64().unwrap();
+    assert!((keq - 992.0157).abs() < 1e-3, "{keq}");
+    assert!((flux - 4678.50).abs() < 0.01, "{flux}");
+    let wide = ok(&["report", &d, "--wide"]);
+    let md = ok(&["report", &d, "--format", "md"]);
+    for text in [&wide, &md] {
+        assert!(text.contains(" 992 ") && !text.contains("992.0"), "{text}");
+        assert!(text.contains(" 4680 ") && !text.contains("4678"), "{text}");
+        assert!(text.contains("1.81e4"), "J+/J- of hxk: {text}");
+    }
+}
+
+#[test]
+fn markdown_carries_groups_net_sd_and_unsure_classes() {
+    let d = demo();
+    let md = ok(&["report", &d, "--format", "md"]);
+    assert!(md.contains("coupled:** gapdh + pgk together dG' -0.40 ± 2.05 kJ/mol"), "{md}");
+    assert!(md.contains("net per pass:** glc -1, etoh +2, co2 +2, atp +2"), "{md}");
+    assert!(md.contains("| ± sd |"), "{md}");
+    let pfk = md.lines().find(|l| l.starts_with("| pfk ")).unwrap();
+    assert!(pfk.contains("| 1.61 |") && pfk.contains("▼ far? |"), "{pfk}");
+    assert!(pfk.contains("control point"), "{pfk}");
+    let lines: Vec<&str> = md.lines().filter(|l| l.starts_with('|')).collect();
+    let n = lines[0].matches('|').count();
+    assert!(lines.iter().all(|l| l.matches('|').count() == n), "{md}");
+}
+
+#[test]
+fn csv_has_class_sure_and_units_in_its_headers() {
+    let d = demo();
+    for (unit, label) in [("kj", "kJ/mol"), ("kcal", "kcal/mol")] {
+        let out = ok(&["report", &d, "--format", "csv", "--energy-unit", unit]);
+        let mut r = csv::Reader::from_reader(out.as_bytes());
+        let head: Vec<String> = r.headers().unwrap().iter().map(String::from).collect();
+        for h in ["dg0", "dg", "dg_sd", "cumulative"] {
+            assert!(head.contains(&format!("{h} [{label}]")), "{head:?}");
+        }
+        let sure = head.iter().position(|h| h == "class_sure").unwrap();
+        let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+        let pfk = rows.iter().find(|r| &r[0] == "pfk").unwrap();
+        let hxk = rows.iter().find(|r| &r[0] == "hxk").unwrap();
+        assert_eq!((&pfk[sure], &hxk[sure]), ("false", "true"));
+    }
+}
+
+#[test]
+fn mdf_writes_every_advertised_format() {
+    let d = demo();
+    let help = ok(&["mdf", "--help"]);
+    assert!(help.contains("csv") && help.contains("md"), "{help}");
+    let j: serde_json::Value =
+        serde_json::from_str(&ok(&["mdf", &d, "--format", "json"])).unwrap();
+    let csv = ok(&["mdf", &d, "--format", "csv"]);
+    assert_eq!(csv.lines().count(), 13, "header and 12 route steps: {csv}");
+    let md = ok(&["mdf", &d, "--format", "md"]);
+    let mdf = j["mdf"].as_f64().unwrap();
+    // 1.55 kJ/mol on the demo; the Markdown shows it to three figures.
+    assert!((mdf - 1.5506).abs() < 1e-3, "{mdf}");
+    assert!(md.contains("**MDF: 1.55 kJ/mol**"), "{md}");
+    for b in j["bottlenecks"].as_array().unwrap() {
+        let row = md
+            .lines()
+            .find(|l| l.starts_with(&format!("| {} |", b.as_str().unwrap())))
+            .unwrap();
+        assert!(row.ends_with("| yes |"), "{row}");
+    }
+    assert!(md.contains("| compound | bounds | at optimum |"), "{md}");
+}
+
+#[test]
+fn check_prints_the_warnings_report_and_mdf_give() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("warn.toml");
+    let text = std::fs::read_to_string(path("data/mdf_conc_outside.toml")).unwrap();
+    // An unused compound (and s3 outside its bounds already).
+    let text = text.replace("[compounds]", "[compounds]\nlonely = { conc = \"1 mM\" }");
+    std::fs::write(&file, &text).unwrap();
+    let f = file.to_str().unwrap();
+    let out = run(&["check", f]);
+    let (so, err) = texts(&out);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    assert!(so.contains("ok") && so.contains("with 2 warnings"), "{so}");
+    assert!(err.contains("'lonely' is used by no step"), "{err}");
+    assert!(err.contains("'s3' is at 0.2 M"), "{err}");
+    let (_, mdf_err) = texts(&run(&["mdf", f]));
+    let (_, report_err) = texts(&run(&["report", f]));
+    for line in err.lines() {
+        assert!(mdf_err.contains(line), "mdf lacks {line}: {mdf_err}");
+        assert!(report_err.contains(line), "report lacks {line}: {report_err}");
+    }
+}
+
+#[test]
+fn verdict_reads_control_point_on_screen_and_in_json() {
+    let c = chain();
+    let t = ok(&["report", &c]);
+    assert!(t.contains("◆ control point") && !t.contains("prime"), "{t}");
+    let a = ok(&["report", &c, "--ascii"]);
+    assert!(a.contains("* control point") && a.is_ascii(), "{a}");
+    let j = ok(&["report", &c, "--format", "json"]);
+    assert!(j.contains("\"verdict\": \"control_point\"") && !j.contains("prime"), "{j}");
+}
+
+#[test]
+fn ascii_report_uses_distinct_plain_glyphs() {
+    let d = demo();
+    let t = ok(&["report", &d, "--ascii", "--wide"]);
+    assert!(t.is_ascii(), "{t}");
+    // near and the cut enzyme name differ; the control point and other marks differ.
+    assert!(t.contains("~ near"), "{t}");
+    assert!(t.contains("v far") && t.contains("* control point") && t.contains("o candidate"));
+    assert!(t.contains("<largest"), "{t}");
+    let cut = ok(&["report", &d, "--ascii"]);
+    assert!(cut.is_ascii());
+    assert!(cut.contains("glyceraldehyde-3-phos... "), "{cut}");
+}

@@ -128,12 +128,14 @@ pub struct CellOptions {
     pub enzyme_width: Option<usize>,
 }
 
-/// Cuts `s` to `max` characters, ending in "…" ("~" in ASCII) when cut.
+/// Cuts `s` to `max` characters, ending in "…" ("..." in ASCII) when cut.
 fn cut(s: &str, max: Option<usize>, ascii: bool) -> String {
-    match max {
-        Some(m) if s.chars().count() > m && m > 1 => {
-            let head: String = s.chars().take(m - 1).collect();
-            format!("{head}{}", if ascii { "~" } else { "…" })
+    let mark = if ascii { "..." } else { "…" };
+    let keep = max.map(|m| m.saturating_sub(mark.chars().count()));
+    match (max, keep) {
+        (Some(m), Some(k)) if s.chars().count() > m && k > 0 => {
+            let head: String = s.chars().take(k).collect();
+            format!("{head}{mark}")
         }
         _ => s.to_string(),
     }

@@ -14,6 +14,7 @@ pub mod mdf;
 pub mod mdf_flat;
 pub mod samples;
 pub mod table;
+pub mod warnings;
 
 pub use columns::Column;
 pub use csv::csv;

@@ -3,7 +3,7 @@
 use super::columns::{self, CellOptions, Column};
 use crate::analysis::{Analysis, Class, Prepared, control};
 use crate::present::{
-    EnergyUnit, align, amount, energy3, fig3, headline, verdict_symbol, wrap,
+    EnergyUnit, align, amount, energy3, fig3, headline, to_ascii, verdict_symbol, wrap,
 };
 use crate::scenario::State;
 
@@ -99,7 +99,7 @@ pub fn table_with(
             out.push('\n');
         }
     }
-    out
+    if o.ascii { to_ascii(&out) } else { out }
 }
 
 /// Totals, the largest drop, coupled groups, the net per pass, and in reverse

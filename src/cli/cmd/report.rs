@@ -18,6 +18,9 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View)
     let state = state_from(prep, common)?;
     let mut a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
     analysis::mca::add_ranges(&mut a, common.draws());
+    for w in report::warnings::warnings(prep, &state) {
+        eprintln!("warning: {w}");
+    }
     let u = common.unit();
     let text = match format {
         Format::Json => {
