@@ -9,18 +9,11 @@ use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
 use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, headline};
 use crate::scenario::State;
-use serde_json::{Map, Value, json};
+use super::json::{ConditionsJson, Ordered, num};
+use serde::Serialize;
 
 /// What the reader should keep in mind beside the bottlenecks (science.md §9 [C]).
 pub const BOTTLENECK_CAUTION: &str = "A bottleneck here is costly in enzyme (little driving force to spare), not necessarily the step that controls the flux.";
-
-fn energy(x: f64) -> Value {
-    if x.is_finite() {
-        json!(clean(x))
-    } else {
-        Value::Null
-    }
-}
 
 /// A concentration (mol/L) rounded to 7 significant figures, for printing.
 pub fn conc_value(c: f64) -> f64 {
@@ -30,12 +23,8 @@ pub fn conc_value(c: f64) -> f64 {
     format!("{c:.6e}").parse().unwrap_or(c)
 }
 
-fn conc(c: f64) -> Value {
-    if c.is_finite() {
-        json!(conc_value(c))
-    } else {
-        Value::Null
-    }
+fn conc(c: f64) -> Option<f64> {
+    c.is_finite().then(|| conc_value(c))
 }
 
 /// MDF gain (J/mol) per 10-fold widening of a bound whose dual is `price`.
@@ -47,98 +36,123 @@ fn shown(m: &Mdf) -> impl Iterator<Item = usize> + '_ {
     (0..m.parts.len()).filter(|&c| m.parts[c] != Part::Absent)
 }
 
-/// The JSON document of cli.md (`mdf --format json`), with extra fields.
-pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value {
+/// A bound that limits the MDF.
+#[derive(Debug, Serialize)]
+pub struct LimitingJson {
+    /// Compound id.
+    pub compound: String,
+    /// lower or upper.
+    pub bound: &'static str,
+    /// The bound, mol/L.
+    pub bound_m: Option<f64>,
+    /// Its shadow price.
+    pub price: Option<f64>,
+    /// MDF gain per 10-fold wider bound, in the energy unit.
+    pub gain_per_decade: Option<f64>,
+}
+
+/// The whole document of `mdf --format json`.
+#[derive(Debug, Serialize)]
+pub struct MdfJson {
+    /// Pathway name.
+    pub pathway: String,
+    /// forward or reverse.
+    pub direction: &'static str,
+    /// The max-min driving force.
+    pub mdf: Option<f64>,
+    /// kJ/mol or kcal/mol.
+    pub energy_unit: &'static str,
+    /// MDF ≥ 0: the whole route can run forward within the bounds.
+    pub feasible: bool,
+    /// Conditions.
+    pub conditions: ConditionsJson,
+    /// Steps with a non-zero shadow price.
+    pub bottlenecks: Vec<String>,
+    /// One optimum, mol/L.
+    pub concentrations_m: Ordered<Option<f64>>,
+    /// −dG' per step at the optimum.
+    pub driving_forces: Ordered<Option<f64>>,
+    /// Shadow price per step.
+    pub prices: Ordered<Option<f64>>,
+    /// dG'° per step as run.
+    pub dg0: Ordered<Option<f64>>,
+    /// Range of each compound while the MDF holds, mol/L.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub ranges_m: Option<Ordered<[Option<f64>; 2]>>,
+    /// Bounds, mol/L.
+    pub bounds_m: Ordered<[Option<f64>; 2]>,
+    /// Compounds held at their scenario value.
+    pub fixed: Vec<String>,
+    /// Bounds that limit the MDF.
+    pub limiting: Vec<LimitingJson>,
+    /// Warnings in words.
+    pub warnings: Vec<String>,
+}
+
+/// The typed document of cli.md (`mdf --format json`), with extra fields.
+pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> MdfJson {
     let p = &prep.pathway;
     let c = &state.conditions;
     let step_id = |k: usize| p.steps[m.steps[k]].id.clone();
-    let mut doc = Map::new();
-    doc.insert("pathway".into(), json!(p.name));
-    doc.insert("direction".into(), json!(m.direction.as_str()));
-    doc.insert("mdf".into(), energy(u.of(m.value)));
-    doc.insert("energy_unit".into(), json!(u.label()));
-    doc.insert("feasible".into(), json!(m.feasible()));
-    doc.insert(
-        "conditions".into(),
-        json!({
-            "temperature_k": clean(c.temperature),
-            "ph": clean(c.ph),
-            "ionic_strength_m": clean(c.ionic_strength),
-            "rt": energy(u.of(m.rt)),
-        }),
-    );
-    doc.insert(
-        "bottlenecks".into(),
-        json!(
-            m.bottlenecks
-                .iter()
-                .map(|&k| step_id(k))
-                .collect::<Vec<_>>()
+    let per_step = |f: &dyn Fn(usize) -> f64| {
+        Ordered((0..m.steps.len()).map(|k| (step_id(k), num(f(k)))).collect())
+    };
+    let per_compound = |f: &dyn Fn(usize) -> [Option<f64>; 2]| {
+        Ordered(shown(m).map(|ci| (p.compounds[ci].id.clone(), f(ci))).collect())
+    };
+    MdfJson {
+        pathway: p.name.clone(),
+        direction: m.direction.as_str(),
+        mdf: num(u.of(m.value)),
+        energy_unit: u.label(),
+        feasible: m.feasible(),
+        conditions: ConditionsJson {
+            temperature_k: num(c.temperature),
+            ph: num(c.ph),
+            ionic_strength_m: num(c.ionic_strength),
+            rt: num(u.of(m.rt)),
+        },
+        bottlenecks: m.bottlenecks.iter().map(|&k| step_id(k)).collect(),
+        concentrations_m: Ordered(
+            shown(m).map(|ci| (p.compounds[ci].id.clone(), conc(m.conc[ci]))).collect(),
         ),
-    );
-    let mut prices = Map::new();
-    let mut forces = Map::new();
-    let mut dg0 = Map::new();
-    for k in 0..m.steps.len() {
-        prices.insert(step_id(k), energy(m.prices[k]));
-        forces.insert(step_id(k), energy(u.of(m.driving_forces[k])));
-        dg0.insert(step_id(k), energy(u.of(m.dg0[k])));
-    }
-    let mut concs = Map::new();
-    let mut bounds = Map::new();
-    let mut ranges = Map::new();
-    let mut fixed = Vec::new();
-    for ci in shown(m) {
-        let id = p.compounds[ci].id.clone();
-        concs.insert(id.clone(), conc(m.conc[ci]));
-        bounds.insert(
-            id.clone(),
-            json!([conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
-        );
-        if let Some(r) = &m.ranges {
-            ranges.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
-        }
-        if m.parts[ci] == Part::Held {
-            fixed.push(id);
-        }
-    }
-    doc.insert("concentrations_m".into(), Value::Object(concs));
-    doc.insert("driving_forces".into(), Value::Object(forces));
-    doc.insert("prices".into(), Value::Object(prices));
-    doc.insert("dg0".into(), Value::Object(dg0));
-    if m.ranges.is_some() {
-        doc.insert("ranges_m".into(), Value::Object(ranges));
-    }
-    doc.insert("bounds_m".into(), Value::Object(bounds));
-    doc.insert("fixed".into(), json!(fixed));
-    let limiting: Vec<Value> = m
-        .limiting
-        .iter()
-        .map(|&(ci, b, price)| {
-            let at = match b {
-                Bound::Lower => m.bounds[ci].0,
-                Bound::Upper => m.bounds[ci].1,
-            };
-            json!({
-                "compound": p.compounds[ci].id,
-                "bound": b.as_str(),
-                "bound_m": conc(at),
-                "price": energy(price),
-                "gain_per_decade": energy(u.of(gain_per_decade(m, price))),
+        driving_forces: per_step(&|k| u.of(m.driving_forces[k])),
+        prices: per_step(&|k| m.prices[k]),
+        dg0: per_step(&|k| u.of(m.dg0[k])),
+        ranges_m: m
+            .ranges
+            .as_ref()
+            .map(|r| per_compound(&|ci| [conc(r[ci].0), conc(r[ci].1)])),
+        bounds_m: per_compound(&|ci| [conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
+        fixed: shown(m)
+            .filter(|&ci| m.parts[ci] == Part::Held)
+            .map(|ci| p.compounds[ci].id.clone())
+            .collect(),
+        limiting: m
+            .limiting
+            .iter()
+            .map(|&(ci, b, price)| LimitingJson {
+                compound: p.compounds[ci].id.clone(),
+                bound: b.as_str(),
+                bound_m: conc(match b {
+                    Bound::Lower => m.bounds[ci].0,
+                    Bound::Upper => m.bounds[ci].1,
+                }),
+                price: num(price),
+                gain_per_decade: num(u.of(gain_per_decade(m, price))),
             })
-        })
-        .collect();
-    doc.insert("limiting".into(), Value::Array(limiting));
-    doc.insert("warnings".into(), json!(m.warnings));
-    Value::Object(doc)
+            .collect(),
+        warnings: m.warnings.clone(),
+    }
 }
 
-
-fn conc_text(c: f64, ascii: bool) -> String {
+/// A concentration in the unit that reads best.
+pub fn conc_text(c: f64, ascii: bool) -> String {
     units::format_conc(conc_value(c), ascii)
 }
 
-fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
+/// "lo to hi", or one value when both read the same.
+pub fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
     let (a, b) = (conc_text(lo, ascii), conc_text(hi, ascii));
     if a == b { a } else { format!("{a} to {b}") }
 }
@@ -281,29 +295,50 @@ fn bottleneck_ids(prep: &Prepared, route: &Route, m: &Mdf) -> Vec<String> {
         .collect()
 }
 
+/// One sample's optimum.
+#[derive(Debug, Serialize)]
+pub struct SampleMdfJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its MDF.
+    pub mdf: Option<f64>,
+    /// Its bottleneck steps.
+    pub bottlenecks: Vec<String>,
+}
+
+/// `mdf --samples --format json`.
+#[derive(Debug, Serialize)]
+pub struct SamplesMdfJson {
+    /// Pathway name.
+    pub pathway: String,
+    /// forward or reverse.
+    pub direction: &'static str,
+    /// kJ/mol or kcal/mol.
+    pub energy_unit: &'static str,
+    /// One optimum per sample.
+    pub samples: Vec<SampleMdfJson>,
+}
+
 /// `mdf --samples --format json`: one optimum (MDF and bottlenecks) per sample.
 pub fn samples_json(
     prep: &Prepared,
     route: &Route,
     rows: &[(String, Mdf)],
     u: EnergyUnit,
-) -> Value {
-    let list: Vec<Value> = rows
-        .iter()
-        .map(|(name, m)| {
-            json!({
-                "sample": name,
-                "mdf": clean(u.of(m.value)),
-                "bottlenecks": bottleneck_ids(prep, route, m),
+) -> SamplesMdfJson {
+    SamplesMdfJson {
+        pathway: prep.pathway.name.clone(),
+        direction: route.direction.as_str(),
+        energy_unit: u.label(),
+        samples: rows
+            .iter()
+            .map(|(name, m)| SampleMdfJson {
+                sample: name.clone(),
+                mdf: num(u.of(m.value)),
+                bottlenecks: bottleneck_ids(prep, route, m),
             })
-        })
-        .collect();
-    json!({
-        "pathway": prep.pathway.name,
-        "direction": route.direction.as_str(),
-        "energy_unit": u.label(),
-        "samples": list,
-    })
+            .collect(),
+    }
 }
 
 /// `mdf --samples --format csv`: one row per sample (MDF, bottlenecks joined by spaces).

@@ -2,10 +2,9 @@
 //! Markdown (the MDF, a step table and a compound table).
 
 use super::markdown::{md_row, md_rule};
-use super::mdf::{BOTTLENECK_CAUTION, conc_value, gain_per_decade};
+use super::mdf::{BOTTLENECK_CAUTION, gain_per_decade};
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::Prepared;
-use crate::model::units;
 use crate::present::{Align, EnergyUnit, clean, energy3, fig3, full};
 use crate::scenario::State;
 
@@ -39,7 +38,7 @@ pub fn mdf_csv(prep: &Prepared, m: &Mdf, u: EnergyUnit) -> String {
 }
 
 fn conc_text(c: f64) -> String {
-    units::format_conc(conc_value(c), false)
+    super::mdf::conc_text(c, false)
 }
 
 /// `mdf --format md`: the MDF, the steps, the limiting bounds and the compounds.
