@@ -219,3 +219,14 @@ fn ascii_report_uses_distinct_plain_glyphs() {
     assert!(cut.is_ascii());
     assert!(cut.contains("glyceraldehyde-3-phos... "), "{cut}");
 }
+
+#[test]
+fn report_json_of_the_demo_matches_its_snapshot() {
+    // Every field name and value of the demo's report: a renamed or dropped
+    // field fails here. Review a change with `git diff tests/snapshots`.
+    let d = demo();
+    let text = ok(&["report", &d, "--format", "json", "--draws", "2000"]);
+    insta::assert_snapshot!("report_json_demo", text);
+    let mdf = ok(&["mdf", &d, "--format", "json"]);
+    insta::assert_snapshot!("mdf_json_demo", mdf);
+}

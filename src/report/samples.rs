@@ -8,14 +8,13 @@ use crate::analysis::batch::{StepSpread, Summary, prime_of};
 use crate::analysis::{Analysis, Class, Prepared};
 use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, full};
 use crate::scenario::State;
-use serde_json::{Map, Value, json};
+use super::json::{ConditionsJson, Ordered, num};
+use serde::Serialize;
+use serde_json::Value;
 
-fn num(x: f64) -> Value {
-    if x.is_finite() {
-        json!(clean(x))
-    } else {
-        Value::Null
-    }
+/// Text of a JSON value (strings quoted and escaped).
+fn text<T: Serialize + ?Sized>(v: &T) -> String {
+    serde_json::to_string(v).unwrap_or_default()
 }
 
 fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
@@ -115,10 +114,15 @@ pub fn json_head(prep: &Prepared, state: &State, u: EnergyUnit) -> String {
     let rt = crate::thermo::rt(c.temperature);
     format!(
         "{{\n  \"pathway\": {},\n  \"direction\": {},\n  \"energy_unit\": {},\n  \"conditions\": {},\n  \"samples\": [\n",
-        json!(prep.pathway.name),
-        json!(state.direction.as_str()),
-        json!(u.label()),
-        json!({ "temperature_k": num(c.temperature), "ph": num(c.ph), "ionic_strength_m": num(c.ionic_strength), "rt": num(u.of(rt)) }),
+        text(&prep.pathway.name),
+        text(state.direction.as_str()),
+        text(u.label()),
+        text(&ConditionsJson {
+            temperature_k: num(c.temperature),
+            ph: num(c.ph),
+            ionic_strength_m: num(c.ionic_strength),
+            rt: num(u.of(rt)),
+        }),
     )
 }
 
@@ -138,50 +142,126 @@ fn spread_id<'a>(prep: &'a Prepared, s: &StepSpread) -> &'a str {
     &prep.pathway.steps[s.step].id
 }
 
-/// The summary as JSON (the `summary` member of the samples document).
-pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
-    let steps: Vec<Value> = sum
-        .steps
+/// One step of the summary across samples.
+#[derive(Debug, Serialize)]
+pub struct SpreadJson {
+    /// Step id.
+    pub id: String,
+    /// dG'° (the same in every sample).
+    pub dg0: Option<f64>,
+    /// Median dG'.
+    pub dg_median: Option<f64>,
+    /// 10th percentile of dG'.
+    pub dg_p10: Option<f64>,
+    /// 90th percentile of dG'.
+    pub dg_p90: Option<f64>,
+    /// Smallest dG'.
+    pub dg_min: Option<f64>,
+    /// Largest dG'.
+    pub dg_max: Option<f64>,
+    /// Samples per class.
+    pub classes: Ordered<usize>,
+    /// Samples in which it is the largest drop.
+    pub largest_drop: usize,
+    /// Samples in which it is the control point.
+    pub control_point: usize,
+    /// Median flux control estimate.
+    pub control_coefficient_median: Option<f64>,
+    /// Samples behind that median.
+    pub control_samples: usize,
+}
+
+/// A sample and its class (or control point).
+#[derive(Debug, Serialize)]
+pub struct SampleClassJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its class.
+    pub class: &'static str,
+}
+
+/// A step whose class differs between samples.
+#[derive(Debug, Serialize)]
+pub struct ClassDiffersJson {
+    /// Step id.
+    pub step: String,
+    /// Its most common class.
+    pub usual: &'static str,
+    /// The samples outside it.
+    pub samples: Vec<SampleClassJson>,
+}
+
+/// A sample whose control point is not the usual one.
+#[derive(Debug, Serialize)]
+pub struct PointDiffersJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its control point (null: none).
+    pub control_point: Option<String>,
+}
+
+/// The summary across samples.
+#[derive(Debug, Serialize)]
+pub struct SummaryJson {
+    /// Number of samples.
+    pub samples: usize,
+    /// Per route step.
+    pub steps: Vec<SpreadJson>,
+    /// The most common control point.
+    pub usual_control_point: Option<String>,
+    /// Steps whose class changes.
+    pub class_differs: Vec<ClassDiffersJson>,
+    /// Samples with another control point.
+    pub control_point_differs: Vec<PointDiffersJson>,
+}
+
+fn spread_json(prep: &Prepared, s: &StepSpread, u: EnergyUnit) -> SpreadJson {
+    let classes = [Class::Far, Class::Moderate, Class::Near, Class::Uphill]
         .iter()
-        .map(|s| {
-            let mut classes = Map::new();
-            for c in [Class::Far, Class::Moderate, Class::Near, Class::Uphill] {
-                classes.insert(c.as_str().into(), json!(s.classes.of(c)));
-            }
-            json!({
-                "id": spread_id(prep, s),
-                "dg0": num(u.of(s.dg0)),
-                "dg_median": num(u.of(s.median)),
-                "dg_p10": num(u.of(s.p10)),
-                "dg_p90": num(u.of(s.p90)),
-                "dg_min": num(u.of(s.min)),
-                "dg_max": num(u.of(s.max)),
-                "classes": Value::Object(classes),
-                "largest_drop": s.largest,
-                "control_point": s.prime,
-                "control_coefficient_median": s.control_median.map_or(Value::Null, num),
-                "control_samples": s.control_samples,
-            })
-        })
+        .map(|&c| (c.as_str().to_string(), s.classes.of(c)))
         .collect();
-    let id = |p: Option<usize>| p.map_or(Value::Null, |k| json!(spread_id(prep, &sum.steps[k])));
-    json!({
-        "samples": sum.samples,
-        "steps": steps,
-        "usual_control_point": id(sum.usual_prime),
-        "class_differs": sum
+    SpreadJson {
+        id: spread_id(prep, s).to_string(),
+        dg0: num(u.of(s.dg0)),
+        dg_median: num(u.of(s.median)),
+        dg_p10: num(u.of(s.p10)),
+        dg_p90: num(u.of(s.p90)),
+        dg_min: num(u.of(s.min)),
+        dg_max: num(u.of(s.max)),
+        classes: Ordered(classes),
+        largest_drop: s.largest,
+        control_point: s.prime,
+        control_coefficient_median: s.control_median.and_then(num),
+        control_samples: s.control_samples,
+    }
+}
+
+/// The summary as JSON (the `summary` member of the samples document).
+pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> SummaryJson {
+    let id = |p: Option<usize>| p.map(|k| spread_id(prep, &sum.steps[k]).to_string());
+    SummaryJson {
+        samples: sum.samples,
+        steps: sum.steps.iter().map(|s| spread_json(prep, s, u)).collect(),
+        usual_control_point: id(sum.usual_prime),
+        class_differs: sum
             .class_differs
             .iter()
-            .map(|d| {
-                json!({
-                    "step": spread_id(prep, &sum.steps[d.position]),
-                    "usual": d.usual.as_str(),
-                    "samples": d.samples.iter().map(|(n, c)| json!({ "sample": n, "class": c.as_str() })).collect::<Vec<_>>(),
-                })
+            .map(|d| ClassDiffersJson {
+                step: spread_id(prep, &sum.steps[d.position]).to_string(),
+                usual: d.usual.as_str(),
+                samples: d
+                    .samples
+                    .iter()
+                    .map(|(n, c)| SampleClassJson { sample: n.clone(), class: c.as_str() })
+                    .collect(),
             })
-            .collect::<Vec<_>>(),
-        "control_point_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "control_point": id(*p) })).collect::<Vec<_>>(),
-    })
+            .collect(),
+        control_point_differs: sum
+            .prime_differs
+            .iter()
+            .map(|(n, p)| PointDiffersJson { sample: n.clone(), control_point: id(*p) })
+            .collect(),
+    }
 }
 
 /// The closing of the streamed JSON document, with the summary.
