@@ -20,6 +20,7 @@ pub mod plot;
 pub mod present;
 pub mod report;
 pub mod scenario;
+pub mod synthetic;
 pub mod thermo;
 pub mod tui;
 

@@ -105,7 +105,10 @@ fn level3_route_is_oriented_with_protons_roles_and_model_data() {
     // Roles: water is the solvent, carriers are currency.
     assert_eq!(compound(&p, "h2o_c").role, Some(StatedRole::Solvent));
     let w = compound(&p, "h2o_c");
-    assert_eq!((w.charge, w.hydrogens, w.conc), (Some(0.0), Some(2.0), None));
+    assert_eq!(
+        (w.charge, w.hydrogens, w.conc),
+        (Some(0.0), Some(2.0), None)
+    );
     for id in ["atp_c", "adp_c", "nad_c", "nadh_c", "pi_c"] {
         assert_eq!(compound(&p, id).role, Some(StatedRole::Currency), "{id}");
     }
@@ -127,10 +130,10 @@ fn branch_points_and_bypasses_come_from_the_network() {
     // G6PDH (a dehydrogenase) makes g6p a branch point, LDH makes pyr one.
     assert!(compound(&p, "g6p_c").branch);
     assert!(compound(&p, "pyr_c").branch);
-    // Only the objective (GROWTH), the exchange, the demand or the bypass
-    // touch these: no branch points.
+    // Only the objective (GROWTH), a reaction named biomass (BIOMASS_alt),
+    // the exchange, the demand or the bypass touch these: no branch points.
     for id in [
-        "f6p_c", "fdp_c", "3pg_c", "pep_c", "glc__D_e", "glc__D_c", "dhap_c",
+        "f6p_c", "fdp_c", "3pg_c", "2pg_c", "pep_c", "glc__D_e", "glc__D_c", "dhap_c",
     ] {
         assert!(!compound(&p, id).branch, "{id}");
     }
@@ -240,7 +243,7 @@ fn level3_version2_and_gzip() {
 fn list_shows_id_name_and_equation() {
     let m = model("sbml/chain_l3v1.xml");
     let all = import::list(&m, None);
-    assert_eq!(all.lines().count(), 18);
+    assert_eq!(all.lines().count(), 19);
     let pgk = import::list(&m, Some("glycerate KIN"));
     assert_eq!(pgk.lines().count(), 1, "{pgk}");
     assert!(

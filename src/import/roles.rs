@@ -49,7 +49,8 @@ const CURRENCY_NAMES: &[&str] = &[
     "menaquinol-8",
 ];
 
-/// The species id without its compartment suffix (`atp_c` in compartment `c` -> `atp`).
+/// The species id without its compartment suffix (`atp_c` in compartment `c`
+/// -> `atp`; a suffix of one or two letters or digits comes off otherwise).
 pub fn base_id(s: &Species) -> &str {
     if !s.compartment.is_empty()
         && let Some(b) = s.id.strip_suffix(s.compartment.as_str())
@@ -58,7 +59,18 @@ pub fn base_id(s: &Species) -> &str {
     {
         return b;
     }
-    &s.id
+    // Models whose compartment ids are words (`Cytosol`) still end species
+    // ids with a short code (`atp_c`).
+    match s.id.rsplit_once('_') {
+        Some((b, code))
+            if !b.is_empty()
+                && (1..=2).contains(&code.len())
+                && code.chars().all(|c| c.is_ascii_alphanumeric()) =>
+        {
+            b
+        }
+        _ => &s.id,
+    }
 }
 
 /// Classifies a species by its formula, charge, id and name (rules in docs/import.md).
@@ -159,8 +171,11 @@ mod tests {
     fn compartment_suffix_comes_off_the_id() {
         assert_eq!(base_id(&sp("atp_c", "", None, None)), "atp");
         let mut s = sp("pi_p", "", None, None);
-        assert_eq!(base_id(&s), "pi_p");
-        s.compartment = "p".into();
+        s.compartment = "Periplasm".into();
         assert_eq!(base_id(&s), "pi");
+        s.id = "coa".into();
+        assert_eq!(base_id(&s), "coa");
+        s.id = "glc__D_ext".into();
+        assert_eq!(base_id(&s), "glc__D_ext");
     }
 }

@@ -69,6 +69,22 @@ pub fn file_id(id: &str, fallback_prefix: &str) -> String {
     s
 }
 
+/// `file_id` of every id, with `_2`, `_3`, ... added where two would be the same.
+pub fn unique_ids<'a>(ids: impl Iterator<Item = &'a str>, fallback_prefix: &str) -> Vec<String> {
+    let mut seen = std::collections::HashSet::new();
+    ids.map(|id| {
+        let base = file_id(id, fallback_prefix);
+        let mut out = base.clone();
+        let mut n = 1;
+        while !seen.insert(out.clone()) {
+            n += 1;
+            out = format!("{base}_{n}");
+        }
+        out
+    })
+    .collect()
+}
+
 fn number(v: f64) -> String {
     // + 0.0 turns −0 (an empty f64 sum is −0) into 0.
     format!("{}", v + 0.0)
@@ -84,10 +100,12 @@ struct StepOut {
 /// Renders the pathway file.
 pub fn render(inp: &Input) -> Imported {
     let m = inp.model;
-    let steps = steps_out(inp);
+    let rids = unique_ids(m.reactions.iter().map(|r| r.id.as_str()), "r");
+    let steps = steps_out(inp, &rids);
     let mut w = Writer {
         inp,
-        ids: m.species.iter().map(|s| file_id(&s.id, "c")).collect(),
+        ids: unique_ids(m.species.iter().map(|s| s.id.as_str()), "c"),
+        rids,
         out: String::new(),
         notes: Vec::new(),
         missing_dg0: Vec::new(),
@@ -105,11 +123,8 @@ pub fn render(inp: &Input) -> Imported {
         .iter()
         .map(|(sp, _)| w.ids[*sp].clone())
         .collect();
-    let step_ids = |s: &[StepOut]| -> Vec<String> {
-        s.iter()
-            .map(|st| file_id(&m.reactions[st.reaction].id, "r"))
-            .collect()
-    };
+    let step_ids =
+        |s: &[StepOut]| -> Vec<String> { s.iter().map(|st| w.rids[st.reaction].clone()).collect() };
     let (route_steps, bypass_steps) = steps.split_at(inp.route.len());
     Imported {
         text: w.out,
@@ -123,8 +138,7 @@ pub fn render(inp: &Input) -> Imported {
 }
 
 /// The route steps, then the bypass steps.
-fn steps_out(inp: &Input) -> Vec<StepOut> {
-    let m = inp.model;
+fn steps_out(inp: &Input, rids: &[String]) -> Vec<StepOut> {
     let mut steps: Vec<StepOut> = inp
         .route
         .iter()
@@ -140,7 +154,7 @@ fn steps_out(inp: &Input) -> Vec<StepOut> {
         let ids: Vec<String> = b
             .undoes
             .iter()
-            .map(|&p| file_id(&m.reactions[inp.route[p]].id, "r"))
+            .map(|&p| rids[inp.route[p]].clone())
             .collect();
         let (last, rest) = ids
             .split_last()
@@ -181,6 +195,7 @@ fn used_compounds(inp: &Input, steps: &[StepOut]) -> Vec<usize> {
 struct Writer<'a> {
     inp: &'a Input<'a>,
     ids: Vec<String>,
+    rids: Vec<String>,
     out: String,
     notes: Vec<String>,
     missing_dg0: Vec<String>,
@@ -288,11 +303,7 @@ impl Writer<'_> {
             "description = {}",
             quote(&format!("Imported from {}", inp.file))
         );
-        let route_ids: Vec<String> = inp
-            .route
-            .iter()
-            .map(|&r| quote(&file_id(&m.reactions[r].id, "r")))
-            .collect();
+        let route_ids: Vec<String> = inp.route.iter().map(|&r| quote(&self.rids[r])).collect();
         let _ = writeln!(out, "route = [{}]", route_ids.join(", "));
         out.push_str("\n[conditions]\n");
         let t_from = if inp.opts.temperature.is_some() {
@@ -381,7 +392,7 @@ impl Writer<'_> {
         let out = &mut self.out;
         let notes = &mut self.notes;
         let r = &m.reactions[st.reaction];
-        let id = file_id(&r.id, "r");
+        let id = self.rids[st.reaction].clone();
         let sign = if st.flipped { -1.0 } else { 1.0 };
         let side = |want: f64| {
             r.stoich
@@ -548,5 +559,28 @@ impl Writer<'_> {
             }
             _ => {}
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ids_the_format_accepts_and_keeps_apart() {
+        assert_eq!(file_id("13dpg_c", "c"), "13dpg_c");
+        assert_eq!(file_id("__x", "c"), "x");
+        assert_eq!(file_id("12", "c"), "c12");
+        assert_eq!(file_id("a.b", "c"), "a_b");
+        assert_eq!(
+            unique_ids(["a.b", "a_b", "_a_b", "z"].into_iter(), "c"),
+            ["a_b", "a_b_2", "a_b_3", "z"]
+        );
+        assert!(crate::model::reaction::valid_id(&file_id("1e5", "c")));
+    }
+
+    #[test]
+    fn quoting_escapes() {
+        assert_eq!(quote("a \"b\" \\ c\n"), "\"a \\\"b\\\" \\\\ c\\n\"");
     }
 }
