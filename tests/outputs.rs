@@ -230,3 +230,42 @@ fn report_json_of_the_demo_matches_its_snapshot() {
     let mdf = ok(&["mdf", &d, "--format", "json"]);
     insta::assert_snapshot!("mdf_json_demo", mdf);
 }
+
+#[test]
+fn new_starter_names_every_field_of_the_format_and_checks_clean() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("start.toml");
+    let f = file.to_str().unwrap();
+    ok(&["new", f]);
+    let out = run(&["check", f]);
+    let (so, err) = texts(&out);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    assert!(so.contains("ok") && err.is_empty(), "{so}{err}");
+    let text = std::fs::read_to_string(&file).unwrap();
+    assert!(text.contains("docs/format.md"), "{text}");
+    assert!(!text.contains("<=>"), "reactions use -> only");
+    // Every field of the tables in docs/format.md appears in the starter.
+    let format = std::fs::read_to_string(path("../docs/format.md")).unwrap();
+    let fields: Vec<&str> = format
+        .lines()
+        .filter_map(|l| l.strip_prefix("| `"))
+        .filter_map(|l| l.split('`').next())
+        .filter(|f| f.chars().all(|c| c.is_ascii_lowercase() || c == '_' || c.is_ascii_digit()))
+        .collect();
+    assert!(fields.len() >= 30, "{fields:?}");
+    for field in fields {
+        let written = format!("{field} =");
+        assert!(text.contains(&written), "the starter lacks {field}");
+    }
+    // Uncommenting the optional step fields still gives a file that loads.
+    let full = text
+        .lines()
+        .map(|l| match l.strip_prefix("# ") {
+            Some(rest) if rest.starts_with("dg0_sd") || rest.starts_with("ionic_strength") => rest,
+            _ => l,
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    std::fs::write(&file, full).unwrap();
+    assert_eq!(run(&["check", f]).status.code(), Some(0));
+}

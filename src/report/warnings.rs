@@ -1,5 +1,6 @@
 //! Warnings about a pathway file that every command shows alike (`check`,
-//! `report`, `mdf`): steps left out of the route, compounds no step uses,
+//! `report`, `mdf`): steps left out of the route, compounds no step uses
+//! (a declared solvent may stay unused),
 //! concentrations outside their bounds.
 
 use crate::analysis::{self, Prepared};
@@ -43,7 +44,7 @@ pub fn file_warnings(prep: &Prepared) -> Vec<String> {
     }
     let used = |c: usize| p.steps.iter().any(|s| s.stoich.iter().any(|&(ci, _)| ci == c));
     for (c, comp) in p.compounds.iter().enumerate() {
-        if !used(c) {
+        if !used(c) && !comp.is_solvent() {
             out.push(format!(
                 "{}:{}: compound '{}' is used by no step; remove it or add the step that uses it",
                 p.file, comp.line, comp.id
