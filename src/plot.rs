@@ -35,10 +35,15 @@ fn draw_err<E: std::fmt::Debug>(e: E) -> PlotError {
     PlotError::Draw(format!("{e:?}"))
 }
 
-const FAR: RGBColor = RGBColor(196, 32, 32);
-const OTHER: RGBColor = RGBColor(48, 96, 168);
+// Far steps: a thick dark neutral line (red would read as "bottleneck" or
+// danger); the others thin and light, so the far ones stand out in grey
+// print too.
+const FAR: RGBColor = RGBColor(34, 34, 34);
+const OTHER: RGBColor = RGBColor(150, 160, 175);
 const STANDARD: RGBColor = RGBColor(110, 110, 110);
 const MARK: RGBColor = RGBColor(230, 140, 0);
+/// Room left and right of the steps, in steps.
+const X_PAD: f64 = 0.3;
 const INK: RGBColor = RGBColor(20, 20, 20);
 
 fn font(size: u32) -> TextStyle<'static> {
@@ -100,7 +105,8 @@ fn y_range(values: impl Iterator<Item = f64>) -> (f64, f64) {
         hi = hi.max(v);
     }
     let span = (hi - lo).max(1.0);
-    (lo - 0.14 * span, hi + 0.08 * span)
+    // Room above the data for the legend, so it never sits on the curve.
+    (lo - 0.14 * span, hi + 0.16 * span)
 }
 
 /// Draws one profile panel; `levels` holds n + 1 cumulative values.
@@ -119,7 +125,8 @@ fn profile_panel<DB: DrawingBackend>(
         .margin_right(20)
         .x_label_area_size(56)
         .y_label_area_size(64)
-        .build_cartesian_2d(0f64..n as f64, y.0..y.1)
+        // A margin on both sides keeps the first and last plateaus inside.
+        .build_cartesian_2d(-X_PAD..n as f64 + X_PAD, y.0..y.1)
         .map_err(draw_err)?;
     chart
         .configure_mesh()
@@ -152,7 +159,7 @@ fn profile_panel<DB: DrawingBackend>(
         } else {
             OTHER
         };
-        let width = if far { 5 } else { 2 };
+        let width = if far { 5 } else { 1 };
         let (x0, x1) = (k as f64, k as f64 + 1.0);
         // A short level at each intermediate, joined by the step's slope.
         chart
@@ -240,14 +247,14 @@ fn profile_panel<DB: DrawingBackend>(
     if actual {
         chart
             .draw_series(LineSeries::new(
-                [(0.0, y.1 - 0.04 * span), (0.4, y.1 - 0.04 * span)],
+                [(0.0, y.1 - 0.05 * span), (0.4, y.1 - 0.05 * span)],
                 FAR.stroke_width(5),
             ))
             .map_err(draw_err)?;
         chart
             .draw_series([Text::new(
                 format!("far from equilibrium (dG' ≤ {:.0} {})", pr.far, pr.unit),
-                (0.5, y.1 - 0.04 * span),
+                (0.5, y.1 - 0.05 * span),
                 font(12).pos(Pos::new(HPos::Left, VPos::Center)),
             )])
             .map_err(draw_err)?;
