@@ -269,3 +269,49 @@ fn new_starter_names_every_field_of_the_format_and_checks_clean() {
     std::fs::write(&file, full).unwrap();
     assert_eq!(run(&["check", f]).status.code(), Some(0));
 }
+
+/// Field names of a JSON document, leaving out the keys of id-keyed maps.
+fn field_names(v: &serde_json::Value, out: &mut std::collections::BTreeSet<String>) {
+    const BY_ID: [&str; 7] = [
+        "net",
+        "concentrations_m",
+        "driving_forces",
+        "prices",
+        "dg0",
+        "ranges_m",
+        "bounds_m",
+    ];
+    match v {
+        serde_json::Value::Object(m) => {
+            for (k, x) in m {
+                out.insert(k.clone());
+                if !(BY_ID.contains(&k.as_str()) && x.is_object()) {
+                    field_names(x, out);
+                }
+            }
+        }
+        serde_json::Value::Array(a) => a.iter().for_each(|x| field_names(x, out)),
+        _ => {}
+    }
+}
+
+#[test]
+fn docs_json_describes_every_field() {
+    let docs = std::fs::read_to_string(path("../docs/json.md")).unwrap();
+    let d = demo();
+    let rev = path("../pathways/fermenter-reverse.toml");
+    let rev = rev.to_str().unwrap();
+    let mut names = std::collections::BTreeSet::new();
+    for args in [
+        vec!["report", d.as_str(), "--format", "json"],
+        vec!["report", rev, "--format", "json", "--reverse"],
+        vec!["mdf", d.as_str(), "--format", "json"],
+    ] {
+        let v: serde_json::Value = serde_json::from_str(&ok(&args)).unwrap();
+        field_names(&v, &mut names);
+    }
+    assert!(names.len() > 40, "{names:?}");
+    for n in names {
+        assert!(docs.contains(&format!("`{n}`")), "docs/json.md lacks `{n}`");
+    }
+}
