@@ -81,7 +81,6 @@ pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
             "-inf".into()
         };
     }
-    let x = clean(x);
     if x == 0.0 {
         return "0".into();
     }
@@ -150,9 +149,10 @@ pub fn fig3(x: f64) -> String {
     figures(x, 3, 12)
 }
 
-/// An energy in the unit asked for: three significant figures, at most two decimals.
+/// An energy in the unit asked for: three significant figures, at most two
+/// decimals, float and solver noise rounded away.
 pub fn energy3(x: f64) -> String {
-    figures(x, 3, 2)
+    figures(clean(x), 3, 2)
 }
 
 /// A number at full precision for CSV: the shortest text that reads back to

@@ -315,3 +315,40 @@ fn docs_json_describes_every_field() {
         assert!(docs.contains(&format!("`{n}`")), "docs/json.md lacks `{n}`");
     }
 }
+
+#[test]
+fn huge_and_tiny_numbers_are_printed_in_scientific_notation() {
+    // chain.toml with s1 at dG'° = −1500 kJ/mol and C at 1 pM: at 25 °C
+    // K' of s1 = exp(1500/2.478957) = 6.15e262 and Q of s2 = 1e-12/1e-4 = 1e-8.
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("big.toml");
+    let text = std::fs::read_to_string(path("data/chain.toml"))
+        .unwrap()
+        .replace("dg0 = \"-5 kJ/mol\"", "dg0 = \"-1500 kJ/mol\"")
+        .replace("conc = \"0.01 mM\"", "conc = \"1 pM\"");
+    std::fs::write(&file, text).unwrap();
+    let f = file.to_str().unwrap();
+    let wide = ok(&["report", f, "--wide"]);
+    let s1 = wide.lines().find(|l| l.starts_with("s1 ")).unwrap();
+    assert!(s1.contains(" 6.15e262 "), "{s1}");
+    let s2 = wide.lines().find(|l| l.starts_with("s2 ")).unwrap();
+    assert!(s2.contains(" 1e-8 "), "{s2}");
+    let csv = ok(&["report", f, "--format", "csv"]);
+    let md = ok(&["report", f, "--format", "md"]);
+    for text in [&wide, &csv, &md] {
+        // No run of 20 digits (a 263-digit integer) and no 0.000000… anywhere.
+        let longest = text
+            .split(|c: char| !c.is_ascii_digit())
+            .map(str::len)
+            .max()
+            .unwrap();
+        assert!(longest < 20, "{text}");
+        assert!(!text.contains("0.000000"), "{text}");
+    }
+    let mut r = csv::Reader::from_reader(csv.as_bytes());
+    let head: Vec<String> = r.headers().unwrap().iter().map(String::from).collect();
+    let keq = head.iter().position(|h| h == "keq").unwrap();
+    let row = r.records().next().unwrap().unwrap();
+    let k: f64 = row[keq].parse().unwrap();
+    assert!((k / 6.1465e262 - 1.0).abs() < 1e-4, "{k}");
+}

@@ -3,7 +3,7 @@
 
 use crate::analysis::{Analysis, Prepared, StepResult};
 use crate::present::{
-    Align, EnergyUnit, amount, class_symbol, energy3, fig3, verdict_symbol,
+    Align, EnergyUnit, amount, class_symbol, clean, energy3, fig3, verdict_symbol,
 };
 
 /// A column of the per-step table; the names are those of the JSON fields.
@@ -196,11 +196,11 @@ pub fn cell(
         Column::ControlCoefficient => route(&|k| {
             a.control_estimate
                 .coefficient(k)
-                .map_or("-".into(), fig3)
+                .map_or("-".into(), |c| fig3(clean(c)))
         }),
         Column::ControlCoefficientRange => route(&|k| {
             a.control_estimate.range(k).map_or(String::new(), |(lo, hi)| {
-                format!("{}{}{}", fig3(lo), if o.ascii { " to " } else { "–" }, fig3(hi))
+                format!("{}{}{}", fig3(clean(lo)), if o.ascii { " to " } else { "–" }, fig3(clean(hi)))
             })
         }),
     }

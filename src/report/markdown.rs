@@ -4,7 +4,7 @@
 use super::columns::{self, CellOptions, Column};
 use super::table::{control_legend, legend, summary_lines};
 use crate::analysis::{Analysis, Prepared, control};
-use crate::present::{Align, EnergyUnit, fig3, verdict_words};
+use crate::present::{Align, EnergyUnit, clean, fig3, verdict_words};
 use crate::scenario::State;
 
 /// A Markdown table row; `|` inside a cell is escaped.
@@ -73,7 +73,7 @@ pub fn markdown_with(
             let est = a
                 .control_estimate
                 .coefficient(v.position)
-                .map_or(String::new(), |c| format!(" (flux control estimate {})", fig3(c)));
+                .map_or(String::new(), |c| format!(" (flux control estimate {})", fig3(clean(c))));
             out.push_str(&format!(
                 "- **{}** {}{est}: {}\n",
                 p.steps[a.steps[v.position].step].id,

@@ -205,7 +205,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             energy3(u.of(m.dg0[k])),
             energy3(u.of(m.driving_forces[k])),
             if m.prices[k] > 0.0 {
-                fig3(m.prices[k])
+                fig3(clean(m.prices[k]))
             } else {
                 "0".into()
             },
@@ -247,7 +247,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 p.compounds[ci].id,
                 conc_text(at, o.ascii),
                 energy3(u.of(gain_per_decade(m, price))),
-                fig3(price)
+                fig3(clean(price))
             ));
         }
     }

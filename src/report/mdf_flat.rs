@@ -76,7 +76,7 @@ pub fn mdf_markdown(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> S
             st.enzyme.clone().unwrap_or_default(),
             energy3(u.of(m.dg0[k])),
             energy3(u.of(m.driving_forces[k])),
-            fig3(m.prices[k]),
+            fig3(clean(m.prices[k])),
             if m.bottlenecks.contains(&k) { "yes".into() } else { String::new() },
         ]));
     }

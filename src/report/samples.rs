@@ -472,8 +472,8 @@ fn control_cell(s: &StepSpread) -> String {
             if s.control_samples
                 == s.classes.far + s.classes.moderate + s.classes.near + s.classes.uphill =>
         {
-            fig3(m)
+            fig3(clean(m))
         }
-        Some(m) => format!("{} ({})", fig3(m), s.control_samples),
+        Some(m) => format!("{} ({})", fig3(clean(m)), s.control_samples),
     }
 }

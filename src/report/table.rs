@@ -3,7 +3,7 @@
 use super::columns::{self, CellOptions, Column};
 use crate::analysis::{Analysis, Class, Prepared, control};
 use crate::present::{
-    EnergyUnit, align, amount, energy3, fig3, headline, to_ascii, verdict_symbol, wrap,
+    EnergyUnit, align, amount, clean, energy3, fig3, headline, to_ascii, verdict_symbol, wrap,
 };
 use crate::scenario::State;
 
@@ -176,7 +176,7 @@ fn control_text(prep: &Prepared, a: &Analysis, ascii: bool) -> String {
     for v in &a.control {
         let id = &prep.pathway.steps[a.steps[v.position].step].id;
         let est = match a.control_estimate.coefficient(v.position) {
-            Some(c) => format!("   flux control estimate {}", fig3(c)),
+            Some(c) => format!("   flux control estimate {}", fig3(clean(c))),
             None => String::new(),
         };
         out.push_str(&format!("  {id} {}{est}\n", verdict_symbol(v.kind, ascii)));
