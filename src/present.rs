@@ -2,6 +2,7 @@
 //! unit a person asked for, the class and verdict symbols, number formats and
 //! the reaction as it runs. Front ends use this module, never each other.
 
+use crate::analysis::control::{Reason, Verdict};
 use crate::analysis::{Class, Prepared, StepResult, VerdictKind};
 use crate::model::Conditions;
 use crate::scenario::Direction;
@@ -248,6 +249,59 @@ pub fn to_ascii(text: &str) -> String {
         s = s.replace(from, to);
     }
     s.chars().map(|c| if c.is_ascii() { c } else { '?' }).collect()
+}
+
+/// An energy in J/mol as words in the unit asked for, one decimal ("-24.7 kJ/mol").
+pub fn energy_words(j: f64, u: EnergyUnit) -> String {
+    format!("{:.1} {}", clean(u.of(j)), u.label())
+}
+
+/// A verdict's reason in words, energies in the unit asked for.
+pub fn reason_text(r: &Reason, u: EnergyUnit) -> String {
+    let e = |j: f64| energy_words(j, u);
+    match r {
+        Reason::LastStep { dg } => format!(
+            "last step of the route (dG' = {}): by the time material reaches it, every step before has already committed it, so controlling here would only pile up intermediates",
+            e(*dg)
+        ),
+        Reason::BranchProduct { dg, compounds } => {
+            let x = compounds.join(", ");
+            format!(
+                "its product {x} is a branch point (dG' = {}): flux can leave or enter the route right after it, so controlling this step does not control what follows; the committed step comes after {x}",
+                e(*dg)
+            )
+        }
+        Reason::FirstFar { dg } => format!(
+            "first step far from equilibrium (dG' = {}) that neither ends the route nor feeds a branch point: the committed step",
+            e(*dg)
+        ),
+        Reason::AfterControlPoint { dg, control_point } => format!(
+            "far from equilibrium (dG' = {}) with no rule against it, but {control_point} before it is already the committed step",
+            e(*dg)
+        ),
+        Reason::BranchBetween {
+            compounds,
+            control_point: cp,
+        } => format!(
+            "branch point {} lies between {cp} and this step: flux leaving or entering there is not set by {cp}, so this step may control what reaches the end",
+            compounds.join(", ")
+        ),
+        Reason::Unsure { half_width, other } => format!(
+            "not sure: within the 95 % interval of dG' (± {}) it could be {}, and then it would get no verdict",
+            e(*half_width),
+            other.as_str()
+        ),
+        Reason::Coupled { steps, group_dg } => format!(
+            "read together with {} (coupled, group dG' = {})",
+            steps.join(" + "),
+            e(*group_dg)
+        ),
+    }
+}
+
+/// All reasons of a verdict in words.
+pub fn reasons(v: &Verdict, u: EnergyUnit) -> Vec<String> {
+    v.reasons.iter().map(|r| reason_text(r, u)).collect()
 }
 
 /// Rounds away solver and float noise for printing: no -0, no 1e-12 residues.

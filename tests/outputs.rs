@@ -352,3 +352,27 @@ fn huge_and_tiny_numbers_are_printed_in_scientific_notation() {
     let k: f64 = row[keq].parse().unwrap();
     assert!((k / 6.1465e262 - 1.0).abs() < 1e-4, "{k}");
 }
+
+#[test]
+fn verdict_reasons_follow_the_energy_unit() {
+    let d = demo();
+    let kcal = ok(&["report", &d, "--energy-unit", "kcal"]);
+    let control: String = kcal
+        .lines()
+        .skip_while(|l| *l != "control:")
+        .take_while(|l| !l.is_empty())
+        .collect::<Vec<_>>()
+        .join("\n");
+    // pfk: dG' = −11.07 kJ/mol = −2.65 kcal/mol (4.184 kJ per kcal, the
+    // thermochemical calorie, from memory).
+    assert!(control.contains("(dG' = -2.6 kcal/mol)"), "{control}");
+    assert!(!control.contains("kJ"), "{control}");
+    let j: serde_json::Value =
+        serde_json::from_str(&ok(&["report", &d, "--format", "json", "--energy-unit", "kcal"]))
+            .unwrap();
+    for v in j["control"].as_array().unwrap() {
+        for r in v["reasons"].as_array().unwrap() {
+            assert!(!r.as_str().unwrap().contains("kJ"), "{r}");
+        }
+    }
+}

@@ -267,7 +267,7 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
             .map(|v| VerdictJson {
                 step: id(v.position),
                 verdict: v.kind.as_str(),
-                reasons: v.reasons.clone(),
+                reasons: crate::present::reasons(v, u),
             })
             .collect(),
         needs_bypass: reverse.then(|| {

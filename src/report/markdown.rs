@@ -78,7 +78,7 @@ pub fn markdown_with(
                 "- **{}** {}{est}: {}\n",
                 p.steps[a.steps[v.position].step].id,
                 verdict_words(v.kind),
-                v.reasons.join("; ")
+                crate::present::reasons(v, u).join("; ")
             ));
         }
     }

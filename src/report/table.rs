@@ -84,7 +84,7 @@ pub fn table_with(
         out.push_str(&l);
         out.push('\n');
     }
-    out.push_str(&control_text(prep, a, o.ascii));
+    out.push_str(&control_text(prep, a, o.ascii, o.unit));
     if !a.notes.is_empty() {
         out.push('\n');
         for n in &a.notes {
@@ -168,7 +168,7 @@ pub fn summary_lines(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> Vec<String
 }
 
 /// The verdicts with their reasons and flux control estimates.
-fn control_text(prep: &Prepared, a: &Analysis, ascii: bool) -> String {
+fn control_text(prep: &Prepared, a: &Analysis, ascii: bool, u: EnergyUnit) -> String {
     if a.control.is_empty() {
         return String::new();
     }
@@ -180,7 +180,7 @@ fn control_text(prep: &Prepared, a: &Analysis, ascii: bool) -> String {
             None => String::new(),
         };
         out.push_str(&format!("  {id} {}{est}\n", verdict_symbol(v.kind, ascii)));
-        for r in &v.reasons {
+        for r in crate::present::reasons(v, u) {
             out.push_str(&wrap(&format!("      {r}"), WRAP, "      "));
             out.push('\n');
         }
