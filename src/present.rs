@@ -86,7 +86,7 @@ pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
         return "0".into();
     }
     let a = x.abs();
-    if a >= 1e4 || a < 1e-3 {
+    if !(1e-3..1e4).contains(&a) {
         let s = format!("{:.*e}", sig.saturating_sub(1), x);
         return match s.split_once('e') {
             Some((m, e)) if m.contains('.') => {
@@ -106,7 +106,10 @@ pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
     };
     let dec = ((sig as i32 - 1 - mag).max(0) as usize).min(max_dec);
     let s = format!("{x:.dec$}");
-    if s.trim_start_matches('-').trim_matches(['0', '.']).is_empty() {
+    if s.trim_start_matches('-')
+        .trim_matches(['0', '.'])
+        .is_empty()
+    {
         "0".into()
     } else {
         s
@@ -164,7 +167,7 @@ pub fn full(x: f64) -> String {
     }
     let x = if x == 0.0 { 0.0 } else { x };
     let a = x.abs();
-    if a != 0.0 && (a >= 1e15 || a < 1e-4) {
+    if a != 0.0 && !(1e-4..1e15).contains(&a) {
         format!("{x:e}")
     } else {
         format!("{x}")
@@ -248,7 +251,9 @@ pub fn to_ascii(text: &str) -> String {
     for (from, to) in PAIRS {
         s = s.replace(from, to);
     }
-    s.chars().map(|c| if c.is_ascii() { c } else { '?' }).collect()
+    s.chars()
+        .map(|c| if c.is_ascii() { c } else { '?' })
+        .collect()
 }
 
 /// An energy in J/mol as words in the unit asked for, one decimal ("-24.7 kJ/mol").

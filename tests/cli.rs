@@ -290,7 +290,11 @@ fn csv_and_markdown_are_parseable() {
     let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
     assert_eq!(rows.len(), 2);
     assert_eq!(&rows[0][col("step")], "s1");
-    close(rows[0][col("dg [kJ/mol]")].parse().unwrap(), -10.708010, 1e-6);
+    close(
+        rows[0][col("dg [kJ/mol]")].parse().unwrap(),
+        -10.708010,
+        1e-6,
+    );
     close(
         rows[1][col("cumulative [kJ/mol]")].parse().unwrap(),
         -14.416020,

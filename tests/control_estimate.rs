@@ -546,7 +546,10 @@ fn report_formats_carry_the_estimate_and_its_range() {
     let c1_text = dgpath::present::fig3(c1);
     let (t, _) = crate::support::texts(&crate::support::run(&["report", c]));
     assert!(t.contains("control") && t.contains(&c1_text), "{t}");
-    assert!(t.contains(&format!("flux control estimate {c1_text}")), "{t}");
+    assert!(
+        t.contains(&format!("flux control estimate {c1_text}")),
+        "{t}"
+    );
     let (m, _) = crate::support::texts(&crate::support::run(&["report", c, "--format", "md"]));
     assert!(
         m.contains("| control | control 5–95 % |") && m.contains(&c1_text),

@@ -277,7 +277,12 @@ fn mdf_csv_has_one_row_per_step_and_still_warns() {
     assert_eq!(rows.len(), j["driving_forces"].as_object().unwrap().len());
     for row in &rows {
         let f: f64 = row[3].parse().unwrap();
-        assert_eq!(f, j["driving_forces"][&row[0]].as_f64().unwrap(), "{}", &row[0]);
+        assert_eq!(
+            f,
+            j["driving_forces"][&row[0]].as_f64().unwrap(),
+            "{}",
+            &row[0]
+        );
         let mdf: f64 = row[6].parse().unwrap();
         assert_eq!(mdf, j["mdf"].as_f64().unwrap());
     }

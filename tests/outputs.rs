@@ -63,14 +63,27 @@ fn default_table_fits_120_columns_and_wide_shows_every_column() {
         }
         // Prose under the table is wrapped too.
         assert!(t.lines().all(|l| l.chars().count() <= 120), "{t}");
-        assert!(lines[0].contains("per pass") && !lines[0].contains("turns"), "{}", lines[0]);
+        assert!(
+            lines[0].contains("per pass") && !lines[0].contains("turns"),
+            "{}",
+            lines[0]
+        );
     }
     let wide = ok(&["report", &d, "--wide"]);
     let head = table_lines(&wide)[0];
-    for h in ["reverse share", "enzyme factor", "J+/J-", "cumulative", "control 5–95 %"] {
+    for h in [
+        "reverse share",
+        "enzyme factor",
+        "J+/J-",
+        "cumulative",
+        "control 5–95 %",
+    ] {
         assert!(head.contains(h), "{head}");
     }
-    assert!(!head.contains("undone") && !head.contains("enzyme x"), "{head}");
+    assert!(
+        !head.contains("undone") && !head.contains("enzyme x"),
+        "{head}"
+    );
     // The full enzyme name only in the wide table.
     let name = "glyceraldehyde-3-phosphate dehydrogenase (phosphorylating)";
     assert!(wide.contains(name), "{wide}");
@@ -90,7 +103,10 @@ fn columns_option_chooses_and_orders_the_columns() {
     let bad = run(&["report", &c, "--columns", "dg,undone"]);
     let (_, err) = texts(&bad);
     assert_eq!(bad.status.code(), Some(2));
-    assert!(err.contains("reverse_share"), "the message lists the names: {err}");
+    assert!(
+        err.contains("reverse_share"),
+        "the message lists the names: {err}"
+    );
 }
 
 #[test]
@@ -119,11 +135,20 @@ fn tables_and_markdown_show_three_significant_figures() {
 fn markdown_carries_groups_net_sd_and_unsure_classes() {
     let d = demo();
     let md = ok(&["report", &d, "--format", "md"]);
-    assert!(md.contains("coupled:** gapdh + pgk together dG' -0.40 ± 2.05 kJ/mol"), "{md}");
-    assert!(md.contains("net per pass:** glc -1, etoh +2, co2 +2, atp +2"), "{md}");
+    assert!(
+        md.contains("coupled:** gapdh + pgk together dG' -0.40 ± 2.05 kJ/mol"),
+        "{md}"
+    );
+    assert!(
+        md.contains("net per pass:** glc -1, etoh +2, co2 +2, atp +2"),
+        "{md}"
+    );
     assert!(md.contains("| ± sd |"), "{md}");
     let pfk = md.lines().find(|l| l.starts_with("| pfk ")).unwrap();
-    assert!(pfk.contains("| 1.61 |") && pfk.contains("▼ far? |"), "{pfk}");
+    assert!(
+        pfk.contains("| 1.61 |") && pfk.contains("▼ far? |"),
+        "{pfk}"
+    );
     assert!(pfk.contains("control point"), "{pfk}");
     let lines: Vec<&str> = md.lines().filter(|l| l.starts_with('|')).collect();
     let n = lines[0].matches('|').count();
@@ -153,8 +178,7 @@ fn mdf_writes_every_advertised_format() {
     let d = demo();
     let help = ok(&["mdf", "--help"]);
     assert!(help.contains("csv") && help.contains("md"), "{help}");
-    let j: serde_json::Value =
-        serde_json::from_str(&ok(&["mdf", &d, "--format", "json"])).unwrap();
+    let j: serde_json::Value = serde_json::from_str(&ok(&["mdf", &d, "--format", "json"])).unwrap();
     let csv = ok(&["mdf", &d, "--format", "csv"]);
     assert_eq!(csv.lines().count(), 13, "header and 12 route steps: {csv}");
     let md = ok(&["mdf", &d, "--format", "md"]);
@@ -177,21 +201,31 @@ fn check_prints_the_warnings_report_and_mdf_give() {
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("warn.toml");
     let text = std::fs::read_to_string(path("data/mdf_conc_outside.toml")).unwrap();
-    // An unused compound (and s3 outside its bounds already).
-    let text = text.replace("[compounds]", "[compounds]\nlonely = { conc = \"1 mM\" }");
+    // An unused compound, a step left out of an explicit route (and s3
+    // outside its bounds already).
+    let text = text
+        .replace("[compounds]", "[compounds]\nlonely = { conc = \"1 mM\" }")
+        .replace(
+            "name = \"worked chain",
+            "route = [\"r1\", \"r2\", \"r3\"]\nname = \"worked chain",
+        );
     std::fs::write(&file, &text).unwrap();
     let f = file.to_str().unwrap();
     let out = run(&["check", f]);
     let (so, err) = texts(&out);
     assert_eq!(out.status.code(), Some(0), "{err}");
-    assert!(so.contains("ok") && so.contains("with 2 warnings"), "{so}");
+    assert!(so.contains("ok") && so.contains("with 3 warnings"), "{so}");
+    assert!(err.contains("step 'r4' not in pathway.route"), "{err}");
     assert!(err.contains("'lonely' is used by no step"), "{err}");
     assert!(err.contains("'s3' is at 0.2 M"), "{err}");
     let (_, mdf_err) = texts(&run(&["mdf", f]));
     let (_, report_err) = texts(&run(&["report", f]));
     for line in err.lines() {
         assert!(mdf_err.contains(line), "mdf lacks {line}: {mdf_err}");
-        assert!(report_err.contains(line), "report lacks {line}: {report_err}");
+        assert!(
+            report_err.contains(line),
+            "report lacks {line}: {report_err}"
+        );
     }
 }
 
@@ -203,7 +237,10 @@ fn verdict_reads_control_point_on_screen_and_in_json() {
     let a = ok(&["report", &c, "--ascii"]);
     assert!(a.contains("* control point") && a.is_ascii(), "{a}");
     let j = ok(&["report", &c, "--format", "json"]);
-    assert!(j.contains("\"verdict\": \"control_point\"") && !j.contains("prime"), "{j}");
+    assert!(
+        j.contains("\"verdict\": \"control_point\"") && !j.contains("prime"),
+        "{j}"
+    );
 }
 
 #[test]
@@ -250,7 +287,10 @@ fn new_starter_names_every_field_of_the_format_and_checks_clean() {
         .lines()
         .filter_map(|l| l.strip_prefix("| `"))
         .filter_map(|l| l.split('`').next())
-        .filter(|f| f.chars().all(|c| c.is_ascii_lowercase() || c == '_' || c.is_ascii_digit()))
+        .filter(|f| {
+            f.chars()
+                .all(|c| c.is_ascii_lowercase() || c == '_' || c.is_ascii_digit())
+        })
         .collect();
     assert!(fields.len() >= 30, "{fields:?}");
     for field in fields {
@@ -367,9 +407,15 @@ fn verdict_reasons_follow_the_energy_unit() {
     // thermochemical calorie, from memory).
     assert!(control.contains("(dG' = -2.6 kcal/mol)"), "{control}");
     assert!(!control.contains("kJ"), "{control}");
-    let j: serde_json::Value =
-        serde_json::from_str(&ok(&["report", &d, "--format", "json", "--energy-unit", "kcal"]))
-            .unwrap();
+    let j: serde_json::Value = serde_json::from_str(&ok(&[
+        "report",
+        &d,
+        "--format",
+        "json",
+        "--energy-unit",
+        "kcal",
+    ]))
+    .unwrap();
     for v in j["control"].as_array().unwrap() {
         for r in v["reasons"].as_array().unwrap() {
             assert!(!r.as_str().unwrap().contains("kJ"), "{r}");

@@ -186,17 +186,26 @@ fn far_steps_are_thick_and_dark_neutral_and_stay_inside() {
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     let svg = std::fs::read_to_string(&out).unwrap();
     // No red: the far steps are #222222 at width 5, the others light and thin.
-    assert!(!svg.to_ascii_uppercase().contains("#C42020"), "the old red is gone");
+    assert!(
+        !svg.to_ascii_uppercase().contains("#C42020"),
+        "the old red is gone"
+    );
     let far = polylines(&svg, "#222222", "5");
     // hxk, pfk, pyk, pdc on the demo, plus the legend's sample line.
     assert_eq!(far.len(), 5, "{far:?}");
-    assert!(!polylines(&svg, "#96A0AF", "1").is_empty(), "thin light lines");
+    assert!(
+        !polylines(&svg, "#96A0AF", "1").is_empty(),
+        "thin light lines"
+    );
     // The legend line lies above every point of the curve (smaller y in SVG)
     // within the left panel.
     let curve: Vec<(f64, f64)> = far[..4].iter().flatten().copied().collect();
     let legend = &far[4];
     let top = curve.iter().map(|p| p.1).fold(f64::INFINITY, f64::min);
-    assert!(legend.iter().all(|p| p.1 < top - 10.0), "{legend:?} vs {top}");
+    assert!(
+        legend.iter().all(|p| p.1 < top - 10.0),
+        "{legend:?} vs {top}"
+    );
     // The last plateau (pdc's end) ends before the panel's right edge, where
     // the thin line of the last step still follows.
     let last_far_x = curve.iter().map(|p| p.0).fold(0.0, f64::max);

@@ -106,10 +106,7 @@ fn json_summary_agrees_with_the_samples() {
                 .count();
             assert_eq!(st["classes"][class], n, "{id} {class}");
         }
-        let n = samples
-            .iter()
-            .filter(|s| &s["control_point"] == id)
-            .count();
+        let n = samples.iter().filter(|s| &s["control_point"] == id).count();
         assert_eq!(st["control_point"], n, "{id} control point");
         let n = samples.iter().filter(|s| &s["largest_drop"] == id).count();
         assert_eq!(st["largest_drop"], n, "{id} largest");

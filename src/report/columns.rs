@@ -199,9 +199,16 @@ pub fn cell(
                 .map_or("-".into(), |c| fig3(clean(c)))
         }),
         Column::ControlCoefficientRange => route(&|k| {
-            a.control_estimate.range(k).map_or(String::new(), |(lo, hi)| {
-                format!("{}{}{}", fig3(clean(lo)), if o.ascii { " to " } else { "–" }, fig3(clean(hi)))
-            })
+            a.control_estimate
+                .range(k)
+                .map_or(String::new(), |(lo, hi)| {
+                    format!(
+                        "{}{}{}",
+                        fig3(clean(lo)),
+                        if o.ascii { " to " } else { "–" },
+                        fig3(clean(hi))
+                    )
+                })
         }),
     }
 }
@@ -220,12 +227,7 @@ fn share_cell(a: &Analysis, s: &StepResult, k: usize, ascii: bool) -> String {
 }
 
 /// Header and rows (route steps, then side steps) for these columns.
-pub fn grid(
-    prep: &Prepared,
-    a: &Analysis,
-    cols: &[Column],
-    o: CellOptions,
-) -> Vec<Vec<String>> {
+pub fn grid(prep: &Prepared, a: &Analysis, cols: &[Column], o: CellOptions) -> Vec<Vec<String>> {
     let mut rows = vec![cols.iter().map(|c| c.header()).collect::<Vec<_>>()];
     let steps = a.steps.iter().enumerate().map(|(k, s)| (s, Some(k)));
     let side = a.side.iter().map(|s| (s, None));

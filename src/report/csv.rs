@@ -37,7 +37,13 @@ pub fn header(u: EnergyUnit) -> Vec<String> {
 }
 
 /// One row; `position` is the place on the route (None for side steps).
-fn row(prep: &Prepared, a: &Analysis, s: &StepResult, position: Option<usize>, u: EnergyUnit) -> Vec<String> {
+fn row(
+    prep: &Prepared,
+    a: &Analysis,
+    s: &StepResult,
+    position: Option<usize>,
+    u: EnergyUnit,
+) -> Vec<String> {
     let est = &a.control_estimate;
     let coef = position.and_then(|k| est.coefficient(k));
     let range = position.and_then(|k| est.range(k));

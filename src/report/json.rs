@@ -194,7 +194,13 @@ pub struct ReportJson {
     pub notes: Vec<String>,
 }
 
-fn step_json(prep: &Prepared, a: &Analysis, s: &StepResult, u: EnergyUnit, position: Option<usize>) -> StepJson {
+fn step_json(
+    prep: &Prepared,
+    a: &Analysis,
+    s: &StepResult,
+    u: EnergyUnit,
+    position: Option<usize>,
+) -> StepJson {
     let p = &prep.pathway;
     let st = &p.steps[s.step];
     let est = &a.control_estimate;
@@ -243,8 +249,17 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
             ionic_strength_m: num(c.ionic_strength),
             rt: num(u.of(a.rt)),
         },
-        steps: a.steps.iter().enumerate().map(|(k, s)| step_json(prep, a, s, u, Some(k))).collect(),
-        side_steps: a.side.iter().map(|s| step_json(prep, a, s, u, None)).collect(),
+        steps: a
+            .steps
+            .iter()
+            .enumerate()
+            .map(|(k, s)| step_json(prep, a, s, u, Some(k)))
+            .collect(),
+        side_steps: a
+            .side
+            .iter()
+            .map(|s| step_json(prep, a, s, u, None))
+            .collect(),
         groups: a
             .groups
             .iter()
@@ -259,7 +274,12 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
             dg: num(u.of(a.total_dg)),
             dg_sd: a.total_sd.and_then(|v| num(u.of(v))),
         },
-        net: Ordered(a.net.iter().map(|&(ci, v)| (p.compounds[ci].id.clone(), num(v))).collect()),
+        net: Ordered(
+            a.net
+                .iter()
+                .map(|&(ci, v)| (p.compounds[ci].id.clone(), num(v)))
+                .collect(),
+        ),
         largest_drop: a.largest_drop.map(id),
         control: a
             .control
@@ -273,7 +293,10 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
         needs_bypass: reverse.then(|| {
             a.needs_bypass
                 .iter()
-                .map(|n| NeedsBypassJson { step: id(n.position), lacks: num(u.of(n.lacks)) })
+                .map(|n| NeedsBypassJson {
+                    step: id(n.position),
+                    lacks: num(u.of(n.lacks)),
+                })
                 .collect()
         }),
         bypasses: reverse.then(|| {
@@ -294,6 +317,11 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
 }
 
 /// The JSON document as a `serde_json::Value` (for callers that read fields).
-pub fn json_value(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> serde_json::Value {
+pub fn json_value(
+    prep: &Prepared,
+    state: &State,
+    a: &Analysis,
+    u: EnergyUnit,
+) -> serde_json::Value {
     serde_json::to_value(report_json(prep, state, a, u)).unwrap_or(serde_json::Value::Null)
 }

@@ -73,7 +73,9 @@ pub fn markdown_with(
             let est = a
                 .control_estimate
                 .coefficient(v.position)
-                .map_or(String::new(), |c| format!(" (flux control estimate {})", fig3(clean(c))));
+                .map_or(String::new(), |c| {
+                    format!(" (flux control estimate {})", fig3(clean(c)))
+                });
             out.push_str(&format!(
                 "- **{}** {}{est}: {}\n",
                 p.steps[a.steps[v.position].step].id,

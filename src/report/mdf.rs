@@ -3,13 +3,13 @@
 //! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
 //! beyond unit conversion.
 
+use super::json::{ConditionsJson, Ordered, num};
 use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
 use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, headline};
 use crate::scenario::State;
-use super::json::{ConditionsJson, Ordered, num};
 use serde::Serialize;
 
 /// What the reader should keep in mind beside the bottlenecks (science.md §9 [C]).
@@ -95,10 +95,18 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> MdfJs
     let c = &state.conditions;
     let step_id = |k: usize| p.steps[m.steps[k]].id.clone();
     let per_step = |f: &dyn Fn(usize) -> f64| {
-        Ordered((0..m.steps.len()).map(|k| (step_id(k), num(f(k)))).collect())
+        Ordered(
+            (0..m.steps.len())
+                .map(|k| (step_id(k), num(f(k))))
+                .collect(),
+        )
     };
     let per_compound = |f: &dyn Fn(usize) -> [Option<f64>; 2]| {
-        Ordered(shown(m).map(|ci| (p.compounds[ci].id.clone(), f(ci))).collect())
+        Ordered(
+            shown(m)
+                .map(|ci| (p.compounds[ci].id.clone(), f(ci)))
+                .collect(),
+        )
     };
     MdfJson {
         pathway: p.name.clone(),
@@ -114,7 +122,9 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> MdfJs
         },
         bottlenecks: m.bottlenecks.iter().map(|&k| step_id(k)).collect(),
         concentrations_m: Ordered(
-            shown(m).map(|ci| (p.compounds[ci].id.clone(), conc(m.conc[ci]))).collect(),
+            shown(m)
+                .map(|ci| (p.compounds[ci].id.clone(), conc(m.conc[ci])))
+                .collect(),
         ),
         driving_forces: per_step(&|k| u.of(m.driving_forces[k])),
         prices: per_step(&|k| m.prices[k]),
@@ -218,7 +228,14 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     }
     out.push_str(&aligned_lines(
         &rows,
-        &[Align::Left, Align::Left, Align::Right, Align::Right, Align::Right, Align::Left],
+        &[
+            Align::Left,
+            Align::Left,
+            Align::Right,
+            Align::Right,
+            Align::Right,
+            Align::Left,
+        ],
     ));
     let ids: Vec<&str> = m
         .bottlenecks
@@ -342,9 +359,18 @@ pub fn samples_json(
 }
 
 /// `mdf --samples --format csv`: one row per sample (MDF, bottlenecks joined by spaces).
-pub fn samples_csv(prep: &Prepared, route: &Route, rows: &[(String, Mdf)], u: EnergyUnit) -> String {
+pub fn samples_csv(
+    prep: &Prepared,
+    route: &Route,
+    rows: &[(String, Mdf)],
+    u: EnergyUnit,
+) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record(["sample".to_string(), format!("mdf [{}]", u.label()), "bottlenecks".into()]);
+    let _ = w.write_record([
+        "sample".to_string(),
+        format!("mdf [{}]", u.label()),
+        "bottlenecks".into(),
+    ]);
     for (name, m) in rows {
         let _ = w.write_record([
             name.clone(),

@@ -3,8 +3,8 @@
 
 use super::markdown::{md_row, md_rule};
 use super::mdf::{BOTTLENECK_CAUTION, gain_per_decade};
-use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::Prepared;
+use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::present::{Align, EnergyUnit, clean, energy3, fig3, full};
 use crate::scenario::State;
 
@@ -68,7 +68,14 @@ pub fn mdf_markdown(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> S
         "price".into(),
         "bottleneck".into(),
     ]));
-    out.push_str(&md_rule(&[Align::Left, Align::Left, Align::Right, Align::Right, Align::Right, Align::Left]));
+    out.push_str(&md_rule(&[
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Right,
+        Align::Right,
+        Align::Left,
+    ]));
     for k in 0..m.steps.len() {
         let st = &p.steps[m.steps[k]];
         out.push_str(&md_row(&[
@@ -77,7 +84,11 @@ pub fn mdf_markdown(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> S
             energy3(u.of(m.dg0[k])),
             energy3(u.of(m.driving_forces[k])),
             fig3(clean(m.prices[k])),
-            if m.bottlenecks.contains(&k) { "yes".into() } else { String::new() },
+            if m.bottlenecks.contains(&k) {
+                "yes".into()
+            } else {
+                String::new()
+            },
         ]));
     }
     out.push('\n');
@@ -107,13 +118,22 @@ fn compound_table(prep: &Prepared, m: &Mdf) -> String {
         "at optimum".into(),
         "range while the MDF holds".into(),
     ]));
-    out.push_str(&md_rule(&[Align::Left, Align::Left, Align::Right, Align::Left]));
+    out.push_str(&md_rule(&[
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Left,
+    ]));
     for ci in (0..m.parts.len()).filter(|&c| m.parts[c] != Part::Absent) {
         let held = m.parts[ci] == Part::Held;
         let range = |lo: f64, hi: f64| format!("{} to {}", conc_text(lo), conc_text(hi));
         out.push_str(&md_row(&[
             prep.pathway.compounds[ci].id.clone(),
-            if held { "held".into() } else { range(m.bounds[ci].0, m.bounds[ci].1) },
+            if held {
+                "held".into()
+            } else {
+                range(m.bounds[ci].0, m.bounds[ci].1)
+            },
             conc_text(m.conc[ci]),
             match (&m.ranges, held) {
                 (_, true) => "held".into(),

@@ -3,12 +3,12 @@
 //! summary across samples as a table, Markdown or JSON. Nothing here computes
 //! results; the numbers come from `analysis::batch`.
 
+use super::json::{ConditionsJson, Ordered, num};
 use super::table::TextOptions;
 use crate::analysis::batch::{StepSpread, Summary, prime_of};
 use crate::analysis::{Analysis, Class, Prepared};
 use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, full};
 use crate::scenario::State;
-use super::json::{ConditionsJson, Ordered, num};
 use serde::Serialize;
 use serde_json::Value;
 
@@ -252,14 +252,20 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> SummaryJso
                 samples: d
                     .samples
                     .iter()
-                    .map(|(n, c)| SampleClassJson { sample: n.clone(), class: c.as_str() })
+                    .map(|(n, c)| SampleClassJson {
+                        sample: n.clone(),
+                        class: c.as_str(),
+                    })
                     .collect(),
             })
             .collect(),
         control_point_differs: sum
             .prime_differs
             .iter()
-            .map(|(n, p)| PointDiffersJson { sample: n.clone(), control_point: id(*p) })
+            .map(|(n, p)| PointDiffersJson {
+                sample: n.clone(),
+                control_point: id(*p),
+            })
             .collect(),
     }
 }

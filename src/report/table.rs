@@ -53,7 +53,10 @@ pub fn table_with(
     cols: &[Column],
 ) -> String {
     let mut out = headline(&prep.pathway.name, a.direction, &state.conditions);
-    out.push_str(&format!("energies in {} per turn of the step\n\n", o.unit.label()));
+    out.push_str(&format!(
+        "energies in {} per turn of the step\n\n",
+        o.unit.label()
+    ));
     let cut = cols != columns::ALL.as_slice();
     let co = CellOptions {
         unit: o.unit,
@@ -93,7 +96,11 @@ pub fn table_with(
         }
     }
     out.push('\n');
-    for l in [legend(cols), control_legend(a), control::CAUTION.to_string()] {
+    for l in [
+        legend(cols),
+        control_legend(a),
+        control::CAUTION.to_string(),
+    ] {
         for l in l.lines() {
             out.push_str(&wrap(l, WRAP, ""));
             out.push('\n');
@@ -192,10 +199,14 @@ fn control_text(prep: &Prepared, a: &Analysis, ascii: bool, u: EnergyUnit) -> St
 pub fn legend(cols: &[Column]) -> String {
     let mut parts = Vec::new();
     if cols.contains(&Column::ReverseShare) {
-        parts.push("reverse share: share of the forward flux undone by the reverse flux, e^(dG'/RT)");
+        parts.push(
+            "reverse share: share of the forward flux undone by the reverse flux, e^(dG'/RT)",
+        );
     }
     if cols.contains(&Column::EnzymeFactor) {
-        parts.push("enzyme factor: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT))");
+        parts.push(
+            "enzyme factor: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT))",
+        );
     }
     if cols.contains(&Column::Times) {
         parts.push("per pass: turns of the step per pass of the route");

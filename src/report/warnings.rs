@@ -42,7 +42,11 @@ pub fn file_warnings(prep: &Prepared) -> Vec<String> {
             listed(&left_out)
         ));
     }
-    let used = |c: usize| p.steps.iter().any(|s| s.stoich.iter().any(|&(ci, _)| ci == c));
+    let used = |c: usize| {
+        p.steps
+            .iter()
+            .any(|s| s.stoich.iter().any(|&(ci, _)| ci == c))
+    };
     for (c, comp) in p.compounds.iter().enumerate() {
         if !used(c) && !comp.is_solvent() {
             out.push(format!(

@@ -49,7 +49,10 @@ pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
     }
     let state = state_from(prep, common)?;
     let m = analysis::mdf::solve_with_ranges(prep, &state).map_err(|e| anyhow!("{e}"))?;
-    for w in report::warnings::file_warnings(prep).iter().chain(&m.warnings) {
+    for w in report::warnings::file_warnings(prep)
+        .iter()
+        .chain(&m.warnings)
+    {
         eprintln!("warning: {w}");
     }
     let u = common.unit();

@@ -24,7 +24,8 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View)
     let u = common.unit();
     let text = match format {
         Format::Json => {
-            let mut s = serde_json::to_string_pretty(&report::json::report_json(prep, &state, &a, u))?;
+            let mut s =
+                serde_json::to_string_pretty(&report::json::report_json(prep, &state, &a, u))?;
             s.push('\n');
             s
         }
