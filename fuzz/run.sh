@@ -15,7 +15,7 @@ secs="${1:-20}"
 shift || true
 targets=("$@")
 if [ ${#targets[@]} -eq 0 ]; then
-    targets=(load pathway samples sbml reaction units keys)
+    targets=(load pathway samples sbml tables reaction units keys)
 fi
 case "$secs" in
     '' | *[!0-9]*) echo "usage: fuzz/run.sh [SECONDS] [TARGET...]" >&2; exit 2 ;;

@@ -119,8 +119,10 @@ fn profile_panel<DB: DrawingBackend>(
     caption: &str,
 ) -> Result<(), PlotError> {
     let n = pr.ids.len();
+    let every = label_stride(n, area.dim_in_pixel().0);
+    let caption = thinned(caption, every);
     let mut chart = ChartBuilder::on(area)
-        .caption(caption, font(18))
+        .caption(&caption, font(18))
         .margin(12)
         .margin_right(20)
         .x_label_area_size(56)
@@ -213,7 +215,7 @@ fn profile_panel<DB: DrawingBackend>(
     }
     // Step labels under the axis: id, then class (or the value of dG'°).
     let root_y = chart.backend_coord(&(0.0, y.0)).1;
-    for k in 0..n {
+    for k in (0..n).step_by(every) {
         let (x, _) = chart.backend_coord(&(k as f64 + 0.5, y.0));
         let turns = if (pr.times[k] - 1.0).abs() > 1e-9 {
             format!(" ×{}", crate::model::units::sig3(pr.times[k]))
@@ -270,6 +272,7 @@ fn spread_panel<DB: DrawingBackend>(
     u: EnergyUnit,
 ) -> Result<(), PlotError> {
     let n = sum.steps.len();
+    let every = label_stride(n, area.dim_in_pixel().0);
     let y = y_range(
         sum.steps
             .iter()
@@ -346,7 +349,7 @@ fn spread_panel<DB: DrawingBackend>(
             .map_err(draw_err)?;
     }
     let root_y = chart.backend_coord(&(0.0, y.0)).1 - area.get_base_pixel().1;
-    for (k, s) in sum.steps.iter().enumerate() {
+    for (k, s) in sum.steps.iter().enumerate().step_by(every) {
         let x = chart.backend_coord(&(k as f64 + 0.5, y.0)).0 - area.get_base_pixel().0;
         area.draw(&Text::new(
             pr.ids[k].clone(),
@@ -364,6 +367,25 @@ fn spread_panel<DB: DrawingBackend>(
     Ok(())
 }
 
+/// Most steps drawn at full width with every label; longer routes share the
+/// same width.
+const MAX_LABELLED: usize = 40;
+
+/// Label every `k`-th step so that labels keep about 62 px each.
+fn label_stride(n: usize, width: u32) -> usize {
+    let per = f64::from(width.saturating_sub(110).max(1)) / n.max(1) as f64;
+    ((62.0 / per).ceil() as usize).max(1)
+}
+
+/// The caption, saying which steps carry labels when not all do.
+fn thinned(caption: &str, every: usize) -> String {
+    if every > 1 {
+        format!("{caption} (every {every}th step labelled)")
+    } else {
+        caption.to_string()
+    }
+}
+
 /// The energy-profile picture as SVG text.
 pub fn svg(
     prep: &Prepared,
@@ -376,7 +398,10 @@ pub fn svg(
     if n == 0 {
         return Err(PlotError::Empty);
     }
-    let panel_w = (110 + 62 * n as u32).max(560);
+    // 62 px a step up to a cap: a long route is drawn narrower, its labels
+    // thinned to every k-th step (the caption says so), so a 5,000-step
+    // route stays a picture of a few MB rather than a quarter-million pixels.
+    let panel_w = (110 + 62 * n.min(MAX_LABELLED) as u32).max(560);
     let top_h = 560u32;
     let spread_h = if spread.is_some() { 420u32 } else { 0 };
     let (w, h) = (2 * panel_w, 50 + top_h + spread_h);

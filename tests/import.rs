@@ -732,3 +732,52 @@ fn a_bypass_over_several_steps_stands_in_for_the_last_and_names_the_others() {
     );
     assert!(out.branches.is_empty());
 }
+
+/// A file written by the import is an ordinary pathway file: saving an edit
+/// into it (as the explorer's `s` does) keeps every comment the import
+/// wrote, and reading it back gives every other value unchanged.
+#[test]
+fn an_imported_file_keeps_its_comments_and_values_through_a_save() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("route.toml");
+    let o = Options {
+        temperature: Some("30 C".into()),
+        ..with_tables(ROUTE)
+    };
+    let out = import::import(&model("sbml/chain_l3v1.xml"), "chain_l3v1.xml", &o).unwrap();
+    import::write_new(&path, &out.text, false).unwrap();
+    let before = model::load_str(&out.text, "route.toml").unwrap();
+    let mut state = dgpath::scenario::State::from_pathway(&before);
+    let g6p = before
+        .compounds
+        .iter()
+        .position(|c| c.id == "g6p_c")
+        .unwrap();
+    state.conc[g6p] = 0.25e-3;
+    let saved = dgpath::scenario::save::save(&path, &out.text, &before, &state).unwrap();
+    let comments: Vec<&str> = out
+        .text
+        .lines()
+        .filter(|l| l.contains('#'))
+        .map(|l| &l[l.find('#').unwrap()..])
+        .collect();
+    assert!(comments.len() > 5, "the import writes comments");
+    for c in &comments {
+        assert!(saved.contains(c), "comment lost in the save: {c}");
+    }
+    let after = model::load_str(&std::fs::read_to_string(&path).unwrap(), "route.toml").unwrap();
+    assert_eq!(after.compounds[g6p].conc, Some(0.25e-3));
+    for (a, b) in before.compounds.iter().zip(&after.compounds) {
+        assert_eq!(a.id, b.id);
+        if a.id != "g6p_c" {
+            assert_eq!(a.conc, b.conc, "{}", a.id);
+        }
+        assert_eq!((a.charge, a.hydrogens), (b.charge, b.hydrogens), "{}", a.id);
+    }
+    for (a, b) in before.steps.iter().zip(&after.steps) {
+        assert_eq!(
+            (&a.id, &a.stoich, a.protons, a.bypass_of),
+            (&b.id, &b.stoich, b.protons, b.bypass_of)
+        );
+    }
+}

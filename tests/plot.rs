@@ -213,3 +213,28 @@ fn far_steps_are_thick_and_dark_neutral_and_stay_inside() {
     let right = thin.iter().flatten().map(|p| p.0).fold(0.0, f64::max);
     assert!(last_far_x < right, "{last_far_x} < {right}");
 }
+
+#[test]
+fn a_long_route_makes_a_picture_of_capped_size_with_thinned_labels() {
+    // 5,000 steps drew a 248,220 px wide picture before; the width is now
+    // that of 40 steps and every k-th step is labelled.
+    let prep = dgpath::analysis::prepare(
+        dgpath::model::load_str(&dgpath::synthetic::route(5000), "long.toml").unwrap(),
+    )
+    .unwrap();
+    let state = dgpath::scenario::State::from_pathway(&prep.pathway);
+    let a = dgpath::analysis::analyze(&prep, &state).unwrap();
+    let svg = dgpath::plot::svg(&prep, &a, None, dgpath::report::EnergyUnit::KJ).unwrap();
+    let width: u32 = svg
+        .split("width=\"")
+        .nth(1)
+        .and_then(|r| r.split('"').next())
+        .and_then(|w| w.parse().ok())
+        .expect("an svg width");
+    assert_eq!(width, 2 * (110 + 62 * 40), "two panels of 40 steps' width");
+    assert!(
+        svg.contains("(every 125th step labelled)"),
+        "the caption says so"
+    );
+    assert!(svg.contains("\ns125\n") && !svg.contains("\ns124\n"));
+}
