@@ -218,7 +218,7 @@ fn profile_panel<DB: DrawingBackend>(
     for k in (0..n).step_by(every) {
         let (x, _) = chart.backend_coord(&(k as f64 + 0.5, y.0));
         let turns = if (pr.times[k] - 1.0).abs() > 1e-9 {
-            format!(" ×{}", crate::model::units::sig3(pr.times[k]))
+            format!(" ×{}", crate::present::amount(pr.times[k]))
         } else {
             String::new()
         };

@@ -3,7 +3,7 @@
 //! the reaction as it runs. Front ends use this module, never each other.
 
 use crate::analysis::control::{Reason, Verdict};
-use crate::analysis::{Class, Prepared, StepResult, VerdictKind};
+use crate::analysis::{Analysis, Class, EnergyNote, Prepared, StepResult, VerdictKind};
 use crate::model::Conditions;
 use crate::scenario::Direction;
 
@@ -302,6 +302,59 @@ pub fn reason_text(r: &Reason, u: EnergyUnit) -> String {
             e(*group_dg)
         ),
     }
+}
+
+/// A signed energy in J/mol as words, one decimal ("+3.1 kJ/mol").
+fn signed_energy(j: f64, u: EnergyUnit) -> String {
+    format!("{:+.1} {}", clean(u.of(j)), u.label())
+}
+
+/// A note that carries energies, in words in the unit asked for.
+pub fn energy_note_text(n: &EnergyNote, u: EnergyUnit) -> String {
+    match n {
+        EnergyNote::Uphill {
+            step,
+            dg,
+            group_dg: Some(g),
+        } => format!(
+            "{step} is uphill (dG' = {}) but its coupled group runs downhill ({}).",
+            signed_energy(*dg, u),
+            signed_energy(*g, u)
+        ),
+        EnergyNote::Uphill { step, dg, .. } => format!(
+            "{step} is uphill (dG' = {}): it cannot carry forward flux alone; unless it is coupled to a step that pays for it, the concentrations or dG'° may be inconsistent.",
+            signed_energy(*dg, u)
+        ),
+        EnergyNote::Unsure {
+            step,
+            class,
+            interval: (lo, hi),
+            others,
+        } => {
+            let words: Vec<&str> = others.iter().map(|c| c.as_str()).collect();
+            let then = if *class == Class::Far {
+                ", and then it would get no verdict"
+            } else if others.contains(&Class::Far) {
+                ", and then it would get a verdict"
+            } else {
+                ""
+            };
+            format!(
+                "{step} is {}, but not surely: within the 95 % interval of dG' ({:+.1} to {:+.1} {}) it could be {}{then}.",
+                class.as_str(),
+                clean(u.of(*lo)),
+                clean(u.of(*hi)),
+                u.label(),
+                words.join(" or ")
+            )
+        }
+    }
+}
+
+/// Every note of an analysis in words: the plain ones, then those with energies.
+pub fn notes(a: &Analysis, u: EnergyUnit) -> Vec<String> {
+    let worded = a.energy_notes.iter().map(|n| energy_note_text(n, u));
+    a.notes.iter().cloned().chain(worded).collect()
 }
 
 /// All reasons of a verdict in words.

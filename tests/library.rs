@@ -250,12 +250,12 @@ fn coupled_groups_sum_per_turn_dg() {
         8.0 + RT25 * 2f64.ln() / 1e3 - 12.0,
         1e-9,
     );
+    let notes = dgpath::present::notes(&a, dgpath::present::EnergyUnit::KJ);
     assert!(
-        a.notes
+        notes
             .iter()
             .any(|n| n.contains("s2 is uphill") && n.contains("coupled group runs downhill")),
-        "{:?}",
-        a.notes
+        "{notes:?}"
     );
     // The verdict on far s3 mentions the group.
     let v = a.control.iter().find(|v| v.position == 2).unwrap();

@@ -422,3 +422,20 @@ fn verdict_reasons_follow_the_energy_unit() {
         }
     }
 }
+
+#[test]
+fn a_kcal_report_says_no_kj_anywhere() {
+    // The demo has uphill steps, unsure classes and verdicts: every kind of
+    // note and reason that carries an energy.
+    let d = demo();
+    for format in ["table", "md", "json", "csv"] {
+        let text = ok(&["report", &d, "--energy-unit", "kcal", "--format", format]);
+        assert!(!text.contains("kJ"), "{format}: {text}");
+        assert!(text.contains("kcal/mol"), "{format}");
+    }
+    let table = ok(&["report", &d, "--energy-unit", "kcal"]);
+    // gapdh's 95 % interval: -0.9 to +7.0 kJ/mol is -0.2 to +1.7 kcal/mol.
+    assert!(table.contains("(-0.2 to +1.7 kcal/mol)"), "{table}");
+    let mdf = ok(&["mdf", &d, "--energy-unit", "kcal"]);
+    assert!(!mdf.contains("kJ"), "{mdf}");
+}

@@ -188,8 +188,11 @@ pub struct Analysis {
     pub needs_bypass: Vec<NeedsBypass>,
     /// Reverse route: the bypass standing in for the forward prime step.
     pub counterpart: Option<usize>,
-    /// Notes and warnings for the reader, one line each.
+    /// Notes and warnings for the reader, one line each (none carries an energy).
     pub notes: Vec<String>,
+    /// Notes that carry energies (J/mol), worded by `present::energy_note_text`
+    /// in the unit asked for; shown after `notes`.
+    pub energy_notes: Vec<EnergyNote>,
     /// Flux control estimated from the thermodynamics (science.md §7).
     pub control_estimate: mca::Estimate,
 }
@@ -450,20 +453,47 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         needs_bypass: Vec::new(),
         counterpart: None,
         notes: Vec::new(),
+        energy_notes: Vec::new(),
         control_estimate: mca::Estimate::default(),
     };
     a.control = control::verdicts(p, &a);
     for (i, v) in a.control.iter().enumerate() {
         a.steps[v.position].verdict = Some(i);
     }
-    a.notes = notes(p, &a, state);
+    (a.notes, a.energy_notes) = notes(p, &a, state);
     a.control_estimate = mca::estimate(p, &a, &state.conc);
     a.notes.extend(a.control_estimate.notes.iter().cloned());
     a
 }
 
-fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
+/// A note that carries energies (J/mol).
+#[derive(Debug, Clone, PartialEq)]
+pub enum EnergyNote {
+    /// An uphill route step.
+    Uphill {
+        /// Step id.
+        step: String,
+        /// Its dG', J/mol.
+        dg: f64,
+        /// The dG' of its coupled group when that runs downhill, J/mol.
+        group_dg: Option<f64>,
+    },
+    /// A class that is not sure within the 95 % interval of dG'.
+    Unsure {
+        /// Step id.
+        step: String,
+        /// Its class.
+        class: Class,
+        /// The 95 % interval of dG', J/mol.
+        interval: (f64, f64),
+        /// The other classes within it.
+        others: Vec<Class>,
+    },
+}
+
+fn notes(p: &Pathway, a: &Analysis, state: &State) -> (Vec<String>, Vec<EnergyNote>) {
     let mut out = Vec::new();
+    let mut energy = Vec::new();
     let c = &state.conditions;
     let r = &p.reference;
     let all: Vec<&StepResult> = a.steps.iter().chain(a.side.iter()).collect();
@@ -523,17 +553,11 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
                 .groups
                 .iter()
                 .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
-            match grp {
-                Some(g) if g.dg < 0.0 => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol) but its coupled group runs downhill ({:+.1} kJ/mol).",
-                    s.dg / 1e3,
-                    g.dg / 1e3
-                )),
-                _ => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol): it cannot carry forward flux alone; unless it is coupled to a step that pays for it, the concentrations or dG'° may be inconsistent.",
-                    s.dg / 1e3
-                )),
-            }
+            energy.push(EnergyNote::Uphill {
+                step: id.clone(),
+                dg: s.dg,
+                group_dg: grp.map(|g| g.dg).filter(|&d| d < 0.0),
+            });
         }
     }
     let left_out: Vec<&str> = (0..p.steps.len())
@@ -557,29 +581,20 @@ fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
         }
         let Some(sd) = s.dg_sd else { continue };
         let (lo, hi) = (s.dg - Z95 * sd, s.dg + Z95 * sd);
-        let mut other: Vec<&str> = Vec::new();
+        let mut others: Vec<Class> = Vec::new();
         for c in [s.class_range.0, s.class_range.1] {
-            if c != s.class && !other.contains(&c.as_str()) {
-                other.push(c.as_str());
+            if c != s.class && !others.contains(&c) {
+                others.push(c);
             }
         }
-        out.push(format!(
-            "{} is {}, but not surely: within the 95 % interval of dG' ({:+.1} to {:+.1} kJ/mol) it could be {}{}.",
-            p.steps[s.step].id,
-            s.class.as_str(),
-            lo / 1e3,
-            hi / 1e3,
-            other.join(" or "),
-            if s.class == Class::Far {
-                ", and then it would get no verdict"
-            } else if other.contains(&"far") {
-                ", and then it would get a verdict"
-            } else {
-                ""
-            }
-        ));
+        energy.push(EnergyNote::Unsure {
+            step: p.steps[s.step].id.clone(),
+            class: s.class,
+            interval: (lo, hi),
+            others,
+        });
     }
-    out
+    (out, energy)
 }
 
 fn list(ids: &[&str]) -> String {

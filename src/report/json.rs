@@ -312,7 +312,7 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
                 })
                 .collect()
         }),
-        notes: a.notes.clone(),
+        notes: crate::present::notes(a, u),
     }
 }
 

@@ -84,7 +84,7 @@ pub fn markdown_with(
             ));
         }
     }
-    for n in &a.notes {
+    for n in crate::present::notes(a, u) {
         out.push_str(&format!("\n> note: {n}\n"));
     }
     out.push_str(&format!(

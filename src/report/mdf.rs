@@ -173,8 +173,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     let p = &prep.pathway;
     let u = o.unit;
     let ul = u.label();
-    let c = &state.conditions;
-    let mut out = headline(&p.name, m.direction, c);
+    let mut out = headline(&p.name, m.direction, &state.conditions);
     let v = energy3(u.of(m.value));
     let way = match m.direction {
         Direction::Forward => "forward",
@@ -189,6 +188,27 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             "max-min driving force: {v} {ul} — no concentrations within the bounds let the whole route run {way};\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
         ));
     }
+    let al = [
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Right,
+        Align::Right,
+        Align::Left,
+    ];
+    out.push_str(&aligned_lines(&step_rows(prep, m, o), &al));
+    out.push_str(&limits_text(prep, m, o));
+    out.push('\n');
+    let al = [Align::Left, Align::Left, Align::Right, Align::Left];
+    out.push_str(&aligned_lines(&compound_rows(prep, m, o.ascii), &al));
+    out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
+    out
+}
+
+/// Header and one row per route step: energies, price, bottleneck mark.
+fn step_rows(prep: &Prepared, m: &Mdf, o: TextOptions) -> Vec<Vec<String>> {
+    let u = o.unit;
+    let ul = u.label();
     let mark = if o.ascii { "<" } else { "◀" };
     let mut rows = vec![vec![
         "step".to_string(),
@@ -198,13 +218,13 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
         "price".to_string(),
         String::new(),
     ]];
+    let route = prep.route(m.direction).ok();
     for k in 0..m.steps.len() {
-        let st = &p.steps[m.steps[k]];
-        let reversed = prep
-            .route(m.direction)
-            .ok()
+        let st = &prep.pathway.steps[m.steps[k]];
+        let reversed = route
             .and_then(|r| r.steps.get(k))
             .is_some_and(|r| r.sign < 0.0);
+        let priced = m.prices[k] > 0.0;
         rows.push(vec![
             if reversed {
                 format!("{} (rev)", st.id)
@@ -214,61 +234,62 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             st.enzyme.clone().unwrap_or_default(),
             energy3(u.of(m.dg0[k])),
             energy3(u.of(m.driving_forces[k])),
-            if m.prices[k] > 0.0 {
+            if priced {
                 fig3(clean(m.prices[k]))
             } else {
                 "0".into()
             },
-            if m.prices[k] > 0.0 {
+            if priced {
                 format!("{mark} bottleneck")
             } else {
                 String::new()
             },
         ]);
     }
-    out.push_str(&aligned_lines(
-        &rows,
-        &[
-            Align::Left,
-            Align::Left,
-            Align::Right,
-            Align::Right,
-            Align::Right,
-            Align::Left,
-        ],
-    ));
+    rows
+}
+
+/// The bottlenecks and the limiting bounds with their gains.
+fn limits_text(prep: &Prepared, m: &Mdf, o: TextOptions) -> String {
+    let p = &prep.pathway;
+    let u = o.unit;
+    let ul = u.label();
     let ids: Vec<&str> = m
         .bottlenecks
         .iter()
         .map(|&k| p.steps[m.steps[k]].id.as_str())
         .collect();
-    out.push_str(&format!(
+    let mut out = format!(
         "\nbottlenecks: {} (shadow prices sum to 1: each one's share of the limitation)\n",
         if ids.is_empty() {
             "none".to_string()
         } else {
             ids.join(", ")
         }
-    ));
+    );
     if m.limiting.is_empty() {
         out.push_str("limiting bounds: none\n");
-    } else {
-        out.push_str("limiting bounds (MDF gain per 10-fold wider bound):\n");
-        for &(ci, b, price) in &m.limiting {
-            let (at, dir) = match b {
-                Bound::Lower => (m.bounds[ci].0, "lower"),
-                Bound::Upper => (m.bounds[ci].1, "upper"),
-            };
-            out.push_str(&format!(
-                "  {} at its {dir} bound {}: +{} {ul} (price {})\n",
-                p.compounds[ci].id,
-                conc_text(at, o.ascii),
-                energy3(u.of(gain_per_decade(m, price))),
-                fig3(clean(price))
-            ));
-        }
+        return out;
     }
-    out.push('\n');
+    out.push_str("limiting bounds (MDF gain per 10-fold wider bound):\n");
+    for &(ci, b, price) in &m.limiting {
+        let (at, dir) = match b {
+            Bound::Lower => (m.bounds[ci].0, "lower"),
+            Bound::Upper => (m.bounds[ci].1, "upper"),
+        };
+        out.push_str(&format!(
+            "  {} at its {dir} bound {}: +{} {ul} (price {})\n",
+            p.compounds[ci].id,
+            conc_text(at, o.ascii),
+            energy3(u.of(gain_per_decade(m, price))),
+            fig3(clean(price))
+        ));
+    }
+    out
+}
+
+/// Header and one row per compound: bounds, optimum, range.
+fn compound_rows(prep: &Prepared, m: &Mdf, ascii: bool) -> Vec<Vec<String>> {
     let mut rows = vec![vec![
         "compound".to_string(),
         "bounds".to_string(),
@@ -282,26 +303,21 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     for ci in shown(m) {
         let held = m.parts[ci] == Part::Held;
         rows.push(vec![
-            p.compounds[ci].id.clone(),
+            prep.pathway.compounds[ci].id.clone(),
             if held {
                 "held".to_string()
             } else {
-                range_text(m.bounds[ci].0, m.bounds[ci].1, o.ascii)
+                range_text(m.bounds[ci].0, m.bounds[ci].1, ascii)
             },
-            conc_text(m.conc[ci], o.ascii),
+            conc_text(m.conc[ci], ascii),
             match (&m.ranges, held) {
                 (Some(_), true) => "held".to_string(),
-                (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, ascii),
                 (None, _) => String::new(),
             },
         ]);
     }
-    out.push_str(&aligned_lines(
-        &rows,
-        &[Align::Left, Align::Left, Align::Right, Align::Left],
-    ));
-    out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
-    out
+    rows
 }
 
 /// The ids of an optimum's bottleneck steps, in route order.

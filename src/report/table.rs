@@ -88,9 +88,10 @@ pub fn table_with(
         out.push('\n');
     }
     out.push_str(&control_text(prep, a, o.ascii, o.unit));
-    if !a.notes.is_empty() {
+    let notes = crate::present::notes(a, o.unit);
+    if !notes.is_empty() {
         out.push('\n');
-        for n in &a.notes {
+        for n in &notes {
             out.push_str(&wrap(&format!("note: {n}"), WRAP, "      "));
             out.push('\n');
         }
