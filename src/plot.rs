@@ -1,7 +1,8 @@
 //! The energy-profile picture for a slide or a paper: the cumulative dG'
 //! along the route at the scenario's concentrations beside the standard
 //! dG'° profile, steps labelled with their ids and classes, far steps drawn
-//! heavy, the largest drop marked and coupled groups bracketed; with samples,
+//! heavy, steps that run backward (dG' > 0) marked, the largest drop marked
+//! and coupled groups bracketed; with samples,
 //! a panel with each step's dG' spread across samples. SVG comes from
 //! `plotters`; PNG is that SVG rendered by `resvg` with a bundled DejaVu Sans
 //! (no system font libraries). This module only reads results and draws.
@@ -45,6 +46,8 @@ const MARK: RGBColor = RGBColor(230, 140, 0);
 /// Room left and right of the steps, in steps.
 const X_PAD: f64 = 0.3;
 const INK: RGBColor = RGBColor(20, 20, 20);
+/// Steps that run backward at these concentrations (dG' > 0).
+const AGAINST: RGBColor = RGBColor(128, 40, 150);
 
 fn font(size: u32) -> TextStyle<'static> {
     (FONT_FAMILY, size).into_font().color(&INK)
@@ -58,6 +61,8 @@ fn centred(size: u32, v: VPos) -> TextStyle<'static> {
 struct Profile {
     ids: Vec<String>,
     classes: Vec<Class>,
+    /// The step runs backward at these concentrations.
+    against: Vec<bool>,
     /// Turns per pass of each step.
     times: Vec<f64>,
     /// dG'° per turn of each step.
@@ -82,6 +87,7 @@ fn profile(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> Profile {
     Profile {
         ids: a.steps.iter().map(|s| p.steps[s.step].id.clone()).collect(),
         classes: a.steps.iter().map(|s| s.class).collect(),
+        against: a.steps.iter().map(|s| s.against).collect(),
         times: a.steps.iter().map(|s| s.times).collect(),
         dg0: a.steps.iter().map(|s| u.of(s.dg0)).collect(),
         actual,
@@ -125,7 +131,7 @@ fn profile_panel<DB: DrawingBackend>(
         .caption(&caption, font(18))
         .margin(12)
         .margin_right(20)
-        .x_label_area_size(56)
+        .x_label_area_size(72)
         .y_label_area_size(64)
         // A margin on both sides keeps the first and last plateaus inside.
         .build_cartesian_2d(-X_PAD..n as f64 + X_PAD, y.0..y.1)
@@ -156,6 +162,8 @@ fn profile_panel<DB: DrawingBackend>(
         let far = actual && pr.classes[k] == Class::Far;
         let colour = if !actual {
             STANDARD
+        } else if pr.against[k] {
+            AGAINST
         } else if far {
             FAR
         } else {
@@ -245,6 +253,17 @@ fn profile_panel<DB: DrawingBackend>(
             centred(11, VPos::Top),
         ))
         .map_err(draw_err)?;
+        if actual && pr.against[k] {
+            area.draw(&Text::new(
+                "⇄ backward",
+                (
+                    x - area.get_base_pixel().0,
+                    root_y - area.get_base_pixel().1 + 41,
+                ),
+                centred(11, VPos::Top).color(&AGAINST),
+            ))
+            .map_err(draw_err)?;
+        }
     }
     if actual {
         chart
@@ -260,6 +279,23 @@ fn profile_panel<DB: DrawingBackend>(
                 font(12).pos(Pos::new(HPos::Left, VPos::Center)),
             )])
             .map_err(draw_err)?;
+        if pr.against.iter().any(|&b| b) {
+            chart
+                .draw_series(LineSeries::new(
+                    [(0.0, y.1 - 0.09 * span), (0.4, y.1 - 0.09 * span)],
+                    AGAINST.stroke_width(2),
+                ))
+                .map_err(draw_err)?;
+            chart
+                .draw_series([Text::new(
+                    "⇄ runs backward (dG' > 0): the route cannot carry forward flux here",
+                    (0.5, y.1 - 0.09 * span),
+                    font(12)
+                        .color(&AGAINST)
+                        .pos(Pos::new(HPos::Left, VPos::Center)),
+                )])
+                .map_err(draw_err)?;
+        }
     }
     Ok(())
 }
@@ -289,7 +325,7 @@ fn spread_panel<DB: DrawingBackend>(
         )
         .margin(12)
         .margin_right(20)
-        .x_label_area_size(56)
+        .x_label_area_size(72)
         .y_label_area_size(64)
         .build_cartesian_2d(0f64..n as f64, y.0..y.1)
         .map_err(draw_err)?;
@@ -363,6 +399,14 @@ fn spread_panel<DB: DrawingBackend>(
             centred(11, VPos::Top),
         ))
         .map_err(draw_err)?;
+        if s.against > 0 {
+            area.draw(&Text::new(
+                format!("⇄ {}/{}", s.against, sum.samples),
+                (x, root_y + 41),
+                centred(11, VPos::Top).color(&AGAINST),
+            ))
+            .map_err(draw_err)?;
+        }
     }
     Ok(())
 }

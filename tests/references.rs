@@ -171,12 +171,12 @@ fn ionic_strength_correction_through_a_file() {
     let prep = prepare_str(text, "ionic.toml");
     let a = analyze(&prep);
     close(a.steps[0].dg0 / 1e3, -5.0 - 3.239, 5e-4);
-    // Outside 0.05–0.25 M the correction is flagged (science.md §4).
-    let low = analyze_with(&prep, |s| s.conditions.ionic_strength = 0.01);
+    // Above 0.3 M the correction is flagged (science.md §4).
+    let high = analyze_with(&prep, |s| s.conditions.ionic_strength = 0.35);
     assert!(
-        low.notes.iter().any(|n| n.contains("outside 0.05–0.25 M")),
+        high.notes.iter().any(|n| n.contains("above 0.3 M")),
         "{:?}",
-        low.notes
+        high.notes
     );
 }
 
@@ -227,19 +227,24 @@ fn flux_force_table() {
         let a = analyze(&prep);
         let s = &a.steps[0];
         close(s.dg / 1e3, dg, 1e-9);
-        close(s.reverse_share(a.rt), share, 5e-4);
+        close(s.reverse_share(a.rt).unwrap(), share, 5e-4);
         close(s.enzyme_factor(a.rt).unwrap(), factor, ftol);
         // J+/J− = exp(−dG'/RT) [S, Beard & Qian 2007]; −5.708 kJ/mol is 10× (Noor et al. 2014 [S]).
-        close(s.flux_ratio(a.rt) * s.reverse_share(a.rt), 1.0, 1e-12);
+        close(
+            s.flux_ratio(a.rt) * s.reverse_share(a.rt).unwrap(),
+            1.0,
+            1e-12,
+        );
     }
     close(
         analyze(&one_step(-5.708010)).steps[0].flux_ratio(thermo::rt(T25)),
         10.0,
         1e-5,
     );
-    // An uphill step has no enzyme factor: it cannot carry forward flux.
+    // An uphill step has no enzyme factor and no share undone: it cannot carry forward flux.
     let up = analyze(&one_step(3.0));
     assert_eq!(up.steps[0].enzyme_factor(up.rt), None);
+    assert_eq!(up.steps[0].reverse_share(up.rt), None);
 }
 
 // ---- Handbook glycolysis (science.md §8) ----

@@ -213,6 +213,7 @@ fn csv_has_one_row_per_sample_and_step() {
             "dg0",
             "dg",
             "class",
+            "against",
             "verdict",
             "cumulative",
             "control_coefficient"
@@ -225,9 +226,13 @@ fn csv_has_one_row_per_sample_and_step() {
     assert_eq!(&rows[143][0], "h33");
     assert_eq!(&rows[143][1], "adh");
     // Cumulative is the running sum of times × dg; pgk (turns 2 per pass) checks the weighting.
-    let c = |i: usize| rows[i][6].parse::<f64>().unwrap();
+    let c = |i: usize| rows[i][7].parse::<f64>().unwrap();
     let dg = |i: usize| rows[i][3].parse::<f64>().unwrap();
     assert!((c(6) - c(5) - 2.0 * dg(6)).abs() < 1e-6);
+    // As ethanol accumulates adh runs backward in the last two samples (dG' > 0).
+    let against = |i: usize| &rows[i][5] == "true";
+    assert!(against(143) && against(131) && !against(119));
+    assert!((0..144).all(|i| against(i) == (dg(i) > 0.0)));
 }
 
 #[test]

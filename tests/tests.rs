@@ -7,6 +7,7 @@ mod cli;
 mod control_estimate;
 mod explorer;
 mod explorer_tmux;
+mod forward;
 mod import;
 mod library;
 mod limits;
@@ -15,6 +16,7 @@ mod outputs;
 #[cfg(feature = "plot")]
 mod plot;
 mod properties;
+mod reactants;
 mod references;
 mod regressions;
 mod samples;

@@ -89,6 +89,10 @@ pub struct StepSpread {
     pub control_median: Option<f64>,
     /// Samples with a flux control estimate (every route step runs forward).
     pub control_samples: usize,
+    /// Samples in which this step runs backward (dG' > 0).
+    pub against: usize,
+    /// Their names, in table order.
+    pub against_samples: Vec<String>,
 }
 
 /// The picture across all samples.
@@ -104,6 +108,8 @@ pub struct Summary {
     pub prime_differs: Vec<(String, Option<usize>)>,
     /// Steps whose class is not the same in every sample, in route order.
     pub class_differs: Vec<ClassDiffers>,
+    /// Samples in which no route step runs backward.
+    pub runs_forward: usize,
 }
 
 /// A step whose class varies across samples.
@@ -140,6 +146,8 @@ pub struct Accumulator {
     classes: Vec<ClassCounts>,
     largest: Vec<usize>,
     prime: Vec<usize>,
+    against: Vec<Vec<String>>,
+    runs_forward: usize,
     primes: Vec<(String, Option<usize>)>,
     class_of: Vec<Vec<Class>>,
     control: Vec<Vec<f64>>,
@@ -155,6 +163,8 @@ impl Accumulator {
             classes: vec![ClassCounts::default(); steps],
             largest: vec![0; steps],
             prime: vec![0; steps],
+            against: vec![Vec::new(); steps],
+            runs_forward: 0,
             primes: Vec::new(),
             class_of: vec![Vec::new(); steps],
             control: vec![Vec::new(); steps],
@@ -172,7 +182,11 @@ impl Accumulator {
             if let Some(c) = a.control_estimate.coefficient(k) {
                 self.control[k].push(c);
             }
+            if s.against {
+                self.against[k].push(name.to_string());
+            }
         }
+        self.runs_forward += usize::from(a.runs_forward);
         if let Some(k) = a.largest_drop {
             self.largest[k] += 1;
         }
@@ -204,6 +218,8 @@ impl Accumulator {
                 prime: self.prime[k],
                 control_median: (!cc.is_empty()).then(|| quantile(cc, 0.5)),
                 control_samples: cc.len(),
+                against: self.against[k].len(),
+                against_samples: std::mem::take(&mut self.against[k]),
             });
         }
         // The most common prime step; "none" counts as a value; ties go to a step, the earlier one.
@@ -249,6 +265,7 @@ impl Accumulator {
             usual_prime: usual,
             prime_differs,
             class_differs,
+            runs_forward: self.runs_forward,
         }
     }
 }
@@ -450,6 +467,13 @@ dg0 = "-8 kJ/mol"
         );
         assert_eq!((cd[1].position, cd[1].usual), (1, Class::Far));
         assert_eq!(cd[1].samples.len(), 3);
+        // -8 + 2L = +3.4 kJ/mol > 0: s1 runs backward in t5, s2 in t3; the other three run forward.
+        assert_eq!((s1.against, s.steps[1].against), (1, 1));
+        assert_eq!(
+            (&s1.against_samples[..], &s.steps[1].against_samples[..]),
+            (&["t5".to_string()][..], &["t3".to_string()][..])
+        );
+        assert_eq!(s.runs_forward, 3);
     }
 
     #[test]

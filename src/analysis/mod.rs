@@ -7,9 +7,11 @@ pub mod batch;
 pub mod control;
 pub mod mca;
 pub mod mdf;
+mod notes;
 mod route;
 
 pub use control::{Verdict, VerdictKind};
+pub use notes::MAX_IONIC_STRENGTH;
 pub use route::{Direction, Prepared, Role, Route, RouteStep, build, prepare};
 
 use crate::model::{Pathway, Problem};
@@ -104,6 +106,12 @@ pub struct StepResult {
     pub contributions: Vec<Contribution>,
     /// The standard energy was kept at the reference temperature (no dh0).
     pub kept_reference_dg0: bool,
+    /// pH and ionic strength were applied through the reactant model (every
+    /// reactant has charge and hydrogens); otherwise `protons` only.
+    pub species: bool,
+    /// A route step that, as run, has dG' > 0: it runs backward at these
+    /// concentrations (always false for side steps).
+    pub against: bool,
     /// Index into `Analysis::control` when this step has a verdict.
     pub verdict: Option<usize>,
 }
@@ -121,9 +129,10 @@ impl StepResult {
     pub fn flux_ratio(&self, rt: f64) -> f64 {
         (-self.dg / rt).exp()
     }
-    /// Share of forward flux undone by the reverse flux, e^{dG'/RT}.
-    pub fn reverse_share(&self, rt: f64) -> f64 {
-        (self.dg / rt).exp()
+    /// Share of forward flux undone by the reverse flux, e^{dG'/RT}; None
+    /// unless dG' < 0 (with dG' ≥ 0 there is no net forward flux to undo).
+    pub fn reverse_share(&self, rt: f64) -> Option<f64> {
+        (self.dg < 0.0).then(|| (self.dg / rt).exp())
     }
     /// Enzyme needed relative to an irreversible step, 1/(1 − e^{dG'/RT}); None unless dG' < 0.
     pub fn enzyme_factor(&self, rt: f64) -> Option<f64> {
@@ -174,6 +183,10 @@ pub struct Analysis {
     pub total_dg: f64,
     /// sd of the total, when known.
     pub total_sd: Option<f64>,
+    /// Route steps that give no dg0_sd (the total's sd leaves their dG'° out).
+    pub steps_without_dg0_sd: usize,
+    /// No route step runs backward (no step is `against`).
+    pub runs_forward: bool,
     /// Net change per pass of inputs, outputs and currencies: (compound, amount).
     pub net: Vec<(usize, f64)>,
     /// Position in `steps` of the largest weighted drop.
@@ -188,7 +201,7 @@ pub struct Analysis {
     pub needs_bypass: Vec<NeedsBypass>,
     /// Reverse route: the bypass standing in for the forward prime step.
     pub counterpart: Option<usize>,
-    /// Notes and warnings for the reader, one line each (none carries an energy).
+    /// Notes and warnings for the reader, one line each.
     pub notes: Vec<String>,
     /// Notes that carry energies (J/mol), worded by `present::energy_note_text`
     /// in the unit asked for; shown after `notes`.
@@ -328,6 +341,8 @@ fn step_result(
         share: 0.0,
         contributions,
         kept_reference_dg0: corr.kept_reference_dg0,
+        species: corr.species,
+        against: false,
         verdict: None,
     }
 }
@@ -372,6 +387,10 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         .iter()
         .map(|r| step_result(p, r.step, r.sign, r.times, r.replaces, state))
         .collect();
+    for s in &mut steps {
+        // science.md §10: a step carrying net forward flux must have dG' < 0.
+        s.against = s.dg > 0.0;
+    }
     let side: Vec<StepResult> = route
         .side
         .iter()
@@ -442,6 +461,12 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         total_dg0: steps.iter().map(|s| s.times * s.dg0).sum(),
         total_dg: steps.iter().map(|s| s.weighted()).sum(),
         total_sd,
+        steps_without_dg0_sd: route
+            .steps
+            .iter()
+            .filter(|r| p.steps[r.step].dg0_sd.is_none())
+            .count(),
+        runs_forward: steps.iter().all(|s| !s.against),
         steps,
         side,
         groups,
@@ -460,7 +485,7 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
     for (i, v) in a.control.iter().enumerate() {
         a.steps[v.position].verdict = Some(i);
     }
-    (a.notes, a.energy_notes) = notes(p, &a, state);
+    (a.notes, a.energy_notes) = notes::notes(p, &a, state);
     a.control_estimate = mca::estimate(p, &a, &state.conc);
     a.notes.extend(a.control_estimate.notes.iter().cloned());
     a
@@ -489,118 +514,4 @@ pub enum EnergyNote {
         /// The other classes within it.
         others: Vec<Class>,
     },
-}
-
-fn notes(p: &Pathway, a: &Analysis, state: &State) -> (Vec<String>, Vec<EnergyNote>) {
-    let mut out = Vec::new();
-    let mut energy = Vec::new();
-    let c = &state.conditions;
-    let r = &p.reference;
-    let all: Vec<&StepResult> = a.steps.iter().chain(a.side.iter()).collect();
-    if (c.temperature - r.temperature).abs() > 1e-9 {
-        let kept: Vec<&str> = all
-            .iter()
-            .filter(|s| s.kept_reference_dg0)
-            .map(|s| p.steps[s.step].id.as_str())
-            .collect();
-        if kept.is_empty() {
-            out.push(format!(
-                "dG'° moved from {:.2} °C to {:.2} °C with Gibbs–Helmholtz (dh0 of every step).",
-                r.temperature - 273.15,
-                c.temperature - 273.15
-            ));
-        } else {
-            out.push(format!(
-                "dG'° kept at its {:.2} °C value for {} (no dh0; assumes dS'° = 0); RT at {:.2} °C is used in RT ln Q.",
-                r.temperature - 273.15,
-                list(&kept),
-                c.temperature - 273.15
-            ));
-        }
-    }
-    if (c.ionic_strength - r.ionic_strength).abs() > 1e-12 {
-        let mut lacking: Vec<&str> = Vec::new();
-        for s in &all {
-            for &(ci, _) in &p.steps[s.step].stoich {
-                let comp = &p.compounds[ci];
-                if !comp.is_solvent()
-                    && (comp.charge.is_none() || comp.hydrogens.is_none())
-                    && !lacking.contains(&comp.id.as_str())
-                {
-                    lacking.push(&comp.id);
-                }
-            }
-        }
-        if !lacking.is_empty() {
-            out.push(format!(
-                "ionic strength {} M differs from the reference {} M, but {} lack charge and hydrogens, so their part is not corrected.",
-                c.ionic_strength,
-                r.ionic_strength,
-                list(&lacking)
-            ));
-        }
-        if !(0.05..=0.25).contains(&c.ionic_strength) {
-            out.push(format!(
-                "ionic strength {} M is outside 0.05–0.25 M, where the extended Debye–Hückel correction is reliable.",
-                c.ionic_strength
-            ));
-        }
-    }
-    for s in &a.steps {
-        if s.class == Class::Uphill {
-            let id = &p.steps[s.step].id;
-            let grp = a
-                .groups
-                .iter()
-                .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
-            energy.push(EnergyNote::Uphill {
-                step: id.clone(),
-                dg: s.dg,
-                group_dg: grp.map(|g| g.dg).filter(|&d| d < 0.0),
-            });
-        }
-    }
-    let left_out: Vec<&str> = (0..p.steps.len())
-        .filter(|&i| !p.route.contains(&i) && !p.steps[i].side && p.steps[i].bypass_of.is_none())
-        .map(|i| p.steps[i].id.as_str())
-        .collect();
-    if !left_out.is_empty() {
-        let (is, it) = if left_out.len() == 1 {
-            ("is", "it")
-        } else {
-            ("are", "them")
-        };
-        out.push(format!(
-            "{} {is} not in pathway.route and not marked side = true, so not analysed; add {it} to the route or mark {it} side = true.",
-            list(&left_out)
-        ));
-    }
-    for s in a.steps.iter().chain(a.side.iter()) {
-        if s.class_sure {
-            continue;
-        }
-        let Some(sd) = s.dg_sd else { continue };
-        let (lo, hi) = (s.dg - Z95 * sd, s.dg + Z95 * sd);
-        let mut others: Vec<Class> = Vec::new();
-        for c in [s.class_range.0, s.class_range.1] {
-            if c != s.class && !others.contains(&c) {
-                others.push(c);
-            }
-        }
-        energy.push(EnergyNote::Unsure {
-            step: p.steps[s.step].id.clone(),
-            class: s.class,
-            interval: (lo, hi),
-            others,
-        });
-    }
-    (out, energy)
-}
-
-fn list(ids: &[&str]) -> String {
-    if ids.len() > 6 {
-        format!("{} and {} more", ids[..6].join(", "), ids.len() - 6)
-    } else {
-        ids.join(", ")
-    }
 }

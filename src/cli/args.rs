@@ -46,6 +46,9 @@ pub enum Command {
         common: Common,
         #[arg(long, value_enum, default_value_t = Format::Table)]
         format: Format,
+        /// Let the optimum choose carrier (currency) concentrations too, instead of holding them.
+        #[arg(long)]
+        free_currencies: bool,
     },
     /// Energy profile picture (svg or png).
     Plot {

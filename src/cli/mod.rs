@@ -50,9 +50,10 @@ pub fn run(cli: Cli) -> Result<()> {
             file,
             common,
             format,
+            free_currencies,
         }) => {
             let prep = load(&file)?;
-            cmd::mdf::run_mdf(&prep, &common, format)
+            cmd::mdf::run_mdf(&prep, &common, format, free_currencies)
         }
         Some(Command::Plot {
             file,

@@ -8,6 +8,15 @@ use super::*;
 use std::collections::HashMap;
 use toml_edit::{Document, Item, TableLike, Value};
 
+/// Most pKa values one compound may list.
+const MAX_PKA: usize = 16;
+
+/// A count as written in a message: 1, -2, 0.5.
+fn fmt_count(x: f64) -> String {
+    let r = (x * 1e9).round() / 1e9;
+    if r == 0.0 { "0".into() } else { format!("{r}") }
+}
+
 /// Files larger than this are refused before parsing (bytes).
 pub const MAX_FILE_BYTES: u64 = 50 * 1024 * 1024;
 
@@ -186,6 +195,7 @@ const COMPOUND: &[&str] = &[
     "cv",
     "charge",
     "hydrogens",
+    "pka",
 ];
 const STEP: &[&str] = &[
     "id",
@@ -200,6 +210,7 @@ const STEP: &[&str] = &[
     "side",
     "couple",
     "bypass_of",
+    "standard",
 ];
 
 struct RawStep {
@@ -211,7 +222,8 @@ struct RawStep {
     standard: Option<Standard>,
     dg0_sd: Option<f64>,
     dh0: Option<f64>,
-    protons: f64,
+    protons: Option<f64>,
+    standard_state: f64,
     times: Option<f64>,
     side: bool,
     couple: Option<(String, Span)>,
@@ -621,6 +633,87 @@ impl<'s> Cx<'s> {
         )
     }
 
+    /// `pka = [7.60, 4.68]`: finite numbers, highest first; only with charge and hydrogens.
+    fn pka(&mut self, t: &dyn TableLike, what: &str, has_species: bool) -> Vec<f64> {
+        let Some(item) = t.get("pka") else {
+            return Vec::new();
+        };
+        let span = Self::value_span(t, "pka");
+        let values: Option<Vec<f64>> = item.as_array().and_then(|a| {
+            a.iter()
+                .map(|v| v.as_float().or_else(|| v.as_integer().map(|i| i as f64)))
+                .collect()
+        });
+        let Some(values) = values.filter(|v| v.iter().all(|x| x.is_finite())) else {
+            self.err(
+                span,
+                format!(
+                    "{what}: pka must be a list of numbers, highest first, e.g. pka = [7.60, 4.68]"
+                ),
+            );
+            return Vec::new();
+        };
+        if values.len() > MAX_PKA {
+            self.err(
+                span,
+                format!("{what}: pka lists {} values, more than the {MAX_PKA} that are read; keep those within a few units of the pH", values.len()),
+            );
+            return Vec::new();
+        }
+        if values.windows(2).any(|w| w[1] > w[0]) {
+            self.err(
+                span,
+                format!("{what}: pka must be listed highest first (the first proton bound to the most deprotonated species), e.g. pka = [7.60, 4.68]"),
+            );
+            return Vec::new();
+        }
+        if !values.is_empty() && !has_species {
+            self.err(
+                span,
+                format!("{what}: pka needs the charge and hydrogens of the most deprotonated species; add e.g. charge = -4, hydrogens = 12"),
+            );
+            return Vec::new();
+        }
+        values
+    }
+
+    /// `standard = "1 mM"`: the standard state of dg0/keq, mol/L (1 when absent).
+    fn standard_state(&mut self, t: &dyn TableLike, what: &str) -> f64 {
+        match self.quantity(t, "standard", Kind::Concentration, what) {
+            Some(c) if c > 0.0 => c,
+            Some(_) => {
+                self.err(
+                    Self::value_span(t, "standard"),
+                    format!("{what}: standard must be a positive concentration; write standard = \"1 mM\" (or leave it out for 1 M)"),
+                );
+                1.0
+            }
+            None => 1.0,
+        }
+    }
+
+    /// A stated `protons` must match the base species' hydrogens when every
+    /// reactant has charge and hydrogens (science.md §4).
+    fn check_protons(&mut self, raw: &[RawStep], steps: &[Step], compounds: &[Compound]) {
+        for (r, s) in raw.iter().zip(steps) {
+            let (Some(stated), Some(counted)) = (r.protons, s.base_protons(compounds)) else {
+                continue;
+            };
+            if (stated - counted).abs() > 1e-9 {
+                self.err(
+                    r.span.clone(),
+                    format!(
+                        "step '{}' states protons = {} but its reactants' charge and hydrogens give {} (−Σ ν nH of the most deprotonated species, water nH 2); correct protons to {} or leave it out",
+                        s.id,
+                        fmt_count(stated),
+                        fmt_count(counted),
+                        fmt_count(counted)
+                    ),
+                );
+            }
+        }
+    }
+
     fn table_span(root: &toml_edit::Table, k: &str) -> Span {
         root.get(k)
             .and_then(|i| i.as_table().and_then(|t| t.span()).or(i.span()))
@@ -677,6 +770,9 @@ impl<'s> Cx<'s> {
             ),
             _ => {}
         }
+        let charge = self.number(t, "charge", &what);
+        let hydrogens = self.number(t, "hydrogens", &what);
+        let pka = self.pka(t, &what, charge.is_some() && hydrogens.is_some());
         let cv = self.number(t, "cv", &what);
         if let Some(v) = cv
             && v < 0.0
@@ -693,10 +789,14 @@ impl<'s> Cx<'s> {
             role,
             branch: self.boolean(t, "branch", &what),
             bounds: self.bounds(t, "bounds", &what),
-            fixed: self.boolean(t, "fixed", &what),
+            fixed: t
+                .get("fixed")
+                .is_some()
+                .then(|| self.boolean(t, "fixed", &what)),
             cv,
-            charge: self.number(t, "charge", &what),
-            hydrogens: self.number(t, "hydrogens", &what),
+            charge,
+            hydrogens,
+            pka,
             line,
         })
     }
@@ -801,7 +901,8 @@ impl<'s> Cx<'s> {
             standard,
             dg0_sd,
             dh0: self.quantity(t, "dh0", Kind::Energy, &what),
-            protons: self.number(t, "protons", &what).unwrap_or(0.0),
+            protons: self.number(t, "protons", &what),
+            standard_state: self.standard_state(t, &what),
             times,
             side: self.boolean(t, "side", &what),
             couple: link(self, "couple"),
@@ -934,7 +1035,8 @@ impl<'s> Cx<'s> {
                 standard: s.standard.unwrap_or(Standard::Dg0(0.0)),
                 dg0_sd: s.dg0_sd,
                 dh0: s.dh0,
-                protons: s.protons,
+                protons: s.protons.unwrap_or(0.0),
+                standard_state: s.standard_state,
                 times: s.times,
                 side: s.side,
                 couple,
@@ -942,6 +1044,7 @@ impl<'s> Cx<'s> {
                 line: s.line,
             });
         }
+        self.check_protons(&raw, &steps, &compounds);
         for (i, s) in raw.iter().enumerate() {
             if let Some(b) = steps[i].bypass_of
                 && (steps[b].bypass_of.is_some() || steps[b].side)

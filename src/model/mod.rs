@@ -83,14 +83,17 @@ pub struct Compound {
     pub branch: bool,
     /// Optimisation bounds in mol/L, when given for this compound.
     pub bounds: Option<(f64, f64)>,
-    /// Held at `conc` by the optimisation.
-    pub fixed: bool,
+    /// `fixed` as stated: Some(true) holds it at `conc` in the optimisation,
+    /// Some(false) frees it (also a currency compound); None: the default.
+    pub fixed: Option<bool>,
     /// Coefficient of variation of the measured concentration.
     pub cv: Option<f64>,
-    /// Charge of the predominant species.
+    /// Charge of the most deprotonated species considered.
     pub charge: Option<f64>,
-    /// Hydrogen atoms of the predominant species.
+    /// Hydrogen atoms of the most deprotonated species considered.
     pub hydrogens: Option<f64>,
+    /// Acid dissociation constants at 25 °C and I = 0, highest first (empty: one species).
+    pub pka: Vec<f64>,
     /// Line of the declaration.
     pub line: usize,
 }
@@ -103,6 +106,16 @@ impl Compound {
     /// True for currency compounds.
     pub fn is_currency(&self) -> bool {
         self.role == Some(StatedRole::Currency)
+    }
+    /// Charge and hydrogens of the base species for the pH and ionic-strength
+    /// transform: as stated, or water's (z 0, nH 2) for a solvent that states
+    /// neither; None when the compound lacks them.
+    pub fn base_species(&self) -> Option<(f64, f64)> {
+        match (self.charge, self.hydrogens) {
+            (Some(z), Some(h)) => Some((z, h)),
+            (None, None) if self.is_solvent() => Some((0.0, 2.0)),
+            _ => None,
+        }
     }
 }
 
@@ -134,6 +147,8 @@ pub struct Step {
     pub dh0: Option<f64>,
     /// Net H+ released as written.
     pub protons: f64,
+    /// Standard state (mol/L) at which dg0/keq is stated: 1 (1 M) unless `standard` says otherwise.
+    pub standard_state: f64,
     /// Turns per pass, when stated.
     pub times: Option<f64>,
     /// A branch step, not on the main route.
@@ -144,6 +159,19 @@ pub struct Step {
     pub bypass_of: Option<usize>,
     /// Line of the `[[steps]]` header.
     pub line: usize,
+}
+
+impl Step {
+    /// H+ released as written counted from the base species (−Σ ν nH, water
+    /// included); None when some reactant lacks charge and hydrogens.
+    pub fn base_protons(&self, compounds: &[Compound]) -> Option<f64> {
+        let mut sum = 0.0;
+        for &(c, nu) in &self.stoich {
+            let (_, h) = compounds[c].base_species()?;
+            sum -= nu * h;
+        }
+        Some(sum)
+    }
 }
 
 /// Temperature, pH and ionic strength (K, pH units, mol/L).

@@ -141,10 +141,13 @@ fn cut(s: &str, max: Option<usize>, ascii: bool) -> String {
     }
 }
 
-/// The step id with its marks: (rev), (side), (for X).
-fn step_label(prep: &Prepared, s: &StepResult, side: bool) -> String {
+/// The step id with its marks: runs backward, (rev), (side), (for X).
+fn step_label(prep: &Prepared, s: &StepResult, side: bool, ascii: bool) -> String {
     let p = &prep.pathway;
     let mut id = p.steps[s.step].id.clone();
+    if s.against {
+        id.push_str(if ascii { " !backward" } else { " ⇄backward" });
+    }
     if side {
         id.push_str(" (side)");
     }
@@ -170,7 +173,7 @@ pub fn cell(
     let st = &prep.pathway.steps[s.step];
     let route = |f: &dyn Fn(usize) -> String| position.map_or(String::new(), f);
     match col {
-        Column::Step => step_label(prep, s, position.is_none()),
+        Column::Step => step_label(prep, s, position.is_none(), o.ascii),
         Column::Enzyme => cut(st.enzyme.as_deref().unwrap_or(""), o.enzyme_width, o.ascii),
         Column::Times => route(&|_| amount(s.times)),
         Column::Dg0 => energy3(u.of(s.dg0)),
@@ -179,8 +182,9 @@ pub fn cell(
         Column::Q => fig3(s.q()),
         Column::Keq => fig3(s.keq()),
         Column::FluxRatio => fig3(s.flux_ratio(a.rt)),
-        Column::ReverseShare if s.dg < 0.0 => format!("{} %", fig3(s.reverse_share(a.rt) * 100.0)),
-        Column::ReverseShare => "-".into(),
+        Column::ReverseShare => s
+            .reverse_share(a.rt)
+            .map_or("-".into(), |r| format!("{} %", fig3(r * 100.0))),
         Column::EnzymeFactor => s.enzyme_factor(a.rt).map_or("-".into(), fig3),
         Column::Class => format!(
             "{} {}{}",

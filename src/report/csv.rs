@@ -19,6 +19,7 @@ pub fn header(u: EnergyUnit) -> Vec<String> {
         "enzyme_factor",
         "class",
         "class_sure",
+        "against",
     ] {
         h.push(s.into());
     }
@@ -60,10 +61,11 @@ fn row(
         full(s.keq()),
         full(s.q()),
         full(s.flux_ratio(a.rt)),
-        full(s.reverse_share(a.rt)),
+        opt(s.reverse_share(a.rt)),
         opt(s.enzyme_factor(a.rt)),
         s.class.as_str().to_string(),
         s.class_sure.to_string(),
+        s.against.to_string(),
         on_route(u.of(s.cumulative)),
         on_route(s.share),
         s.verdict

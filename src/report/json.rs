@@ -86,10 +86,12 @@ pub struct StepJson {
     pub class: &'static str,
     /// Same class at both ends of the 95 % interval.
     pub class_sure: bool,
+    /// dG' > 0 as run: the step runs backward at these concentrations.
+    pub against: bool,
     /// Route-only fields.
     #[serde(flatten)]
     pub route: Option<RouteFields>,
-    /// e^(dG'/RT).
+    /// e^(dG'/RT); null for a step that runs backward.
     pub reverse_share: Option<f64>,
     /// 1/(1 − e^(dG'/RT)); null for steps that go up.
     pub enzyme_factor: Option<f64>,
@@ -104,6 +106,8 @@ pub struct StepJson {
     pub class_range: Option<[&'static str; 2]>,
     /// dG'° kept at the reference temperature (no dh0).
     pub dg0_kept_at_reference: bool,
+    /// pH and ionic strength went through the reactant model (species data).
+    pub reactant_model: bool,
 }
 
 /// A chain of coupled steps.
@@ -126,6 +130,8 @@ pub struct TotalJson {
     pub dg: Option<f64>,
     /// Its standard deviation.
     pub dg_sd: Option<f64>,
+    /// Route steps that give no dg0_sd (the sd leaves their dG'° out).
+    pub steps_without_dg0_sd: usize,
 }
 
 /// A control verdict.
@@ -182,6 +188,8 @@ pub struct ReportJson {
     pub net: Ordered<Option<f64>>,
     /// Step with the largest share of the drop.
     pub largest_drop: Option<String>,
+    /// No route step runs backward.
+    pub runs_forward: bool,
     /// Verdicts.
     pub control: Vec<VerdictJson>,
     /// Reverse route only: steps that need a bypass.
@@ -217,19 +225,21 @@ fn step_json(
         flux_ratio: ratio(s.flux_ratio(a.rt)),
         class: s.class.as_str(),
         class_sure: s.class_sure,
+        against: s.against,
         route: position.map(|k| RouteFields {
             cumulative: num(u.of(s.cumulative)),
             share: num(s.share),
             control_coefficient: est.coefficient(k).and_then(num),
             control_coefficient_range: est.range(k).map(|(lo, hi)| [num(lo), num(hi)]),
         }),
-        reverse_share: ratio(s.reverse_share(a.rt)),
+        reverse_share: s.reverse_share(a.rt).and_then(ratio),
         enzyme_factor: s.enzyme_factor(a.rt).and_then(ratio),
         side: position.is_none(),
         reversed: s.sign < 0.0,
         bypass_of: s.replaces.map(|r| p.steps[r].id.clone()),
         class_range: (!s.class_sure).then(|| [s.class_range.0.as_str(), s.class_range.1.as_str()]),
         dg0_kept_at_reference: s.kept_reference_dg0,
+        reactant_model: s.species,
     }
 }
 
@@ -273,6 +283,7 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
             dg0: num(u.of(a.total_dg0)),
             dg: num(u.of(a.total_dg)),
             dg_sd: a.total_sd.and_then(|v| num(u.of(v))),
+            steps_without_dg0_sd: a.steps_without_dg0_sd,
         },
         net: Ordered(
             a.net
@@ -281,6 +292,7 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
                 .collect(),
         ),
         largest_drop: a.largest_drop.map(id),
+        runs_forward: a.runs_forward,
         control: a
             .control
             .iter()

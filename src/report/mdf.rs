@@ -81,8 +81,13 @@ pub struct MdfJson {
     pub ranges_m: Option<Ordered<[Option<f64>; 2]>>,
     /// Bounds, mol/L.
     pub bounds_m: Ordered<[Option<f64>; 2]>,
-    /// Compounds held at their scenario value.
+    /// Compounds held because the file fixes them (or their bounds are equal).
     pub fixed: Vec<String>,
+    /// Every compound held at its scenario value (fixed ones and carriers).
+    pub held: Vec<String>,
+    /// Per free compound, the range within which the route can run at all
+    /// (every step at −dG' ≥ 0), mol/L; null when MDF < 0.
+    pub feasible_ranges_m: Option<Ordered<[Option<f64>; 2]>>,
     /// Bounds that limit the MDF.
     pub limiting: Vec<LimitingJson>,
     /// Warnings in words.
@@ -135,9 +140,24 @@ pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> MdfJs
             .map(|r| per_compound(&|ci| [conc(r[ci].0), conc(r[ci].1)])),
         bounds_m: per_compound(&|ci| [conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
         fixed: shown(m)
+            .filter(|&ci| {
+                let (lo, hi) = p.bounds_of(ci);
+                m.parts[ci] == Part::Held && (p.compounds[ci].fixed == Some(true) || lo == hi)
+            })
+            .map(|ci| p.compounds[ci].id.clone())
+            .collect(),
+        held: shown(m)
             .filter(|&ci| m.parts[ci] == Part::Held)
             .map(|ci| p.compounds[ci].id.clone())
             .collect(),
+        feasible_ranges_m: m.feasible_ranges.as_ref().map(|r| {
+            Ordered(
+                shown(m)
+                    .filter(|&ci| m.parts[ci] == Part::Free)
+                    .map(|ci| (p.compounds[ci].id.clone(), [conc(r[ci].0), conc(r[ci].1)]))
+                    .collect(),
+            )
+        }),
         limiting: m
             .limiting
             .iter()
@@ -167,6 +187,31 @@ pub fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
     if a == b { a } else { format!("{a} to {b}") }
 }
 
+/// Which compounds the optimisation held at their concentrations, and how to free them.
+fn held_line(p: &crate::model::Pathway, m: &Mdf) -> String {
+    let held: Vec<&str> = shown(m)
+        .filter(|&c| m.parts[c] == Part::Held)
+        .map(|c| p.compounds[c].id.as_str())
+        .collect();
+    let freed = if m.options.free_currencies {
+        " (carriers freed by --free-currencies)"
+    } else {
+        ""
+    };
+    if held.is_empty() {
+        return format!("nothing held at its concentration{freed}\n\n");
+    }
+    let hint = if m.options.free_currencies {
+        freed
+    } else {
+        " (carriers by default: fixed = false on one, or --free-currencies, frees them)"
+    };
+    format!(
+        "held at their concentrations: {}{hint}\n\n",
+        held.join(", ")
+    )
+}
+
 /// The aligned table: the MDF, each step's driving force and price, the
 /// limiting bounds and the optimal concentrations with their ranges.
 pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> String {
@@ -188,6 +233,7 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
             "max-min driving force: {v} {ul} — no concentrations within the bounds let the whole route run {way};\nwiden the bounds of the limiting compounds, change the conditions, or couple the bottleneck steps\n\n"
         ));
     }
+    out.push_str(&held_line(p, m));
     let al = [
         Align::Left,
         Align::Left,
@@ -199,7 +245,13 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     out.push_str(&aligned_lines(&step_rows(prep, m, o), &al));
     out.push_str(&limits_text(prep, m, o));
     out.push('\n');
-    let al = [Align::Left, Align::Left, Align::Right, Align::Left];
+    let al = [
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Left,
+        Align::Left,
+    ];
     out.push_str(&aligned_lines(&compound_rows(prep, m, o.ascii), &al));
     out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
     out
@@ -299,6 +351,11 @@ fn compound_rows(prep: &Prepared, m: &Mdf, ascii: bool) -> Vec<Vec<String>> {
         } else {
             String::new()
         },
+        if m.feasible_ranges.is_some() {
+            "range where the route can run".to_string()
+        } else {
+            String::new()
+        },
     ]];
     for ci in shown(m) {
         let held = m.parts[ci] == Part::Held;
@@ -311,6 +368,11 @@ fn compound_rows(prep: &Prepared, m: &Mdf, ascii: bool) -> Vec<Vec<String>> {
             },
             conc_text(m.conc[ci], ascii),
             match (&m.ranges, held) {
+                (Some(_), true) => "held".to_string(),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, ascii),
+                (None, _) => String::new(),
+            },
+            match (&m.feasible_ranges, held) {
                 (Some(_), true) => "held".to_string(),
                 (Some(r), false) => range_text(r[ci].0, r[ci].1, ascii),
                 (None, _) => String::new(),
@@ -424,6 +486,6 @@ pub fn samples_table(
             bottleneck_ids(prep, route, m).join(", ")
         ));
     }
-    s.push_str("\nOnly compounds marked fixed (and the conditions) differ between samples in this optimisation; the others are chosen within their bounds.\n");
+    s.push_str("\nOnly held compounds (carriers, unless freed, and those marked fixed) and the conditions differ between samples in this optimisation; the others are chosen within their bounds.\n");
     s
 }

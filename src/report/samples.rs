@@ -23,7 +23,7 @@ fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
 
 /// The header line of `report --samples --format csv`.
 pub fn csv_header() -> String {
-    "sample,step,dg0,dg,class,verdict,cumulative,control_coefficient\n".to_string()
+    "sample,step,dg0,dg,class,against,verdict,cumulative,control_coefficient\n".to_string()
 }
 
 /// One CSV row per route step of one sample.
@@ -38,6 +38,7 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
             &full(clean(u.of(s.dg0))),
             &full(clean(u.of(s.dg))),
             s.class.as_str(),
+            if s.against { "true" } else { "false" },
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
             &full(clean(u.of(s.cumulative))),
             &a.control_estimate
@@ -55,6 +56,7 @@ struct StepRow<'a> {
     dg0: Option<f64>,
     dg: Option<f64>,
     class: &'static str,
+    against: bool,
     verdict: Option<&'static str>,
     cumulative: Option<f64>,
     control_coefficient: Option<f64>,
@@ -72,6 +74,7 @@ struct SampleRow<'a> {
     total: Total,
     largest_drop: Option<&'a str>,
     control_point: Option<&'a str>,
+    runs_forward: bool,
 }
 
 fn opt(x: f64) -> Option<f64> {
@@ -90,6 +93,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
                 dg0: opt(u.of(s.dg0)),
                 dg: opt(u.of(s.dg)),
                 class: s.class.as_str(),
+                against: s.against,
                 verdict: s.verdict.map(|v| a.control[v].kind.as_str()),
                 cumulative: opt(u.of(s.cumulative)),
                 control_coefficient: a.control_estimate.coefficient(k).and_then(opt),
@@ -100,6 +104,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
         },
         largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
         control_point: prime_of(a).map(|k| step_id(prep, a, k)),
+        runs_forward: a.runs_forward,
     }
 }
 
@@ -165,6 +170,10 @@ pub struct SpreadJson {
     pub largest_drop: usize,
     /// Samples in which it is the control point.
     pub control_point: usize,
+    /// Samples in which it runs backward (dG' > 0).
+    pub against: usize,
+    /// The names of those samples.
+    pub against_samples: Vec<String>,
     /// Median flux control estimate.
     pub control_coefficient_median: Option<f64>,
     /// Samples behind that median.
@@ -213,6 +222,8 @@ pub struct SummaryJson {
     pub class_differs: Vec<ClassDiffersJson>,
     /// Samples with another control point.
     pub control_point_differs: Vec<PointDiffersJson>,
+    /// Samples in which the whole route runs forward.
+    pub runs_forward: usize,
 }
 
 fn spread_json(prep: &Prepared, s: &StepSpread, u: EnergyUnit) -> SpreadJson {
@@ -231,6 +242,8 @@ fn spread_json(prep: &Prepared, s: &StepSpread, u: EnergyUnit) -> SpreadJson {
         classes: Ordered(classes),
         largest_drop: s.largest,
         control_point: s.prime,
+        against: s.against,
+        against_samples: s.against_samples.clone(),
         control_coefficient_median: s.control_median.and_then(num),
         control_samples: s.control_samples,
     }
@@ -267,6 +280,7 @@ pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> SummaryJso
                 control_point: id(*p),
             })
             .collect(),
+        runs_forward: sum.runs_forward,
     }
 }
 
@@ -301,6 +315,42 @@ fn names(list: &[(String, Option<usize>)], prep: &Prepared, sum: &Summary, max: 
         parts.push(format!("and {} more", list.len() - max));
     }
     parts.join(", ")
+}
+
+/// "2/12", or "-" when the step runs forward in every sample.
+fn backward(n: usize, of: usize) -> String {
+    if n == 0 {
+        "-".into()
+    } else {
+        format!("{n}/{of}")
+    }
+}
+
+/// In how many samples the route runs forward, and which steps run backward where.
+fn against_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
+    let mut out = vec![format!(
+        "the route runs forward in {} of {} samples",
+        sum.runs_forward, sum.samples
+    )];
+    for s in sum.steps.iter().filter(|s| s.against > 0) {
+        let mut shown = s
+            .against_samples
+            .iter()
+            .take(10)
+            .cloned()
+            .collect::<Vec<_>>()
+            .join(", ");
+        if s.against_samples.len() > 10 {
+            shown.push_str(&format!(" and {} more", s.against_samples.len() - 10));
+        }
+        out.push(format!(
+            "  {} runs backward (dG' > 0) in {} of {}: {shown}",
+            spread_id(prep, s),
+            s.against,
+            sum.samples
+        ));
+    }
+    out
 }
 
 fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
@@ -389,6 +439,7 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             "uphill".into(),
             "largest drop".into(),
             "control point".into(),
+            "backward".into(),
             "median control".into(),
         ]
         .to_vec(),
@@ -405,13 +456,18 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            backward(s.against, n),
             control_cell(s),
         ]);
     }
-    let mut al = vec![Align::Right; 11];
+    let mut al = vec![Align::Right; 12];
     al[0] = Align::Left;
     out.push_str(&aligned_lines(&rows, &al));
     out.push('\n');
+    for l in against_lines(prep, sum) {
+        out.push_str(&l);
+        out.push('\n');
+    }
     for l in prime_lines(prep, sum) {
         out.push_str(&l);
         out.push('\n');
@@ -435,7 +491,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | control point | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | control point | backward | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -443,7 +499,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {} | {} | {} to {} | {} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {} | {} | {} to {} | {} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
             energy3(u.of(s.dg0)),
             energy3(u.of(s.median)),
@@ -455,10 +511,14 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
             pct(s.classes.uphill, n),
             pct(s.largest, n),
             pct(s.prime, n),
+            backward(s.against, n),
             control_cell(s),
         ));
     }
     out.push('\n');
+    for l in against_lines(prep, sum) {
+        out.push_str(&format!("- {}\n", l.trim_start()));
+    }
     for l in prime_lines(prep, sum) {
         out.push_str(&format!("- {l}\n"));
     }

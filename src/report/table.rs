@@ -3,7 +3,8 @@
 use super::columns::{self, CellOptions, Column};
 use crate::analysis::{Analysis, Class, Prepared, control};
 use crate::present::{
-    EnergyUnit, align, amount, clean, energy3, fig3, headline, to_ascii, verdict_symbol, wrap,
+    EnergyUnit, align, amount, clean, energy3, fig3, headline, sd_partial, to_ascii,
+    verdict_symbol, wrap,
 };
 use crate::scenario::State;
 
@@ -118,11 +119,11 @@ pub fn summary_lines(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> Vec<String
     let id = |k: usize| p.steps[a.steps[k].step].id.as_str();
     let mut out = Vec::new();
     let mut total = format!(
-        "total: dG'° {} {ul}, dG' {}{} {ul}",
+        "total: dG'° {} {ul}, dG' {} {ul}{}",
         energy3(u.of(a.total_dg0)),
         energy3(u.of(a.total_dg)),
         a.total_sd
-            .map(|s| format!(" ± {}", energy3(u.of(s))))
+            .map(|s| format!(" ± {}{}", energy3(u.of(s)), sd_partial(a)))
             .unwrap_or_default()
     );
     if let Some(k) = a.largest_drop {
@@ -136,7 +137,7 @@ pub fn summary_lines(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> Vec<String
     for g in &a.groups {
         let ids: Vec<&str> = g.members.iter().map(|&m| id(m)).collect();
         out.push(format!(
-            "coupled: {} together dG' {}{} {ul}",
+            "coupled: {} together dG' {} {ul}{}",
             ids.join(" + "),
             energy3(u.of(g.dg)),
             g.dg_sd

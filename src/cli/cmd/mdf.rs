@@ -13,7 +13,17 @@ use std::path::Path;
 
 /// `mdf FILE --samples TABLE`: one optimisation per sample (only held
 /// compounds and the conditions change between samples), without ranges.
-fn run_mdf_samples(prep: &Prepared, common: &Common, path: &Path, format: Format) -> Result<()> {
+fn run_mdf_samples(
+    prep: &Prepared,
+    common: &Common,
+    path: &Path,
+    format: Format,
+    free_currencies: bool,
+) -> Result<()> {
+    let opts = analysis::mdf::Options {
+        free_currencies,
+        ranges: false,
+    };
     let base = state_from(prep, common)?;
     let p = &prep.pathway;
     let u = common.unit();
@@ -25,7 +35,7 @@ fn run_mdf_samples(prep: &Prepared, common: &Common, path: &Path, format: Format
             conc: sample.conc,
             ..base.clone()
         };
-        let m = analysis::mdf::solve(prep, &state)
+        let m = analysis::mdf::solve_with(prep, &state, &opts)
             .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
         rows.push((sample.name, m));
     }
@@ -43,12 +53,21 @@ fn run_mdf_samples(prep: &Prepared, common: &Common, path: &Path, format: Format
 }
 
 /// Runs the driving-force optimisation (with concentration ranges) and prints it.
-pub fn run_mdf(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
+pub fn run_mdf(
+    prep: &Prepared,
+    common: &Common,
+    format: Format,
+    free_currencies: bool,
+) -> Result<()> {
     if let Some(path) = &common.samples {
-        return run_mdf_samples(prep, common, path, format);
+        return run_mdf_samples(prep, common, path, format, free_currencies);
     }
     let state = state_from(prep, common)?;
-    let m = analysis::mdf::solve_with_ranges(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    let opts = analysis::mdf::Options {
+        free_currencies,
+        ranges: true,
+    };
+    let m = analysis::mdf::solve_with(prep, &state, &opts).map_err(|e| anyhow!("{e}"))?;
     for w in report::warnings::file_warnings(prep)
         .iter()
         .chain(&m.warnings)

@@ -1,9 +1,10 @@
 //! The step detail pane: the selected step's numbers, verdict and notes.
 
-use super::text::{class_text, fit, kv};
-use super::theme::bottleneck_mark;
+use super::text::{class_text, fit, kv, role_text};
 use super::theme::{Theme, block};
-use crate::analysis::{Class, StepResult, mca};
+use super::theme::{against_mark, bottleneck_mark};
+use crate::analysis::mdf::{self, Mdf, Part};
+use crate::analysis::{Class, Role, StepResult, mca};
 use crate::model::units;
 use crate::present::{self, sci};
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
@@ -139,7 +140,15 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     }
     l.extend(kv(
         "reverse share",
-        format!("{:.1}%", 100.0 * s.reverse_share(rt).min(1e6)),
+        match s.reverse_share(rt) {
+            Some(r) => format!("{:.1}%", 100.0 * r),
+            None => if ascii {
+                "none (dG' >= 0)"
+            } else {
+                "none (dG' ≥ 0)"
+            }
+            .to_string(),
+        },
     ));
     out.push(Line::from(l));
     match s.enzyme_factor(rt) {
@@ -149,6 +158,15 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
                 .replace('≥', if ascii { ">=" } else { "≥" }),
             t.warn(),
         )),
+    }
+    if s.against {
+        out.push(Line::styled(
+            format!(
+                "{} runs backward at these concentrations (dG' > 0): the route cannot carry forward flux",
+                against_mark(ascii)
+            ),
+            t.warn().add_modifier(Modifier::BOLD),
+        ));
     }
     out.push(optimum_line(app, t, s));
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
@@ -231,6 +249,100 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
     out
 }
 
+/// The selected compound: its value and bounds, the steps that use it, its
+/// part in the driving-force optimisation and the range within which the
+/// whole route can run (every step at −dG' ≥ 0, the others free in their bounds).
+pub fn compound_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
+    let p = app.pathway();
+    let i = app.comp_sel;
+    let Some(c) = p.compounds.get(i) else {
+        return vec![Line::from("no compound selected")];
+    };
+    let ascii = app.opts.ascii;
+    let role = app.analysis.roles.get(i).copied().unwrap_or(Role::OffRoute);
+    let mut out = vec![Line::from(vec![
+        Span::styled(c.id.clone(), t.bold()),
+        Span::raw(format!(" {}  ", c.name)),
+        Span::styled(role_text(role, false).trim().to_string(), t.dim()),
+    ])];
+    if c.is_solvent() {
+        out.push(Line::from("solvent: activity 1, left out of Q"));
+        return out;
+    }
+    let (lo, hi) = p.bounds_of(i);
+    out.push(Line::from(format!(
+        "now {}; bounds {} to {}",
+        units::format_conc(app.state().conc[i], ascii),
+        units::format_conc(lo, ascii),
+        units::format_conc(hi, ascii)
+    )));
+    let users: Vec<&str> = (0..app.step_rows())
+        .filter_map(|k| app.step_row(k))
+        .filter(|s| p.steps[s.step].stoich.iter().any(|x| x.0 == i))
+        .map(|s| p.steps[s.step].id.as_str())
+        .collect();
+    if !users.is_empty() {
+        out.push(Line::from(format!("used by {}", users.join(", "))));
+    }
+    match &app.mdf {
+        LiveMdf::Solved(m) => out.extend(compound_optimum_lines(app, t, m, i)),
+        LiveMdf::Failed(e) => out.push(Line::styled(
+            format!("optimum: not solved — {e}"),
+            t.warn(),
+        )),
+        LiveMdf::Skipped(n) => out.push(Line::styled(
+            format!(
+                "optimum: not computed live for routes over {LIVE_MDF_MAX_STEPS} steps ({n} here); run `dgpath mdf FILE`"
+            ),
+            t.dim(),
+        )),
+    }
+    out
+}
+
+/// A compound's part in the live optimisation and where the route can run.
+fn compound_optimum_lines(app: &App, t: &Theme, m: &Mdf, i: usize) -> Vec<Line<'static>> {
+    let ascii = app.opts.ascii;
+    let conc = |x: f64| units::format_conc(x, ascii);
+    let c = &app.pathway().compounds[i];
+    match m.parts.get(i) {
+        Some(Part::Free) => {
+            let mut v = vec![Line::from(format!("at the optimum: {}", conc(m.conc[i])))];
+            let (dash, ge) = if ascii { ("-", ">=") } else { ("–", "≥") };
+            v.push(match mdf::feasible_range(&app.prep, app.state(), m, i) {
+                Ok(Some((lo, hi))) => Line::from(format!(
+                    "the route can run for {}{dash}{} (every step at -dG' {ge} 0, the others free within their bounds)",
+                    conc(lo),
+                    conc(hi)
+                )),
+                Ok(None) => Line::styled(
+                    "no concentration lets the whole route run within the bounds (MDF < 0)",
+                    t.warn(),
+                ),
+                Err(e) => Line::styled(format!("range not solved — {e}"), t.warn()),
+            });
+            v
+        }
+        Some(Part::Held) => {
+            let why = if c.fixed == Some(true) {
+                " (fixed = true)"
+            } else if c.is_currency() {
+                " (a carrier: fixed = false frees it)"
+            } else {
+                " (its bounds are equal)"
+            };
+            vec![Line::from(format!(
+                "held at {} in the optimisation{why}",
+                conc(m.conc[i])
+            ))]
+        }
+        _ => vec![Line::styled(
+            "not in the optimisation (no route step uses it)",
+            t.dim(),
+        )],
+    }
+}
+
 /// The selected step at the driving-force optimum.
 fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
     let u = app.opts.unit;
@@ -271,10 +383,21 @@ fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
 
 /// Draws the step detail pane.
 pub fn detail_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
-    let b = block(app, t, Pane::Detail, "Step detail");
+    let compound = app.focus == Pane::Compounds;
+    let title = if compound {
+        "Compound detail"
+    } else {
+        "Step detail"
+    };
+    let b = block(app, t, Pane::Detail, title);
     let inner = b.inner(area);
     b.render(area, buf);
-    Paragraph::new(detail_lines(app, t))
+    let lines = if compound {
+        compound_lines(app, t)
+    } else {
+        detail_lines(app, t)
+    };
+    Paragraph::new(lines)
         .wrap(Wrap { trim: false })
         .scroll((app.detail_scroll, 0))
         .render(inner, buf);

@@ -65,18 +65,20 @@ pub fn help_overlay(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
             ])
         })
         .collect();
-    lines.push(Line::styled(
-        " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ◀ largest drop ■ bottleneck ± 1 sd",
-        t.dim(),
-    ));
-    if app.opts.ascii {
+    let legend: [&str; 2] = if app.opts.ascii {
         lines = lines.into_iter().map(ascii_line).collect();
-        if let Some(last) = lines.last_mut() {
-            *last = Line::styled(
-                " v far \\ moderate ~ near ^ uphill ? unsure < largest drop @ bottleneck +- 1 sd",
-                t.dim(),
-            );
-        }
+        [
+            " v far \\ moderate ~ near ^ uphill ? unsure +- 1 sd",
+            " < largest drop @ bottleneck ! runs backward (dG' > 0)",
+        ]
+    } else {
+        [
+            " ▼ far ↘ moderate ≈ near ▲ uphill ? unsure ± 1 sd",
+            " ◀ largest drop ■ bottleneck ⇄ runs backward (dG' > 0)",
+        ]
+    };
+    for l in legend {
+        lines.push(Line::styled(l, t.dim()));
     }
     Paragraph::new(lines).block(b).render(r, buf);
 }

@@ -3,7 +3,7 @@
 
 use super::text::fit;
 use super::text::{class_text, pad, rpad, tenth, window};
-use super::theme::{MARKER_COLUMN, Theme, block_with, bottleneck_mark};
+use super::theme::{MARKER_COLUMN, Theme, against_mark, block_with, bottleneck_mark};
 use crate::model::units;
 use crate::present;
 use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
@@ -112,10 +112,11 @@ pub fn steps_pane(app: &App, t: &Theme, area: Rect, buf: &mut Buffer) {
         };
         let mut spans = vec![Span::styled(lead, row_style)];
         spans.push(Span::styled(pad(&st.id, idw, ascii), row_style));
-        let marker = if !side && app.is_bottleneck(k) {
-            bottleneck_mark(ascii)
-        } else {
-            ""
+        let marker = match (!side && app.is_bottleneck(k), s.against) {
+            (true, true) => format!("{}{}", bottleneck_mark(ascii), against_mark(ascii)),
+            (true, false) => bottleneck_mark(ascii).to_string(),
+            (false, true) => against_mark(ascii).to_string(),
+            (false, false) => String::new(),
         };
         spans.push(Span::styled(" ", row_style));
         spans.push(Span::styled(

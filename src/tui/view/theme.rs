@@ -20,12 +20,17 @@ pub const ASCII_BORDER: border::Set = border::Set {
     horizontal_bottom: "-",
 };
 
-/// Width of the step list's marker column (the bottleneck flag).
+/// Width of the step list's marker column (the bottleneck flag, then the backward mark).
 pub const MARKER_COLUMN: usize = 2;
 
 /// The bottleneck flag in the marker column, Unicode and ASCII.
 pub fn bottleneck_mark(ascii: bool) -> &'static str {
     if ascii { "@" } else { "■" }
+}
+
+/// The mark of a route step that runs backward (dG' > 0), Unicode and ASCII.
+pub fn against_mark(ascii: bool) -> &'static str {
+    if ascii { "!" } else { "⇄" }
 }
 
 /// Styles, with colour only when allowed.

@@ -1,6 +1,11 @@
 //! Step thermodynamics: constants, standard energies moved to the scenario's
 //! temperature, pH and ionic strength, and dG' from the mass-action ratio.
-//! Formulas and their sources are in shared/design/science.md §1–4.
+//! Formulas and their sources are in docs/science.md; the reactant model
+//! (pKa, pH and ionic strength) is in `species`.
+
+pub mod species;
+
+pub use species::{Reactant, species_ionic_term, transformed_formation};
 
 use crate::model::{Compound, Conditions, Standard, Step};
 
@@ -46,32 +51,39 @@ pub fn rt_alpha(t: f64) -> f64 {
     rt(t) * alpha(t)
 }
 
-/// The ionic-strength term of one species' formation energy (J/mol):
-/// −RTα (z² − N_H) √I / (1 + B √I).
-pub fn species_ionic_term(charge: f64, hydrogens: f64, i: f64, t: f64) -> f64 {
-    let s = i.max(0.0).sqrt();
-    -rt_alpha(t) * (charge * charge - hydrogens) * s / (1.0 + DEBYE_B * s)
-}
-
 /// What was done to move a step's standard energy to the scenario's conditions.
 #[derive(Debug, Clone, Copy, PartialEq, Default)]
 pub struct Corrections {
     /// The temperature differs and no dh0 was given: the reference value was kept.
     pub kept_reference_dg0: bool,
-    /// Compounds in the step lacked charge/hydrogens while ionic strength differs.
-    pub missing_ionic_data: bool,
+    /// Every reactant has charge and hydrogens: pH and ionic strength were
+    /// applied through the reactant model; otherwise `protons` for pH and no
+    /// ionic-strength correction.
+    pub species: bool,
 }
 
-/// The standard energy (J/mol) at the reference conditions, from dg0 or keq.
-pub fn reference_dg0(step: &Step, reference: &Conditions) -> f64 {
-    match step.standard {
+/// The standard energy (J/mol) at the reference conditions and a 1 M
+/// standard state, from dg0 or keq (converted from `standard` when it is not 1 M).
+pub fn reference_dg0(step: &Step, compounds: &[Compound], reference: &Conditions) -> f64 {
+    let g = match step.standard {
         Standard::Dg0(v) => v,
         Standard::Keq(k) => dg0_from_keq(k, reference.temperature),
+    };
+    if step.standard_state == 1.0 {
+        return g;
     }
+    // dG'° = dG'(c0) − RT ln(c0) Σν over the reactants that are not solvents.
+    let sum_nu: f64 = step
+        .stoich
+        .iter()
+        .filter(|(c, _)| !compounds[*c].is_solvent())
+        .map(|(_, nu)| nu)
+        .sum();
+    g - rt(reference.temperature) * step.standard_state.ln() * sum_nu
 }
 
 /// dG'° (J/mol) of a step as written, at `at`: temperature first, then pH
-/// (RT at the new temperature), then ionic strength.
+/// and ionic strength (science.md §4), both with RT at the new temperature.
 pub fn dg0_at(
     step: &Step,
     compounds: &[Compound],
@@ -79,28 +91,21 @@ pub fn dg0_at(
     at: &Conditions,
 ) -> (f64, Corrections) {
     let mut c = Corrections::default();
-    let mut g = reference_dg0(step, reference);
+    let mut g = reference_dg0(step, compounds, reference);
     if (at.temperature - reference.temperature).abs() > 1e-9 {
         match step.dh0 {
             Some(h) => g = gibbs_helmholtz(g, h, reference.temperature, at.temperature),
             None => c.kept_reference_dg0 = true,
         }
     }
-    g -= step.protons * rt(at.temperature) * std::f64::consts::LN_10 * (at.ph - reference.ph);
-    if (at.ionic_strength - reference.ionic_strength).abs() > 1e-12 {
-        for &(ci, nu) in &step.stoich {
-            let comp = &compounds[ci];
-            if comp.is_solvent() {
-                continue;
-            }
-            match (comp.charge, comp.hydrogens) {
-                (Some(z), Some(h)) => {
-                    g += nu
-                        * (species_ionic_term(z, h, at.ionic_strength, at.temperature)
-                            - species_ionic_term(z, h, reference.ionic_strength, at.temperature));
-                }
-                _ => c.missing_ionic_data = true,
-            }
+    match species::step_shift(step, compounds, reference, at) {
+        Some(shift) => {
+            c.species = true;
+            g += shift;
+        }
+        None => {
+            g -=
+                step.protons * rt(at.temperature) * std::f64::consts::LN_10 * (at.ph - reference.ph)
         }
     }
     (g, c)
