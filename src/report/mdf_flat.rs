@@ -117,11 +117,13 @@ fn compound_table(prep: &Prepared, m: &Mdf) -> String {
         "bounds".into(),
         "at optimum".into(),
         "range while the MDF holds".into(),
+        "range where the route can run".into(),
     ]));
     out.push_str(&md_rule(&[
         Align::Left,
         Align::Left,
         Align::Right,
+        Align::Left,
         Align::Left,
     ]));
     for ci in (0..m.parts.len()).filter(|&c| m.parts[c] != Part::Absent) {
@@ -136,6 +138,11 @@ fn compound_table(prep: &Prepared, m: &Mdf) -> String {
             },
             conc_text(m.conc[ci]),
             match (&m.ranges, held) {
+                (_, true) => "held".into(),
+                (Some(r), false) => range(r[ci].0, r[ci].1),
+                (None, false) => String::new(),
+            },
+            match (&m.feasible_ranges, held) {
                 (_, true) => "held".into(),
                 (Some(r), false) => range(r[ci].0, r[ci].1),
                 (None, false) => String::new(),
