@@ -44,25 +44,7 @@ fn app(text: &str, name: &str) -> App {
 
 /// An invented linear route of `n` steps (c0 -> c1 -> ... -> cn) with currency coupling.
 fn synthetic(n: usize) -> String {
-    let mut s = String::from(
-        "# Generated for the benchmark; invented values.\nformat = 1\n[pathway]\nname = \"long route\"\n[conditions]\ntemperature = \"30 C\"\nph = 7\n[compounds]\natp = { conc = \"3 mM\", role = \"currency\", cv = 0.1 }\nadp = { conc = \"1 mM\", role = \"currency\", cv = 0.1 }\n",
-    );
-    for i in 0..=n {
-        let conc = 10.0 + (i % 17) as f64 * 7.0;
-        s.push_str(&format!("c{i} = {{ conc = \"{conc} uM\", cv = 0.2 }}\n"));
-    }
-    for i in 0..n {
-        let dg0 = -3.0 - (i % 11) as f64 * 1.3 + if i % 5 == 0 { 6.0 } else { 0.0 };
-        let rx = if i % 7 == 0 {
-            format!("c{i} + atp -> c{} + adp", i + 1)
-        } else {
-            format!("c{i} -> c{}", i + 1)
-        };
-        s.push_str(&format!(
-            "[[steps]]\nid = \"s{i}\"\nenzyme = \"enzyme {i}\"\nreaction = \"{rx}\"\ndg0 = \"{dg0:.2} kJ/mol\"\ndg0_sd = \"1 kJ/mol\"\n"
-        ));
-    }
-    s
+    dgpath::synthetic::route(n)
 }
 
 /// A terminal writer that only counts bytes (shared, so it can be read while the backend owns it).

@@ -10,7 +10,6 @@ the bottleneck steps as JSON.
 """
 import json
 import math
-import re
 import sys
 import tomllib
 
@@ -18,29 +17,14 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.optimize import linprog
 
-R = 8.314462618e-3  # kJ/(mol K), exact in the 2019 SI
-CONC = {"M": 1.0, "mM": 1e-3, "uM": 1e-6, "µM": 1e-6, "nM": 1e-9, "pM": 1e-12}
-ENERGY = {"kJ/mol": 1.0, "kcal/mol": 4.184, "J/mol": 1e-3}
-
-
-def quantity(v, table, default):
-    if not isinstance(v, str):
-        return float(v) * table[default]
-    m = re.match(r"\s*([-+0-9.eE]+)\s*(.*?)\s*$", v)
-    return float(m.group(1)) * table[m.group(2) or default]
-
-
-def temperature(v):
-    m = re.match(r"\s*([-+0-9.eE]+)\s*(.*?)\s*$", v)
-    x = float(m.group(1))
-    return x + 273.15 if m.group(2) in ("C", "°C") else x
+from common import CONC, ENERGY, quantity, temperature, terms
 
 
 def main(path):
     with open(path, "rb") as f:
         doc = tomllib.load(f)
     t = temperature(doc["conditions"]["temperature"])
-    rt = R * t
+    rt = 8.314462618e-3 * t  # R exact in the 2019 SI
     comps = doc["compounds"]
     ids = list(comps)
     index = {c: i for i, c in enumerate(ids)}
@@ -53,14 +37,10 @@ def main(path):
     steps = doc["steps"]
     rows, cols, vals = [], [], []
     for j, s in enumerate(steps):
-        left, right = re.split(r"\s*(?:<=>|<->|->|=>|=)\s*", s["reaction"])
-        for sign, side in ((-1.0, left), (1.0, right)):
-            for term in side.split(" + "):
-                parts = term.split()
-                coef, cid = (float(parts[0]), parts[1]) if len(parts) == 2 else (1.0, parts[0])
-                rows.append(j)
-                cols.append(index[cid])
-                vals.append(sign * coef)
+        for nu, cid in terms(s["reaction"]):
+            rows.append(j)
+            cols.append(index[cid])
+            vals.append(nu)
     NT = sp.csr_matrix((vals, (rows, cols)), shape=(len(steps), len(ids)))
     dg0 = np.array([quantity(s["dg0"], ENERGY, "kJ/mol") for s in steps])
     free = ~held & ~solvent

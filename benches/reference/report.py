@@ -10,7 +10,6 @@ profile, shares of the drop, the sd of each dG', and a JSON report.
 """
 import json
 import math
-import re
 import sys
 import tomllib
 
@@ -18,22 +17,7 @@ import numpy as np
 import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 
-R = 8.314462618e-3  # kJ/(mol K), exact in the 2019 SI
-CONC = {"M": 1.0, "mM": 1e-3, "uM": 1e-6, "µM": 1e-6, "nM": 1e-9, "pM": 1e-12}
-ENERGY = {"kJ/mol": 1.0, "kcal/mol": 4.184, "J/mol": 1e-3}
-
-
-def quantity(v, table, default):
-    if not isinstance(v, str):
-        return float(v) * table[default]
-    m = re.match(r"\s*([-+0-9.eE]+)\s*(.*?)\s*$", v)
-    return float(m.group(1)) * table[m.group(2) or default]
-
-
-def temperature(v):
-    m = re.match(r"\s*([-+0-9.eE]+)\s*(.*?)\s*$", v)
-    x = float(m.group(1))
-    return x + 273.15 if m.group(2) in ("C", "°C") else x
+from common import CONC, ENERGY, quantity, temperature, terms
 
 
 def main(path):
@@ -44,7 +28,7 @@ def main(path):
     ph = float(cond.get("ph", 7.0))
     t_ref = temperature(cond.get("reference_temperature", "25 C"))
     ph_ref = float(cond.get("reference_ph", 7.0))
-    rt = R * t
+    rt = 8.314462618e-3 * t  # R exact in the 2019 SI
     ids = list(doc["compounds"])
     index = {c: i for i, c in enumerate(ids)}
     comps = doc["compounds"]
@@ -55,14 +39,10 @@ def main(path):
     n = len(steps)
     rows, cols, vals = [], [], []
     for j, s in enumerate(steps):
-        left, right = re.split(r"\s*(?:<=>|<->|->|=>|=)\s*", s["reaction"])
-        for sign, side in ((-1.0, left), (1.0, right)):
-            for term in side.split(" + "):
-                parts = term.split()
-                coef, cid = (float(parts[0]), parts[1]) if len(parts) == 2 else (1.0, parts[0])
-                rows.append(index[cid])
-                cols.append(j)
-                vals.append(sign * coef)
+        for nu, cid in terms(s["reaction"]):
+            rows.append(index[cid])
+            cols.append(j)
+            vals.append(nu)
     N = sp.csc_matrix((vals, (rows, cols)), shape=(len(ids), n))
     dg0_ref = np.array([quantity(s["dg0"], ENERGY, "kJ/mol") for s in steps])
     dh0 = np.array([quantity(s["dh0"], ENERGY, "kJ/mol") if "dh0" in s else np.nan for s in steps])
