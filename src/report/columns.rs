@@ -81,7 +81,22 @@ pub const DEFAULT: [Column; 10] = [
 ];
 
 /// Longest enzyme name the default table shows before cutting it with "…".
-pub const ENZYME_WIDTH: usize = 24;
+pub const ENZYME_WIDTH: usize = 20;
+
+/// The default columns for this analysis: those of `DEFAULT`, without "per
+/// pass" when every step turns once and without "control" when there is no
+/// estimate (the route does not run forward), so the table stays narrow.
+pub fn default_for(a: &Analysis) -> Vec<Column> {
+    DEFAULT
+        .iter()
+        .copied()
+        .filter(|c| match c {
+            Column::Times => a.steps.iter().any(|s| (s.times - 1.0).abs() > 1e-9),
+            Column::ControlCoefficient => a.control_estimate.coefficients.is_some(),
+            _ => true,
+        })
+        .collect()
+}
 
 impl Column {
     /// The header (energies are in the unit the rendering states above the table).

@@ -41,7 +41,7 @@ const WRAP: usize = 100;
 
 /// The table with the default columns (they fit 120 characters on the demo).
 pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> String {
-    table_with(prep, state, a, o, &columns::DEFAULT)
+    table_with(prep, state, a, o, &columns::default_for(a))
 }
 
 /// The aligned table with these columns, then totals, verdicts, notes and

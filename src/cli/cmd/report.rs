@@ -43,7 +43,7 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View)
                 color: colour_ok(),
                 ascii: view.ascii,
             },
-            &view.columns(&report::columns::DEFAULT),
+            &view.columns(&report::columns::default_for(&a)),
         ),
     };
     emit(&text)
