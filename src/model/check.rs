@@ -71,7 +71,7 @@ pub fn concentration(text: &str) -> Result<f64, String> {
     if c <= 0.0 {
         return Err(format!(
             "'{}' is not above zero; write a small positive value such as \"1 nM\" for a trace compound",
-            super::shorten(text.trim())
+            super::pathway::shorten(text.trim())
         ));
     }
     Ok(c)
@@ -103,9 +103,12 @@ pub fn ph(value: f64) -> Result<f64, String> {
 /// Parses and checks a pH typed as text ("7.2").
 pub fn ph_text(text: &str) -> Result<f64, String> {
     let t = text.trim();
-    let v: f64 = t
-        .parse()
-        .map_err(|_| format!("pH '{}' is not a number; write e.g. 7.2", super::shorten(t)))?;
+    let v: f64 = t.parse().map_err(|_| {
+        format!(
+            "pH '{}' is not a number; write e.g. 7.2",
+            super::pathway::shorten(t)
+        )
+    })?;
     ph(v)
 }
 

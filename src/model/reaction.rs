@@ -53,7 +53,7 @@ pub fn parse(text: &str) -> Result<Equation, String> {
 /// declared id starting with digits (`13dpg_c`) is not read as a coefficient
 /// glued to an id (`2atp`).
 pub fn parse_with(text: &str, known: &dyn Fn(&str) -> bool) -> Result<Equation, String> {
-    let shown = super::shorten(text);
+    let shown = super::pathway::shorten(text);
     let mut found: Option<(usize, &str)> = None;
     for arrow in ARROWS {
         if let Some(pos) = text.find(arrow) {

@@ -2,7 +2,7 @@
 //! command line: energies, concentrations, temperatures and ionic strength.
 //! Everything is converted to SI (J/mol, mol/L, K) here and nowhere else.
 
-use super::shorten;
+use super::pathway::shorten;
 
 /// A quantity kind, for messages and for choosing the default unit of a bare number.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]

@@ -228,7 +228,7 @@ pub fn control_legend(a: &Analysis) -> String {
     let est = &a.control_estimate;
     let range = if est.draws > 0 {
         format!(
-            "; 5–95 %: its range over {} random saturations of the enzymes (fixed seed)",
+            "; 5–95 %: its range over {} random saturations of the enzymes (fixed seed; the mass-action value assumes none, so it can lie outside the range)",
             est.draws
         )
     } else {

@@ -4,7 +4,7 @@
 //! species, comes from the binding polynomial; a step's dG'° moves between
 //! two pH and ionic-strength settings by Σ ν [f(scenario) − f(reference)].
 
-use super::{DEBYE_B, rt, rt_alpha};
+use super::constants::{DEBYE_B, rt, rt_alpha};
 use crate::model::{Compound, Conditions, Step};
 use std::f64::consts::LN_10;
 

@@ -1,7 +1,7 @@
 //! The linear programme: variables, rows and bounds from a route and a
 //! scenario, the constraint matrix, solver settings and solver errors.
 
-use super::{MdfError, Options, Part, fmt_conc};
+use super::types::{MdfError, Options, Part, fmt_conc};
 use crate::analysis::{Prepared, Role};
 use crate::model::Pathway;
 use crate::scenario::State;

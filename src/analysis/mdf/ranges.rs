@@ -3,7 +3,7 @@
 //! one programme per compound and direction.
 
 use super::program::{Lp, matrix, settings, solver_error, status_ok};
-use super::{MdfError, RANGE_SLACK};
+use super::types::{MdfError, RANGE_SLACK};
 use clarabel::algebra::CscMatrix;
 use clarabel::solver::{DefaultSolver, IPSolver, NonnegativeConeT};
 

@@ -2,7 +2,7 @@
 
 use super::ranges::{ranges_by_lp, ranges_by_paths};
 use super::*;
-use crate::analysis::prepare;
+use crate::analysis::{Direction, prepare};
 use crate::model::load_str;
 use proptest::prelude::*;
 
