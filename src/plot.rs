@@ -399,29 +399,7 @@ fn spread_panel<DB: DrawingBackend>(
             RGBColor(170, 170, 170).stroke_width(1),
         ))
         .map_err(draw_err)?;
-    for (k, s) in sum.steps.iter().enumerate() {
-        let x = k as f64 + 0.5;
-        let mostly_far = 2 * s.classes.far > sum.samples;
-        let colour = if mostly_far { FAR } else { OTHER };
-        chart
-            .draw_series(LineSeries::new(
-                [(x, u.of(s.min)), (x, u.of(s.max))],
-                INK.stroke_width(1),
-            ))
-            .map_err(draw_err)?;
-        chart
-            .draw_series([Rectangle::new(
-                [(x - 0.18, u.of(s.p10)), (x + 0.18, u.of(s.p90))],
-                colour.mix(0.55).filled(),
-            )])
-            .map_err(draw_err)?;
-        chart
-            .draw_series(LineSeries::new(
-                [(x - 0.26, u.of(s.median)), (x + 0.26, u.of(s.median))],
-                INK.stroke_width(3),
-            ))
-            .map_err(draw_err)?;
-    }
+    draw_spreads(&mut chart, sum, u)?;
     let root_y = chart.backend_coord(&(0.0, y.0)).1 - area.get_base_pixel().1;
     for (k, s) in sum.steps.iter().enumerate().step_by(every) {
         let x = chart.backend_coord(&(k as f64 + 0.5, y.0)).0 - area.get_base_pixel().0;
@@ -445,6 +423,38 @@ fn spread_panel<DB: DrawingBackend>(
             ))
             .map_err(draw_err)?;
         }
+    }
+    Ok(())
+}
+
+/// Per step: the min–max line, the 10–90 % bar (dark when mostly far) and the median tick.
+fn draw_spreads<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    sum: &Summary,
+    u: EnergyUnit,
+) -> Result<(), PlotError> {
+    for (k, s) in sum.steps.iter().enumerate() {
+        let x = k as f64 + 0.5;
+        let mostly_far = 2 * s.classes.far > sum.samples;
+        let colour = if mostly_far { FAR } else { OTHER };
+        chart
+            .draw_series(LineSeries::new(
+                [(x, u.of(s.min)), (x, u.of(s.max))],
+                INK.stroke_width(1),
+            ))
+            .map_err(draw_err)?;
+        chart
+            .draw_series([Rectangle::new(
+                [(x - 0.18, u.of(s.p10)), (x + 0.18, u.of(s.p90))],
+                colour.mix(0.55).filled(),
+            )])
+            .map_err(draw_err)?;
+        chart
+            .draw_series(LineSeries::new(
+                [(x - 0.26, u.of(s.median)), (x + 0.26, u.of(s.median))],
+                INK.stroke_width(3),
+            ))
+            .map_err(draw_err)?;
     }
     Ok(())
 }
