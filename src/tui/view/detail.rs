@@ -174,7 +174,7 @@ pub fn detail_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
             format!("verdict: {}", v.kind.as_str().replace('_', " ")),
             t.verdict(v.kind),
         ));
-        for r in &v.reasons {
+        for r in present::reasons(v, app.opts.unit) {
             out.push(Line::from(format!("  {r}")));
         }
     } else if s.class != Class::Far {
