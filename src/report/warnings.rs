@@ -20,8 +20,8 @@ fn listed(ids: &[&str]) -> String {
 /// Every warning for this file and scenario, one line each (file and line where known).
 pub fn warnings(prep: &Prepared, state: &State) -> Vec<String> {
     let mut out = file_warnings(prep);
-    match analysis::mdf::solve(prep, state) {
-        Ok(m) => out.extend(m.warnings),
+    match analysis::mdf::warnings(prep, state) {
+        Ok(w) => out.extend(w),
         Err(e) => out.push(format!("the driving-force optimisation cannot run: {e}")),
     }
     out
@@ -31,8 +31,12 @@ pub fn warnings(prep: &Prepared, state: &State) -> Vec<String> {
 pub fn file_warnings(prep: &Prepared) -> Vec<String> {
     let p = &prep.pathway;
     let mut out = Vec::new();
+    let mut on_route = vec![false; p.steps.len()];
+    for &i in &p.route {
+        on_route[i] = true;
+    }
     let left_out: Vec<&str> = (0..p.steps.len())
-        .filter(|&i| !p.route.contains(&i) && !p.steps[i].side && p.steps[i].bypass_of.is_none())
+        .filter(|&i| !on_route[i] && !p.steps[i].side && p.steps[i].bypass_of.is_none())
         .map(|i| p.steps[i].id.as_str())
         .collect();
     if !left_out.is_empty() {
@@ -42,13 +46,14 @@ pub fn file_warnings(prep: &Prepared) -> Vec<String> {
             listed(&left_out)
         ));
     }
-    let used = |c: usize| {
-        p.steps
-            .iter()
-            .any(|s| s.stoich.iter().any(|&(ci, _)| ci == c))
-    };
+    let mut used = vec![false; p.compounds.len()];
+    for s in &p.steps {
+        for &(c, _) in &s.stoich {
+            used[c] = true;
+        }
+    }
     for (c, comp) in p.compounds.iter().enumerate() {
-        if !used(c) && !comp.is_solvent() {
+        if !used[c] && !comp.is_solvent() {
             out.push(format!(
                 "{}:{}: compound '{}' is used by no step; remove it or add the step that uses it",
                 p.file, comp.line, comp.id

@@ -19,6 +19,12 @@ use clarabel::solver::{DefaultSolver, IPSolver, NonnegativeConeT};
 use program::{Lp, Setup, matrix, settings, setup, solver_error, status_ok};
 use types::AT_BOUND;
 
+/// The warnings the optimisation gives for the scenario (concentrations
+/// outside their bounds) without solving it: cheap enough for every command.
+pub fn warnings(prep: &Prepared, state: &State) -> Result<Vec<String>, MdfError> {
+    Ok(setup(prep, state, &Options::default())?.warnings)
+}
+
 /// Solves many scenarios of one pathway (the samples of a table) without
 /// ranges, solving each distinct programme once: between samples usually
 /// only the free compounds' concentrations change, and they do not enter the
