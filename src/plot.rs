@@ -36,10 +36,15 @@ fn draw_err<E: std::fmt::Debug>(e: E) -> PlotError {
     PlotError::Draw(format!("{e:?}"))
 }
 
-const FAR: RGBColor = RGBColor(196, 32, 32);
-const OTHER: RGBColor = RGBColor(48, 96, 168);
+// Far steps: a thick dark neutral line (red would read as "bottleneck" or
+// danger); the others thin and light, so the far ones stand out in grey
+// print too.
+const FAR: RGBColor = RGBColor(34, 34, 34);
+const OTHER: RGBColor = RGBColor(150, 160, 175);
 const STANDARD: RGBColor = RGBColor(110, 110, 110);
 const MARK: RGBColor = RGBColor(230, 140, 0);
+/// Room left and right of the steps, in steps.
+const X_PAD: f64 = 0.3;
 const INK: RGBColor = RGBColor(20, 20, 20);
 /// Steps that run backward at these concentrations (dG' > 0).
 const AGAINST: RGBColor = RGBColor(128, 40, 150);
@@ -106,8 +111,16 @@ fn y_range(values: impl Iterator<Item = f64>) -> (f64, f64) {
         hi = hi.max(v);
     }
     let span = (hi - lo).max(1.0);
-    (lo - 0.14 * span, hi + 0.08 * span)
+    // Room above the data for the legend, so it never sits on the curve.
+    (lo - 0.14 * span, hi + 0.16 * span)
 }
+
+/// The chart of a profile panel: steps along x, energies along y.
+type Chart<'a, DB> = ChartContext<
+    'a,
+    DB,
+    Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>,
+>;
 
 /// Draws one profile panel; `levels` holds n + 1 cumulative values.
 fn profile_panel<DB: DrawingBackend>(
@@ -127,7 +140,8 @@ fn profile_panel<DB: DrawingBackend>(
         .margin_right(20)
         .x_label_area_size(72)
         .y_label_area_size(64)
-        .build_cartesian_2d(0f64..n as f64, y.0..y.1)
+        // A margin on both sides keeps the first and last plateaus inside.
+        .build_cartesian_2d(-X_PAD..n as f64 + X_PAD, y.0..y.1)
         .map_err(draw_err)?;
     chart
         .configure_mesh()
@@ -144,7 +158,24 @@ fn profile_panel<DB: DrawingBackend>(
         .light_line_style(TRANSPARENT)
         .draw()
         .map_err(draw_err)?;
-    // The zero level.
+    draw_steps(&mut chart, pr, levels, actual)?;
+    draw_marks(&mut chart, pr, levels, actual, y)?;
+    draw_step_labels(area, &chart, pr, actual, y, every)?;
+    if actual {
+        draw_legend(&mut chart, pr, y)?;
+    }
+    Ok(())
+}
+
+/// The zero level and each step: a short level at each intermediate joined
+/// by the step's slope; far steps thick and dark, the others thin and light.
+fn draw_steps<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    pr: &Profile,
+    levels: &[f64],
+    actual: bool,
+) -> Result<(), PlotError> {
+    let n = pr.ids.len();
     chart
         .draw_series(LineSeries::new(
             [(0.0, 0.0), (n as f64, 0.0)],
@@ -162,9 +193,8 @@ fn profile_panel<DB: DrawingBackend>(
         } else {
             OTHER
         };
-        let width = if far { 5 } else { 2 };
+        let width = if far { 5 } else { 1 };
         let (x0, x1) = (k as f64, k as f64 + 1.0);
-        // A short level at each intermediate, joined by the step's slope.
         chart
             .draw_series(LineSeries::new(
                 [
@@ -177,6 +207,17 @@ fn profile_panel<DB: DrawingBackend>(
             ))
             .map_err(draw_err)?;
     }
+    Ok(())
+}
+
+/// The largest drop (actual panel) and a bracket under each coupled group.
+fn draw_marks<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    pr: &Profile,
+    levels: &[f64],
+    actual: bool,
+    y: (f64, f64),
+) -> Result<(), PlotError> {
     let span = y.1 - y.0;
     if actual && let Some(k) = pr.largest {
         let mid = (k as f64 + 0.5, (pr.actual[k] + pr.actual[k + 1]) / 2.0);
@@ -191,7 +232,6 @@ fn profile_panel<DB: DrawingBackend>(
             )])
             .map_err(draw_err)?;
     }
-    // Coupled groups: a bracket under the steps they join.
     for &(a, b) in &pr.groups {
         let low = levels[a..=b + 1]
             .iter()
@@ -214,12 +254,25 @@ fn profile_panel<DB: DrawingBackend>(
             )])
             .map_err(draw_err)?;
     }
-    // Step labels under the axis: id, then class (or the value of dG'°).
+    Ok(())
+}
+
+/// Step labels under the axis: id, then class (or the value of dG'°), and
+/// the backward mark; every `every`-th step.
+fn draw_step_labels<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    chart: &Chart<'_, DB>,
+    pr: &Profile,
+    actual: bool,
+    y: (f64, f64),
+    every: usize,
+) -> Result<(), PlotError> {
     let root_y = chart.backend_coord(&(0.0, y.0)).1;
-    for k in (0..n).step_by(every) {
+    let base = area.get_base_pixel();
+    for k in (0..pr.ids.len()).step_by(every) {
         let (x, _) = chart.backend_coord(&(k as f64 + 0.5, y.0));
         let turns = if (pr.times[k] - 1.0).abs() > 1e-9 {
-            format!(" ×{}", crate::model::units::sig3(pr.times[k]))
+            format!(" ×{}", crate::present::amount(pr.times[k]))
         } else {
             String::new()
         };
@@ -228,67 +281,59 @@ fn profile_panel<DB: DrawingBackend>(
         } else {
             format!("{:+.1}{turns}", pr.dg0[k])
         };
-        area.draw(&Text::new(
-            pr.ids[k].clone(),
-            (
-                x - area.get_base_pixel().0,
-                root_y - area.get_base_pixel().1 + 8,
-            ),
-            centred(13, VPos::Top),
-        ))
-        .map_err(draw_err)?;
-        area.draw(&Text::new(
-            second,
-            (
-                x - area.get_base_pixel().0,
-                root_y - area.get_base_pixel().1 + 26,
-            ),
-            centred(11, VPos::Top),
-        ))
-        .map_err(draw_err)?;
+        let at = |dy: i32| (x - base.0, root_y - base.1 + dy);
+        area.draw(&Text::new(pr.ids[k].clone(), at(8), centred(13, VPos::Top)))
+            .map_err(draw_err)?;
+        area.draw(&Text::new(second, at(26), centred(11, VPos::Top)))
+            .map_err(draw_err)?;
         if actual && pr.against[k] {
             area.draw(&Text::new(
                 "⇄ backward",
-                (
-                    x - area.get_base_pixel().0,
-                    root_y - area.get_base_pixel().1 + 41,
-                ),
+                at(41),
                 centred(11, VPos::Top).color(&AGAINST),
             ))
             .map_err(draw_err)?;
         }
     }
-    if actual {
+    Ok(())
+}
+
+/// The legend in the headroom above the data: far steps, and steps that run backward.
+fn draw_legend<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    pr: &Profile,
+    y: (f64, f64),
+) -> Result<(), PlotError> {
+    let span = y.1 - y.0;
+    chart
+        .draw_series(LineSeries::new(
+            [(0.0, y.1 - 0.05 * span), (0.4, y.1 - 0.05 * span)],
+            FAR.stroke_width(5),
+        ))
+        .map_err(draw_err)?;
+    chart
+        .draw_series([Text::new(
+            format!("far from equilibrium (dG' ≤ {:.0} {})", pr.far, pr.unit),
+            (0.5, y.1 - 0.05 * span),
+            font(12).pos(Pos::new(HPos::Left, VPos::Center)),
+        )])
+        .map_err(draw_err)?;
+    if pr.against.iter().any(|&b| b) {
         chart
             .draw_series(LineSeries::new(
-                [(0.0, y.1 - 0.04 * span), (0.4, y.1 - 0.04 * span)],
-                FAR.stroke_width(5),
+                [(0.0, y.1 - 0.09 * span), (0.4, y.1 - 0.09 * span)],
+                AGAINST.stroke_width(2),
             ))
             .map_err(draw_err)?;
         chart
             .draw_series([Text::new(
-                format!("far from equilibrium (dG' ≤ {:.0} {})", pr.far, pr.unit),
-                (0.5, y.1 - 0.04 * span),
-                font(12).pos(Pos::new(HPos::Left, VPos::Center)),
+                "⇄ runs backward (dG' > 0): the route cannot carry forward flux here",
+                (0.5, y.1 - 0.09 * span),
+                font(12)
+                    .color(&AGAINST)
+                    .pos(Pos::new(HPos::Left, VPos::Center)),
             )])
             .map_err(draw_err)?;
-        if pr.against.iter().any(|&b| b) {
-            chart
-                .draw_series(LineSeries::new(
-                    [(0.0, y.1 - 0.09 * span), (0.4, y.1 - 0.09 * span)],
-                    AGAINST.stroke_width(2),
-                ))
-                .map_err(draw_err)?;
-            chart
-                .draw_series([Text::new(
-                    "⇄ runs backward (dG' > 0): the route cannot carry forward flux here",
-                    (0.5, y.1 - 0.09 * span),
-                    font(12)
-                        .color(&AGAINST)
-                        .pos(Pos::new(HPos::Left, VPos::Center)),
-                )])
-                .map_err(draw_err)?;
-        }
     }
     Ok(())
 }
@@ -354,29 +399,7 @@ fn spread_panel<DB: DrawingBackend>(
             RGBColor(170, 170, 170).stroke_width(1),
         ))
         .map_err(draw_err)?;
-    for (k, s) in sum.steps.iter().enumerate() {
-        let x = k as f64 + 0.5;
-        let mostly_far = 2 * s.classes.far > sum.samples;
-        let colour = if mostly_far { FAR } else { OTHER };
-        chart
-            .draw_series(LineSeries::new(
-                [(x, u.of(s.min)), (x, u.of(s.max))],
-                INK.stroke_width(1),
-            ))
-            .map_err(draw_err)?;
-        chart
-            .draw_series([Rectangle::new(
-                [(x - 0.18, u.of(s.p10)), (x + 0.18, u.of(s.p90))],
-                colour.mix(0.55).filled(),
-            )])
-            .map_err(draw_err)?;
-        chart
-            .draw_series(LineSeries::new(
-                [(x - 0.26, u.of(s.median)), (x + 0.26, u.of(s.median))],
-                INK.stroke_width(3),
-            ))
-            .map_err(draw_err)?;
-    }
+    draw_spreads(&mut chart, sum, u)?;
     let root_y = chart.backend_coord(&(0.0, y.0)).1 - area.get_base_pixel().1;
     for (k, s) in sum.steps.iter().enumerate().step_by(every) {
         let x = chart.backend_coord(&(k as f64 + 0.5, y.0)).0 - area.get_base_pixel().0;
@@ -400,6 +423,38 @@ fn spread_panel<DB: DrawingBackend>(
             ))
             .map_err(draw_err)?;
         }
+    }
+    Ok(())
+}
+
+/// Per step: the min–max line, the 10–90 % bar (dark when mostly far) and the median tick.
+fn draw_spreads<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    sum: &Summary,
+    u: EnergyUnit,
+) -> Result<(), PlotError> {
+    for (k, s) in sum.steps.iter().enumerate() {
+        let x = k as f64 + 0.5;
+        let mostly_far = 2 * s.classes.far > sum.samples;
+        let colour = if mostly_far { FAR } else { OTHER };
+        chart
+            .draw_series(LineSeries::new(
+                [(x, u.of(s.min)), (x, u.of(s.max))],
+                INK.stroke_width(1),
+            ))
+            .map_err(draw_err)?;
+        chart
+            .draw_series([Rectangle::new(
+                [(x - 0.18, u.of(s.p10)), (x + 0.18, u.of(s.p90))],
+                colour.mix(0.55).filled(),
+            )])
+            .map_err(draw_err)?;
+        chart
+            .draw_series(LineSeries::new(
+                [(x - 0.26, u.of(s.median)), (x + 0.26, u.of(s.median))],
+                INK.stroke_width(3),
+            ))
+            .map_err(draw_err)?;
     }
     Ok(())
 }

@@ -155,7 +155,7 @@ fn json_values_match_the_hand_computation() {
     assert_eq!(d["largest_drop"], "s1");
     assert_eq!(d["control"].as_array().unwrap().len(), 1);
     assert_eq!(d["control"][0]["step"], "s1");
-    assert_eq!(d["control"][0]["verdict"], "prime");
+    assert_eq!(d["control"][0]["verdict"], "control_point");
 }
 
 #[test]
@@ -290,9 +290,13 @@ fn csv_and_markdown_are_parseable() {
     let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
     assert_eq!(rows.len(), 2);
     assert_eq!(&rows[0][col("step")], "s1");
-    close(rows[0][col("dg")].parse().unwrap(), -10.708010, 1e-6);
     close(
-        rows[1][col("cumulative")].parse().unwrap(),
+        rows[0][col("dg [kJ/mol]")].parse().unwrap(),
+        -10.708010,
+        1e-6,
+    );
+    close(
+        rows[1][col("cumulative [kJ/mol]")].parse().unwrap(),
         -14.416020,
         1e-6,
     );
@@ -310,14 +314,14 @@ fn csv_and_markdown_are_parseable() {
         "{md}"
     );
     assert!(
-        table[2].contains("s1") && table[2].contains("-10.71") && table[2].contains("prime"),
+        table[2].contains("s1") && table[2].contains("-10.7") && table[2].contains("control point"),
         "{md}"
     );
 
     let out = run(&["report", &c]);
     assert_eq!(out.status.code(), Some(0));
     let t = String::from_utf8(out.stdout).unwrap();
-    assert!(t.contains("-10.71") && t.contains("-14.42"), "{t}");
+    assert!(t.contains("-10.7") && t.contains("-14.4"), "{t}");
 }
 
 #[test]

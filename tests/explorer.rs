@@ -410,7 +410,7 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
         .unwrap();
     assert!(out.status.success());
     let text = String::from_utf8_lossy(&out.stdout);
-    assert!(text.contains("pdc ◀largest"), "{text}");
+    assert!(text.contains("% ◀largest"), "{text}");
 }
 
 #[test]

@@ -316,9 +316,16 @@ fn the_layout_fits_small_and_uses_wide_terminals() {
     for col in [" sd ", " Q ", " K' ", "dG'°", "per pass", "verdict"] {
         assert!(header.contains(col), "{col} missing: {header}");
     }
-    let hxk = wide.lines().find(|l| l.contains("sugar kinase")).unwrap();
-    let gap = hxk.split("sugar kinase").nth(1).unwrap();
-    assert!(gap.len() - gap.trim_start().len() < 50, "{hxk}");
+    // The enzyme column ends just after the longest name: no wide blank gap.
+    let gaps = app.pathway().steps.iter().filter_map(|st| {
+        let enz = st.enzyme.as_deref()?;
+        let line = wide.lines().find(|l| l.contains(enz))?;
+        let after = line.split(enz).nth(1)?;
+        Some(after.len() - after.trim_start().len())
+    });
+    let narrowest = gaps.min().expect("enzymes shown");
+    assert!(narrowest < 12, "{wide}");
+    let hxk = wide.lines().find(|l| l.contains("│  hxk ")).unwrap();
     let k = dgpath::tui::view::text::num3(app.analysis.steps[0].keq());
     assert!(
         k.len() <= 7 && hxk.contains(&format!(" {k} ")),

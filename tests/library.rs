@@ -76,7 +76,7 @@ fn side_steps_make_branch_points_and_stay_out_of_the_totals() {
     // s1 makes b, a branch point: not_here; s2 is then the prime step; s3 is last but not far.
     let kinds: Vec<VerdictKind> = a.control.iter().map(|v| v.kind).collect();
     assert_eq!(kinds, [VerdictKind::NotHere, VerdictKind::Prime]);
-    assert!(a.control[0].reasons[0].contains("branch point"));
+    assert!(words(&a.control[0])[0].contains("branch point"));
 }
 
 #[test]
@@ -250,19 +250,19 @@ fn coupled_groups_sum_per_turn_dg() {
         8.0 + RT25 * 2f64.ln() / 1e3 - 12.0,
         1e-9,
     );
+    let notes = dgpath::present::notes(&a, dgpath::present::EnergyUnit::KJ);
     assert!(
-        a.notes
+        notes
             .iter()
             .any(|n| n.contains("s2 is uphill") && n.contains("coupled group runs downhill")),
-        "{:?}",
-        a.notes
+        "{notes:?}"
     );
     // The verdict on far s3 mentions the group.
     let v = a.control.iter().find(|v| v.position == 2).unwrap();
     assert!(
-        v.reasons.iter().any(|r| r.contains("s2 + s3")),
+        words(v).iter().any(|r| r.contains("s2 + s3")),
         "{:?}",
-        v.reasons
+        words(v)
     );
 }
 
@@ -331,7 +331,7 @@ fn later_far_step_is_a_candidate_and_names_the_branch_point_between() {
             ("s4", VerdictKind::NotHere)
         ]
     );
-    let s3 = &a.control[1].reasons;
+    let s3 = &words(&a.control[1]);
     assert!(
         s3[0].contains("s1")
             && s3
@@ -453,11 +453,11 @@ side = true
     assert!(a.branch[w], "water is used by the side step");
     let kinds: Vec<&str> = a.control.iter().map(|v| v.kind.as_str()).collect();
     // s1 makes water (a branch point): not_here; s2 is the first left: prime; s3 is last.
-    assert_eq!(kinds, ["not_here", "prime", "not_here"]);
+    assert_eq!(kinds, ["not_here", "control_point", "not_here"]);
     assert!(
-        a.control[0].reasons[0].contains("w is a branch point"),
+        words(&a.control[0])[0].contains("w is a branch point"),
         "{:?}",
-        a.control[0].reasons
+        words(&a.control[0])
     );
 }
 
@@ -493,4 +493,9 @@ dg0 = -3
         "{:?}",
         a.notes
     );
+}
+
+/// A verdict's reasons in words (kJ/mol).
+fn words(v: &dgpath::analysis::control::Verdict) -> Vec<String> {
+    dgpath::present::reasons(v, dgpath::present::EnergyUnit::KJ)
 }

@@ -263,15 +263,29 @@ fn mdf_demo_runs() {
 }
 
 #[test]
-fn mdf_rejects_csv_before_solving() {
+fn mdf_csv_has_one_row_per_step_and_still_warns() {
     let path = data("mdf_conc_outside.toml");
     let (code, out, err) = run(&["mdf", path.to_str().unwrap(), "--format", "csv"]);
-    assert_eq!(code, 1);
-    assert!(out.is_empty());
-    assert!(
-        err.contains("--format table or --format json") && !err.contains("warning"),
-        "{err}"
-    );
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("warning"), "{err}");
+    let (_, json, _) = run(&["mdf", path.to_str().unwrap(), "--format", "json"]);
+    let j: serde_json::Value = serde_json::from_str(&json).unwrap();
+    let mut r = csv::Reader::from_reader(out.as_bytes());
+    let head: Vec<String> = r.headers().unwrap().iter().map(String::from).collect();
+    assert_eq!(head[3], "driving_force [kJ/mol]", "{head:?}");
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    assert_eq!(rows.len(), j["driving_forces"].as_object().unwrap().len());
+    for row in &rows {
+        let f: f64 = row[3].parse().unwrap();
+        assert_eq!(
+            f,
+            j["driving_forces"][&row[0]].as_f64().unwrap(),
+            "{}",
+            &row[0]
+        );
+        let mdf: f64 = row[6].parse().unwrap();
+        assert_eq!(mdf, j["mdf"].as_f64().unwrap());
+    }
 }
 
 #[test]

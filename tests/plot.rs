@@ -161,6 +161,59 @@ fn example_plot_is_current() {
     }
 }
 
+/// The points of each polyline with this stroke and width.
+fn polylines(svg: &str, stroke: &str, width: &str) -> Vec<Vec<(f64, f64)>> {
+    let want = format!("stroke=\"{stroke}\" stroke-width=\"{width}\" points=\"");
+    svg.match_indices(&want)
+        .map(|(i, m)| {
+            let rest = &svg[i + m.len()..];
+            let pts = &rest[..rest.find('"').unwrap()];
+            pts.split_whitespace()
+                .map(|p| {
+                    let (x, y) = p.split_once(',').unwrap();
+                    (x.parse().unwrap(), y.parse().unwrap())
+                })
+                .collect()
+        })
+        .collect()
+}
+
+#[test]
+fn far_steps_are_thick_and_dark_neutral_and_stay_inside() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("p.svg");
+    let o = dgpath(&["plot", PW, "-o", out.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    // No red: the far steps are #222222 at width 5, the others light and thin.
+    assert!(
+        !svg.to_ascii_uppercase().contains("#C42020"),
+        "the old red is gone"
+    );
+    let far = polylines(&svg, "#222222", "5");
+    // hxk, pfk, pyk, pdc on the demo, plus the legend's sample line.
+    assert_eq!(far.len(), 5, "{far:?}");
+    assert!(
+        !polylines(&svg, "#96A0AF", "1").is_empty(),
+        "thin light lines"
+    );
+    // The legend line lies above every point of the curve (smaller y in SVG)
+    // within the left panel.
+    let curve: Vec<(f64, f64)> = far[..4].iter().flatten().copied().collect();
+    let legend = &far[4];
+    let top = curve.iter().map(|p| p.1).fold(f64::INFINITY, f64::min);
+    assert!(
+        legend.iter().all(|p| p.1 < top - 10.0),
+        "{legend:?} vs {top}"
+    );
+    // The last plateau (pdc's end) ends before the panel's right edge, where
+    // the thin line of the last step still follows.
+    let last_far_x = curve.iter().map(|p| p.0).fold(0.0, f64::max);
+    let thin = polylines(&svg, "#96A0AF", "1");
+    let right = thin.iter().flatten().map(|p| p.0).fold(0.0, f64::max);
+    assert!(last_far_x < right, "{last_far_x} < {right}");
+}
+
 #[test]
 fn a_long_route_makes_a_picture_of_capped_size_with_thinned_labels() {
     // 5,000 steps drew a 248,220 px wide picture before; the width is now

@@ -84,9 +84,9 @@ fn batch_rows_equal_single_sample_reports() {
         .as_array()
         .unwrap()
         .iter()
-        .find(|v| v["verdict"] == "prime")
+        .find(|v| v["verdict"] == "control_point")
         .map(|v| v["step"].clone());
-    assert_eq!(prime.unwrap_or(serde_json::Value::Null), b["prime"]);
+    assert_eq!(prime.unwrap_or(serde_json::Value::Null), b["control_point"]);
     assert_eq!(single["largest_drop"], b["largest_drop"]);
 }
 
@@ -106,8 +106,8 @@ fn json_summary_agrees_with_the_samples() {
                 .count();
             assert_eq!(st["classes"][class], n, "{id} {class}");
         }
-        let n = samples.iter().filter(|s| &s["prime"] == id).count();
-        assert_eq!(st["prime"], n, "{id} prime");
+        let n = samples.iter().filter(|s| &s["control_point"] == id).count();
+        assert_eq!(st["control_point"], n, "{id} control point");
         let n = samples.iter().filter(|s| &s["largest_drop"] == id).count();
         assert_eq!(st["largest_drop"], n, "{id} largest");
         let mut dg: Vec<f64> = samples
@@ -122,13 +122,13 @@ fn json_summary_agrees_with_the_samples() {
         );
         assert_eq!(st["dg_min"].as_f64().unwrap(), dg[0]);
     }
-    let usual = &sum["usual_prime"];
+    let usual = &sum["usual_control_point"];
     let differ: Vec<&serde_json::Value> = samples
         .iter()
-        .filter(|s| &s["prime"] != usual)
+        .filter(|s| &s["control_point"] != usual)
         .map(|s| &s["sample"])
         .collect();
-    let listed: Vec<&serde_json::Value> = sum["prime_differs"]
+    let listed: Vec<&serde_json::Value> = sum["control_point_differs"]
         .as_array()
         .unwrap()
         .iter()
@@ -186,7 +186,7 @@ fn table_is_the_default_with_samples() {
         "{t}"
     );
     assert!(
-        t.contains("usual prime step: pfk") && t.contains("prime step differs in"),
+        t.contains("usual control point: pfk") && t.contains("control point differs in"),
         "{t}"
     );
     // The demo's story: pgk leaves near equilibrium as the sugar runs out.

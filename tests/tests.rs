@@ -13,6 +13,7 @@ mod import;
 mod library;
 mod limits;
 mod mdf;
+mod outputs;
 #[cfg(feature = "plot")]
 mod plot;
 mod properties;

@@ -1,6 +1,6 @@
 //! Control verdicts: for every far-from-equilibrium route step, whether it is
 //! the sensible place to control flux, by the fixed rules of cli.md, with the
-//! reasons in words.
+//! reasons as data (worded by `present`).
 
 use super::{Analysis, Class, Role};
 use crate::model::Pathway;
@@ -20,11 +20,63 @@ impl VerdictKind {
     /// Name used in JSON and tables.
     pub fn as_str(self) -> &'static str {
         match self {
-            VerdictKind::Prime => "prime",
+            VerdictKind::Prime => "control_point",
             VerdictKind::Candidate => "candidate",
             VerdictKind::NotHere => "not_here",
         }
     }
+}
+
+/// Why a verdict was given: the rule that decided and what else is worth
+/// knowing, with energies in J/mol; worded by `present::reason_text` in the
+/// unit a person asked for.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Reason {
+    /// Rule 1: the last step of the route.
+    LastStep {
+        /// dG' of the step, J/mol.
+        dg: f64,
+    },
+    /// Rule 2: a product is a branch point.
+    BranchProduct {
+        /// dG' of the step, J/mol.
+        dg: f64,
+        /// The branch-point compounds it makes.
+        compounds: Vec<String>,
+    },
+    /// Rule 3: the first far step the other rules leave.
+    FirstFar {
+        /// dG' of the step, J/mol.
+        dg: f64,
+    },
+    /// Rule 4: a later far step.
+    AfterControlPoint {
+        /// dG' of the step, J/mol.
+        dg: f64,
+        /// The control point's id.
+        control_point: String,
+    },
+    /// Branch points between the control point and this candidate.
+    BranchBetween {
+        /// The branch-point compounds.
+        compounds: Vec<String>,
+        /// The control point's id.
+        control_point: String,
+    },
+    /// The class is not sure within the 95 % interval.
+    Unsure {
+        /// Half-width of the 95 % interval of dG', J/mol.
+        half_width: f64,
+        /// The other class it could have.
+        other: Class,
+    },
+    /// The step is coupled with others.
+    Coupled {
+        /// The group's step ids.
+        steps: Vec<String>,
+        /// The group's dG', J/mol.
+        group_dg: f64,
+    },
 }
 
 /// A verdict with its reasons.
@@ -34,8 +86,8 @@ pub struct Verdict {
     pub position: usize,
     /// The verdict.
     pub kind: VerdictKind,
-    /// Plain-words reasons; the first says which rule decided.
-    pub reasons: Vec<String>,
+    /// The reasons; the first says which rule decided.
+    pub reasons: Vec<Reason>,
 }
 
 /// The sentence every verdict list carries (science.md §7).
@@ -54,7 +106,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             continue;
         }
         let st = &p.steps[s.step];
-        let dg = format!("dG' = {:.1} kJ/mol", s.dg / 1e3);
+        let dg = s.dg;
         let mut reasons = Vec::new();
         let products: Vec<usize> = st
             .stoich
@@ -68,28 +120,25 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             .map(|&c| p.compounds[c].id.as_str())
             .collect();
         let kind = if k + 1 == n {
-            reasons.push(format!(
-                "last step of the route ({dg}): by the time material reaches it, every step before has already committed it, so controlling here would only pile up intermediates"
-            ));
+            reasons.push(Reason::LastStep { dg });
             VerdictKind::NotHere
         } else if !branching.is_empty() {
-            let x = branching.join(", ");
-            reasons.push(format!(
-                "its product {x} is a branch point ({dg}): flux can leave or enter the route right after it, so controlling this step does not control what follows; the committed step comes after {x}"
-            ));
+            reasons.push(Reason::BranchProduct {
+                dg,
+                compounds: branching.iter().map(|c| c.to_string()).collect(),
+            });
             VerdictKind::NotHere
         } else if prime.is_none() {
             prime = Some(k);
-            reasons.push(format!(
-                "first step far from equilibrium ({dg}) that neither ends the route nor feeds a branch point: the committed step"
-            ));
+            reasons.push(Reason::FirstFar { dg });
             VerdictKind::Prime
         } else {
             let pk = prime.unwrap_or(0);
-            reasons.push(format!(
-                "far from equilibrium ({dg}) with no rule against it, but {} before it is already the committed step",
-                p.steps[a.steps[pk].step].id
-            ));
+            let control_point = p.steps[a.steps[pk].step].id.clone();
+            reasons.push(Reason::AfterControlPoint {
+                dg,
+                control_point: control_point.clone(),
+            });
             // Branch points between the prime step and this one (the range only
             // grows from one candidate to the next, so it is scanned once).
             for m in scanned.max(pk)..k {
@@ -105,12 +154,10 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             }
             scanned = k;
             if !between.is_empty() {
-                reasons.push(format!(
-                    "branch point {} lies between {} and this step: flux leaving or entering there is not set by {}, so this step may control what reaches the end",
-                    between.join(", "),
-                    p.steps[a.steps[pk].step].id,
-                    p.steps[a.steps[pk].step].id
-                ));
+                reasons.push(Reason::BranchBetween {
+                    compounds: between.iter().map(|c| c.to_string()).collect(),
+                    control_point,
+                });
             }
             VerdictKind::Candidate
         };
@@ -120,23 +167,20 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             } else {
                 s.class_range.1
             };
-            reasons.push(format!(
-                "not sure: within the 95 % interval of dG' (± {:.1} kJ/mol) it could be {}, and then it would get no verdict",
-                s.dg_sd.unwrap_or(0.0) * super::Z95 / 1e3,
-                other.as_str()
-            ));
+            reasons.push(Reason::Unsure {
+                half_width: s.dg_sd.unwrap_or(0.0) * super::Z95,
+                other,
+            });
         }
         if let Some(g) = a.groups.iter().find(|g| g.members.contains(&k)) {
-            let ids: Vec<&str> = g
-                .members
-                .iter()
-                .map(|&m| p.steps[a.steps[m].step].id.as_str())
-                .collect();
-            reasons.push(format!(
-                "read together with {} (coupled, group dG' = {:.1} kJ/mol)",
-                ids.join(" + "),
-                g.dg / 1e3
-            ));
+            reasons.push(Reason::Coupled {
+                steps: g
+                    .members
+                    .iter()
+                    .map(|&m| p.steps[a.steps[m].step].id.clone())
+                    .collect(),
+                group_dg: g.dg,
+            });
         }
         out.push(Verdict {
             position: k,

@@ -203,6 +203,9 @@ pub struct Analysis {
     pub counterpart: Option<usize>,
     /// Notes and warnings for the reader, one line each.
     pub notes: Vec<String>,
+    /// Notes that carry energies (J/mol), worded by `present::energy_note_text`
+    /// in the unit asked for; shown after `notes`.
+    pub energy_notes: Vec<EnergyNote>,
     /// Flux control estimated from the thermodynamics (science.md §7).
     pub control_estimate: mca::Estimate,
 }
@@ -475,14 +478,40 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         needs_bypass: Vec::new(),
         counterpart: None,
         notes: Vec::new(),
+        energy_notes: Vec::new(),
         control_estimate: mca::Estimate::default(),
     };
     a.control = control::verdicts(p, &a);
     for (i, v) in a.control.iter().enumerate() {
         a.steps[v.position].verdict = Some(i);
     }
-    a.notes = notes::notes(p, &a, state);
+    (a.notes, a.energy_notes) = notes::notes(p, &a, state);
     a.control_estimate = mca::estimate(p, &a, &state.conc);
     a.notes.extend(a.control_estimate.notes.iter().cloned());
     a
+}
+
+/// A note that carries energies (J/mol).
+#[derive(Debug, Clone, PartialEq)]
+pub enum EnergyNote {
+    /// An uphill route step.
+    Uphill {
+        /// Step id.
+        step: String,
+        /// Its dG', J/mol.
+        dg: f64,
+        /// The dG' of its coupled group when that runs downhill, J/mol.
+        group_dg: Option<f64>,
+    },
+    /// A class that is not sure within the 95 % interval of dG'.
+    Unsure {
+        /// Step id.
+        step: String,
+        /// Its class.
+        class: Class,
+        /// The 95 % interval of dG', J/mol.
+        interval: (f64, f64),
+        /// The other classes within it.
+        others: Vec<Class>,
+    },
 }

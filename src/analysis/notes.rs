@@ -2,23 +2,24 @@
 //! scenario, steps that run backward or uphill, steps left out, and classes
 //! that are not sure.
 
-use super::{Analysis, Class, StepResult, Z95};
+use super::{Analysis, Class, EnergyNote, StepResult, Z95};
 use crate::model::{Conditions, Pathway};
 use crate::scenario::State;
 use crate::thermo;
 
-/// Every note for the reader, in a fixed order.
-pub(super) fn notes(p: &Pathway, a: &Analysis, state: &State) -> Vec<String> {
+/// Every note for the reader, in a fixed order: the plain ones, and those
+/// that carry energies (worded by the front ends in the unit asked for).
+pub(super) fn notes(p: &Pathway, a: &Analysis, state: &State) -> (Vec<String>, Vec<EnergyNote>) {
     let c = &state.conditions;
     let r = &p.reference;
     let all: Vec<&StepResult> = a.steps.iter().chain(a.side.iter()).collect();
     let mut out = temperature_notes(p, &all, c, r);
     out.extend(species_notes(p, &all, c, r));
     out.extend(against_note(p, a));
-    out.extend(uphill_notes(p, a));
     out.extend(left_out_note(p));
-    out.extend(unsure_notes(p, a));
-    out
+    let mut energy = uphill_notes(p, a);
+    energy.extend(unsure_notes(p, a));
+    (out, energy)
 }
 
 /// How dG'° was moved to the scenario's temperature.
@@ -76,7 +77,7 @@ fn against_note(p: &Pathway, a: &Analysis) -> Option<String> {
 }
 
 /// Uphill route steps, and whether a coupled group pays for them.
-fn uphill_notes(p: &Pathway, a: &Analysis) -> Vec<String> {
+fn uphill_notes(p: &Pathway, a: &Analysis) -> Vec<EnergyNote> {
     let mut out = Vec::new();
     for s in &a.steps {
         if s.class == Class::Uphill {
@@ -85,17 +86,11 @@ fn uphill_notes(p: &Pathway, a: &Analysis) -> Vec<String> {
                 .groups
                 .iter()
                 .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
-            match grp {
-                Some(g) if g.dg < 0.0 => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol) and its coupled group runs downhill ({:+.1} kJ/mol); coupling can only lower its dG' through the concentrations it sets, so at these concentrations {id} still runs backward.",
-                    s.dg / 1e3,
-                    g.dg / 1e3
-                )),
-                _ => out.push(format!(
-                    "{id} is uphill (dG' = {:+.1} kJ/mol): it cannot carry forward flux alone; unless it is coupled to a step that pays for it, the concentrations or dG'° may be inconsistent.",
-                    s.dg / 1e3
-                )),
-            }
+            out.push(EnergyNote::Uphill {
+                step: id.clone(),
+                dg: s.dg,
+                group_dg: grp.map(|g| g.dg).filter(|&d| d < 0.0),
+            });
         }
     }
     out
@@ -122,7 +117,7 @@ fn left_out_note(p: &Pathway) -> Option<String> {
 }
 
 /// Steps whose class could differ within the 95 % interval of dG'.
-fn unsure_notes(p: &Pathway, a: &Analysis) -> Vec<String> {
+fn unsure_notes(p: &Pathway, a: &Analysis) -> Vec<EnergyNote> {
     let mut out = Vec::new();
     for s in a.steps.iter().chain(a.side.iter()) {
         if s.class_sure {
@@ -130,27 +125,18 @@ fn unsure_notes(p: &Pathway, a: &Analysis) -> Vec<String> {
         }
         let Some(sd) = s.dg_sd else { continue };
         let (lo, hi) = (s.dg - Z95 * sd, s.dg + Z95 * sd);
-        let mut other: Vec<&str> = Vec::new();
+        let mut others: Vec<Class> = Vec::new();
         for c in [s.class_range.0, s.class_range.1] {
-            if c != s.class && !other.contains(&c.as_str()) {
-                other.push(c.as_str());
+            if c != s.class && !others.contains(&c) {
+                others.push(c);
             }
         }
-        out.push(format!(
-            "{} is {}, but not surely: within the 95 % interval of dG' ({:+.1} to {:+.1} kJ/mol) it could be {}{}.",
-            p.steps[s.step].id,
-            s.class.as_str(),
-            lo / 1e3,
-            hi / 1e3,
-            other.join(" or "),
-            if s.class == Class::Far {
-                ", and then it would get no verdict"
-            } else if other.contains(&"far") {
-                ", and then it would get a verdict"
-            } else {
-                ""
-            }
-        ));
+        out.push(EnergyNote::Unsure {
+            step: p.steps[s.step].id.clone(),
+            class: s.class,
+            interval: (lo, hi),
+            others,
+        });
     }
     out
 }

@@ -2,6 +2,7 @@
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use dgpath::present::EnergyUnit;
+use dgpath::report::{self, Column};
 use std::path::PathBuf;
 
 /// Gibbs energies of pathway steps at your cell's conditions, live.
@@ -33,6 +34,8 @@ pub enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = Format::Table)]
         format: Format,
+        #[command(flatten)]
+        view: View,
     },
     /// Validate a pathway file; print every problem.
     Check { file: PathBuf },
@@ -76,6 +79,13 @@ pub enum Command {
         #[arg(long)]
         ascii: bool,
     },
+    /// Print a shell completion script (bash, zsh, fish, elvish, powershell).
+    Completions {
+        /// The shell to complete for.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff) on stdout.
+    Manual,
 }
 
 /// `dgpath import`: the model, the route, the tables and where to write.
@@ -134,6 +144,77 @@ pub enum BranchesArg {
     Network,
     /// Every reaction of the model.
     All,
+}
+
+/// What the table and Markdown show and how.
+#[derive(Args, Debug, Clone, Default)]
+pub struct View {
+    /// Every column (the default table shows those read first and fits 120 characters).
+    #[arg(long, conflicts_with = "columns")]
+    pub wide: bool,
+    /// Columns to show, comma-separated, in this order (names as in the JSON).
+    #[arg(long, value_enum, value_delimiter = ',', value_name = "NAME,...")]
+    pub columns: Vec<ColumnArg>,
+    /// Plain ASCII symbols only.
+    #[arg(long)]
+    pub ascii: bool,
+}
+
+/// A column of the per-step table, named as its JSON field.
+#[derive(ValueEnum, Clone, Copy, Debug, PartialEq, Eq)]
+#[value(rename_all = "snake_case")]
+pub enum ColumnArg {
+    Step,
+    Enzyme,
+    Times,
+    Dg0,
+    Dg,
+    DgSd,
+    Q,
+    Keq,
+    FluxRatio,
+    ReverseShare,
+    EnzymeFactor,
+    Class,
+    Share,
+    Cumulative,
+    Verdict,
+    ControlCoefficient,
+    ControlCoefficientRange,
+}
+
+impl View {
+    /// The columns asked for: chosen, all (`--wide`) or the default ones.
+    pub fn columns(&self, default: &[Column]) -> Vec<Column> {
+        if self.wide {
+            return report::columns::ALL.to_vec();
+        }
+        if self.columns.is_empty() {
+            return default.to_vec();
+        }
+        self.columns
+            .iter()
+            .map(|c| match c {
+                ColumnArg::Step => Column::Step,
+                ColumnArg::Enzyme => Column::Enzyme,
+                ColumnArg::Times => Column::Times,
+                ColumnArg::Dg0 => Column::Dg0,
+                ColumnArg::Dg => Column::Dg,
+                ColumnArg::DgSd => Column::DgSd,
+                ColumnArg::Q => Column::Q,
+                ColumnArg::Keq => Column::Keq,
+                ColumnArg::FluxRatio => Column::FluxRatio,
+                ColumnArg::ReverseShare => Column::ReverseShare,
+                ColumnArg::EnzymeFactor => Column::EnzymeFactor,
+                ColumnArg::Class => Column::Class,
+                ColumnArg::Share => Column::Share,
+                ColumnArg::Cumulative => Column::Cumulative,
+                ColumnArg::Verdict => Column::Verdict,
+                ColumnArg::ControlCoefficient => Column::ControlCoefficient,
+                ColumnArg::ControlCoefficientRange => Column::ControlCoefficientRange,
+            })
+            .collect()
+    }
 }
 
 /// Output formats.

@@ -13,7 +13,7 @@ pub mod request;
 pub use args::Cli;
 
 use anyhow::Result;
-use args::{Command, Common, Format};
+use args::{Command, Common, Format, View};
 use dgpath::tui::{self, Source};
 use request::{load, load_demo, load_source, state_from};
 
@@ -26,9 +26,11 @@ pub fn run(cli: Cli) -> Result<()> {
                 let state = state_from(&prep, &Common::default())?;
                 cmd::explore::explore(prep, state, Source::demo(), &Common::default(), false)
             } else {
-                cmd::report::run_report(&prep, &Common::default(), Format::Table)
+                cmd::report::run_report(&prep, &Common::default(), Format::Table, &View::default())
             }
         }
+        Some(Command::Completions { shell }) => cmd::shell::completions(shell),
+        Some(Command::Manual) => cmd::shell::manual(),
         Some(Command::New { file }) => cmd::new::new_file(&file),
         Some(Command::Import(args)) => cmd::import::run(&args),
         Some(Command::Check { file }) => cmd::check::run(&file),
@@ -36,11 +38,12 @@ pub fn run(cli: Cli) -> Result<()> {
             file,
             common,
             format,
+            view,
         }) => {
             let prep = load(&file)?;
             match &common.samples {
                 Some(path) => cmd::report::run_samples_report(&prep, &common, path, format),
-                None => cmd::report::run_report(&prep, &common, format),
+                None => cmd::report::run_report(&prep, &common, format, &view),
             }
         }
         Some(Command::Mdf {

@@ -1,84 +1,96 @@
-//! The Markdown rendering: a table with verdicts and notes.
+//! The Markdown rendering: the per-step table (every column unless chosen),
+//! totals, coupled groups, the net per pass, verdicts and notes.
 
+use super::columns::{self, CellOptions, Column};
+use super::table::{control_legend, legend, summary_lines};
 use crate::analysis::{Analysis, Prepared, control};
-use crate::model::units;
-use crate::present::{EnergyUnit, class_symbol, clean, sd_partial};
+use crate::present::{Align, EnergyUnit, clean, fig3, verdict_words};
 use crate::scenario::State;
 
-/// A Markdown table with verdicts and notes.
+/// A Markdown table row; `|` inside a cell is escaped.
+pub fn md_row(cells: &[String]) -> String {
+    let cells: Vec<String> = cells.iter().map(|c| c.trim().replace('|', "\\|")).collect();
+    format!("| {} |\n", cells.join(" | "))
+}
+
+/// The rule under a Markdown header: `---:` for numbers.
+pub fn md_rule(al: &[Align]) -> String {
+    let parts: Vec<&str> = al
+        .iter()
+        .map(|a| match a {
+            Align::Left => "---",
+            Align::Right => "---:",
+        })
+        .collect();
+    format!("|{}|\n", parts.join("|"))
+}
+
+/// A Markdown report with every column.
 pub fn markdown(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) -> String {
+    markdown_with(prep, state, a, u, &columns::ALL)
+}
+
+/// A Markdown report with these columns.
+pub fn markdown_with(
+    prep: &Prepared,
+    state: &State,
+    a: &Analysis,
+    u: EnergyUnit,
+    cols: &[Column],
+) -> String {
     let p = &prep.pathway;
-    let ul = u.label();
     let c = &state.conditions;
     let mut out = format!(
-        "## {}\n\n{} route, {:.2} °C, pH {}, I = {} M\n\n| step | enzyme | turns | dG'° [{ul}] | dG' [{ul}] | class | share | cumulative [{ul}] | verdict | control | 5–95 % |\n|---|---|---:|---:|---:|---|---:|---:|---|---:|---|\n",
+        "## {}\n\n{} route, {:.2} °C, pH {}, I = {} M; energies in {} per turn of the step\n\n",
         p.name,
         a.direction.as_str(),
         c.temperature - 273.15,
         c.ph,
-        c.ionic_strength
+        c.ionic_strength,
+        u.label()
     );
-    for (k, s) in a.steps.iter().enumerate() {
-        let st = &p.steps[s.step];
-        out.push_str(&format!(
-            "| {}{}{} | {} | {} | {:.2} | {:.2} | {} {} | {} | {:.2} | {} | {} | {} |\n",
-            st.id,
-            if s.against {
-                " ⇄ **runs backward**"
-            } else {
-                ""
-            },
-            if a.largest_drop == Some(k) {
-                " **(largest drop)**"
-            } else {
-                ""
-            },
-            st.enzyme.clone().unwrap_or_default(),
-            units::sig3(s.times),
-            clean(u.of(s.dg0)),
-            clean(u.of(s.dg)),
-            class_symbol(s.class, false),
-            s.class.as_str(),
-            if s.share > 0.0 {
-                format!("{:.0} %", s.share * 100.0)
-            } else {
-                String::new()
-            },
-            clean(u.of(s.cumulative)),
-            s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
-            a.control_estimate
-                .coefficient(k)
-                .map_or("-".into(), |c| format!("{c:.3}")),
-            a.control_estimate
-                .range(k)
-                .map_or(String::new(), |(lo, hi)| format!("{lo:.3}–{hi:.3}"))
-        ));
+    let co = CellOptions {
+        unit: u,
+        ascii: false,
+        enzyme_width: None,
+    };
+    let rows = columns::grid(prep, a, cols, co);
+    let al: Vec<Align> = cols.iter().map(|c| c.align()).collect();
+    for (i, r) in rows.iter().enumerate() {
+        out.push_str(&md_row(r));
+        if i == 0 {
+            out.push_str(&md_rule(&al));
+        }
     }
-    out.push_str(&format!(
-        "\n**Total:** dG'° {:.2} {ul}, dG' {:.2} {ul}{}\n",
-        clean(u.of(a.total_dg0)),
-        clean(u.of(a.total_dg)),
-        a.total_sd
-            .map(|s| format!(" ± {:.2}{}", u.of(s), sd_partial(a)))
-            .unwrap_or_default()
-    ));
+    out.push('\n');
+    for l in summary_lines(prep, a, u) {
+        let (head, rest) = l.split_once(": ").unwrap_or((l.as_str(), ""));
+        out.push_str(&format!("- **{head}:** {rest}\n"));
+    }
     if !a.control.is_empty() {
         out.push_str("\n### Control\n\n");
         for v in &a.control {
+            let est = a
+                .control_estimate
+                .coefficient(v.position)
+                .map_or(String::new(), |c| {
+                    format!(" (flux control estimate {})", fig3(clean(c)))
+                });
             out.push_str(&format!(
-                "- **{}** `{}`: {}\n",
+                "- **{}** {}{est}: {}\n",
                 p.steps[a.steps[v.position].step].id,
-                v.kind.as_str(),
-                v.reasons.join("; ")
+                verdict_words(v.kind),
+                crate::present::reasons(v, u).join("; ")
             ));
         }
     }
-    for n in &a.notes {
+    for n in crate::present::notes(a, u) {
         out.push_str(&format!("\n> note: {n}\n"));
     }
     out.push_str(&format!(
-        "\n_{}{}_\n",
-        crate::report::table::control_legend(a).replace('\n', " "),
+        "\n_{}{}{}_\n",
+        legend(cols).replace('\n', " "),
+        control_legend(a).replace('\n', " "),
         control::CAUTION
     ));
     out

@@ -3,24 +3,17 @@
 //! Solver noise is cleaned here (no −0, no 1e-9 residues); nothing is computed
 //! beyond unit conversion.
 
+use super::json::{ConditionsJson, Ordered, num};
 use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
 use crate::analysis::{Direction, Prepared, Route};
 use crate::model::units;
-use crate::present::{EnergyUnit, clean, headline};
+use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, headline};
 use crate::scenario::State;
-use serde_json::{Map, Value, json};
+use serde::Serialize;
 
 /// What the reader should keep in mind beside the bottlenecks (science.md §9 [C]).
 pub const BOTTLENECK_CAUTION: &str = "A bottleneck here is costly in enzyme (little driving force to spare), not necessarily the step that controls the flux.";
-
-fn energy(x: f64) -> Value {
-    if x.is_finite() {
-        json!(clean(x))
-    } else {
-        Value::Null
-    }
-}
 
 /// A concentration (mol/L) rounded to 7 significant figures, for printing.
 pub fn conc_value(c: f64) -> f64 {
@@ -30,12 +23,8 @@ pub fn conc_value(c: f64) -> f64 {
     format!("{c:.6e}").parse().unwrap_or(c)
 }
 
-fn conc(c: f64) -> Value {
-    if c.is_finite() {
-        json!(conc_value(c))
-    } else {
-        Value::Null
-    }
+fn conc(c: f64) -> Option<f64> {
+    c.is_finite().then(|| conc_value(c))
 }
 
 /// MDF gain (J/mol) per 10-fold widening of a bound whose dual is `price`.
@@ -47,151 +36,155 @@ fn shown(m: &Mdf) -> impl Iterator<Item = usize> + '_ {
     (0..m.parts.len()).filter(|&c| m.parts[c] != Part::Absent)
 }
 
-/// The JSON document of cli.md (`mdf --format json`), with extra fields.
-pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> Value {
+/// A bound that limits the MDF.
+#[derive(Debug, Serialize)]
+pub struct LimitingJson {
+    /// Compound id.
+    pub compound: String,
+    /// lower or upper.
+    pub bound: &'static str,
+    /// The bound, mol/L.
+    pub bound_m: Option<f64>,
+    /// Its shadow price.
+    pub price: Option<f64>,
+    /// MDF gain per 10-fold wider bound, in the energy unit.
+    pub gain_per_decade: Option<f64>,
+}
+
+/// The whole document of `mdf --format json`.
+#[derive(Debug, Serialize)]
+pub struct MdfJson {
+    /// Pathway name.
+    pub pathway: String,
+    /// forward or reverse.
+    pub direction: &'static str,
+    /// The max-min driving force.
+    pub mdf: Option<f64>,
+    /// kJ/mol or kcal/mol.
+    pub energy_unit: &'static str,
+    /// MDF ≥ 0: the whole route can run forward within the bounds.
+    pub feasible: bool,
+    /// Conditions.
+    pub conditions: ConditionsJson,
+    /// Steps with a non-zero shadow price.
+    pub bottlenecks: Vec<String>,
+    /// One optimum, mol/L.
+    pub concentrations_m: Ordered<Option<f64>>,
+    /// −dG' per step at the optimum.
+    pub driving_forces: Ordered<Option<f64>>,
+    /// Shadow price per step.
+    pub prices: Ordered<Option<f64>>,
+    /// dG'° per step as run.
+    pub dg0: Ordered<Option<f64>>,
+    /// Range of each compound while the MDF holds, mol/L.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub ranges_m: Option<Ordered<[Option<f64>; 2]>>,
+    /// Bounds, mol/L.
+    pub bounds_m: Ordered<[Option<f64>; 2]>,
+    /// Compounds held because the file fixes them (or their bounds are equal).
+    pub fixed: Vec<String>,
+    /// Every compound held at its scenario value (fixed ones and carriers).
+    pub held: Vec<String>,
+    /// Per free compound, the range within which the route can run at all
+    /// (every step at −dG' ≥ 0), mol/L; null when MDF < 0.
+    pub feasible_ranges_m: Option<Ordered<[Option<f64>; 2]>>,
+    /// Bounds that limit the MDF.
+    pub limiting: Vec<LimitingJson>,
+    /// Warnings in words.
+    pub warnings: Vec<String>,
+}
+
+/// The typed document of cli.md (`mdf --format json`), with extra fields.
+pub fn mdf_json(prep: &Prepared, state: &State, m: &Mdf, u: EnergyUnit) -> MdfJson {
     let p = &prep.pathway;
     let c = &state.conditions;
     let step_id = |k: usize| p.steps[m.steps[k]].id.clone();
-    let mut doc = Map::new();
-    doc.insert("pathway".into(), json!(p.name));
-    doc.insert("direction".into(), json!(m.direction.as_str()));
-    doc.insert("mdf".into(), energy(u.of(m.value)));
-    doc.insert("energy_unit".into(), json!(u.label()));
-    doc.insert("feasible".into(), json!(m.feasible()));
-    doc.insert(
-        "conditions".into(),
-        json!({
-            "temperature_k": clean(c.temperature),
-            "ph": clean(c.ph),
-            "ionic_strength_m": clean(c.ionic_strength),
-            "rt": energy(u.of(m.rt)),
-        }),
-    );
-    doc.insert(
-        "bottlenecks".into(),
-        json!(
-            m.bottlenecks
-                .iter()
-                .map(|&k| step_id(k))
-                .collect::<Vec<_>>()
-        ),
-    );
-    let mut prices = Map::new();
-    let mut forces = Map::new();
-    let mut dg0 = Map::new();
-    for k in 0..m.steps.len() {
-        prices.insert(step_id(k), energy(m.prices[k]));
-        forces.insert(step_id(k), energy(u.of(m.driving_forces[k])));
-        dg0.insert(step_id(k), energy(u.of(m.dg0[k])));
-    }
-    let mut concs = Map::new();
-    let mut bounds = Map::new();
-    let mut ranges = Map::new();
-    let mut fixed = Vec::new();
-    let mut held = Vec::new();
-    let mut feasible = Map::new();
-    for ci in shown(m) {
-        let id = p.compounds[ci].id.clone();
-        concs.insert(id.clone(), conc(m.conc[ci]));
-        bounds.insert(
-            id.clone(),
-            json!([conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
-        );
-        if let Some(r) = &m.ranges {
-            ranges.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
-        }
-        if m.parts[ci] == Part::Held {
-            let (lo, hi) = p.bounds_of(ci);
-            if p.compounds[ci].fixed == Some(true) || lo == hi {
-                fixed.push(id.clone());
-            }
-            held.push(id.clone());
-        }
-        if let (Some(r), Part::Free) = (&m.feasible_ranges, m.parts[ci]) {
-            feasible.insert(id.clone(), json!([conc(r[ci].0), conc(r[ci].1)]));
-        }
-    }
-    doc.insert("concentrations_m".into(), Value::Object(concs));
-    doc.insert("driving_forces".into(), Value::Object(forces));
-    doc.insert("prices".into(), Value::Object(prices));
-    doc.insert("dg0".into(), Value::Object(dg0));
-    if m.ranges.is_some() {
-        doc.insert("ranges_m".into(), Value::Object(ranges));
-    }
-    doc.insert("bounds_m".into(), Value::Object(bounds));
-    doc.insert("fixed".into(), json!(fixed));
-    doc.insert("held".into(), json!(held));
-    doc.insert(
-        "feasible_ranges_m".into(),
-        if m.feasible_ranges.is_some() {
-            Value::Object(feasible)
-        } else {
-            Value::Null
+    let per_step = |f: &dyn Fn(usize) -> f64| {
+        Ordered(
+            (0..m.steps.len())
+                .map(|k| (step_id(k), num(f(k))))
+                .collect(),
+        )
+    };
+    let per_compound = |f: &dyn Fn(usize) -> [Option<f64>; 2]| {
+        Ordered(
+            shown(m)
+                .map(|ci| (p.compounds[ci].id.clone(), f(ci)))
+                .collect(),
+        )
+    };
+    MdfJson {
+        pathway: p.name.clone(),
+        direction: m.direction.as_str(),
+        mdf: num(u.of(m.value)),
+        energy_unit: u.label(),
+        feasible: m.feasible(),
+        conditions: ConditionsJson {
+            temperature_k: num(c.temperature),
+            ph: num(c.ph),
+            ionic_strength_m: num(c.ionic_strength),
+            rt: num(u.of(m.rt)),
         },
-    );
-    let limiting: Vec<Value> = m
-        .limiting
-        .iter()
-        .map(|&(ci, b, price)| {
-            let at = match b {
-                Bound::Lower => m.bounds[ci].0,
-                Bound::Upper => m.bounds[ci].1,
-            };
-            json!({
-                "compound": p.compounds[ci].id,
-                "bound": b.as_str(),
-                "bound_m": conc(at),
-                "price": energy(price),
-                "gain_per_decade": energy(u.of(gain_per_decade(m, price))),
+        bottlenecks: m.bottlenecks.iter().map(|&k| step_id(k)).collect(),
+        concentrations_m: Ordered(
+            shown(m)
+                .map(|ci| (p.compounds[ci].id.clone(), conc(m.conc[ci])))
+                .collect(),
+        ),
+        driving_forces: per_step(&|k| u.of(m.driving_forces[k])),
+        prices: per_step(&|k| m.prices[k]),
+        dg0: per_step(&|k| u.of(m.dg0[k])),
+        ranges_m: m
+            .ranges
+            .as_ref()
+            .map(|r| per_compound(&|ci| [conc(r[ci].0), conc(r[ci].1)])),
+        bounds_m: per_compound(&|ci| [conc(m.bounds[ci].0), conc(m.bounds[ci].1)]),
+        fixed: shown(m)
+            .filter(|&ci| {
+                let (lo, hi) = p.bounds_of(ci);
+                m.parts[ci] == Part::Held && (p.compounds[ci].fixed == Some(true) || lo == hi)
             })
-        })
-        .collect();
-    doc.insert("limiting".into(), Value::Array(limiting));
-    doc.insert("warnings".into(), json!(m.warnings));
-    Value::Object(doc)
+            .map(|ci| p.compounds[ci].id.clone())
+            .collect(),
+        held: shown(m)
+            .filter(|&ci| m.parts[ci] == Part::Held)
+            .map(|ci| p.compounds[ci].id.clone())
+            .collect(),
+        feasible_ranges_m: m.feasible_ranges.as_ref().map(|r| {
+            Ordered(
+                shown(m)
+                    .filter(|&ci| m.parts[ci] == Part::Free)
+                    .map(|ci| (p.compounds[ci].id.clone(), [conc(r[ci].0), conc(r[ci].1)]))
+                    .collect(),
+            )
+        }),
+        limiting: m
+            .limiting
+            .iter()
+            .map(|&(ci, b, price)| LimitingJson {
+                compound: p.compounds[ci].id.clone(),
+                bound: b.as_str(),
+                bound_m: conc(match b {
+                    Bound::Lower => m.bounds[ci].0,
+                    Bound::Upper => m.bounds[ci].1,
+                }),
+                price: num(price),
+                gain_per_decade: num(u.of(gain_per_decade(m, price))),
+            })
+            .collect(),
+        warnings: m.warnings.clone(),
+    }
 }
 
-/// Two decimals with no negative zero ("-0.00").
-fn two(x: f64) -> String {
-    let r = (clean(x) * 100.0).round() / 100.0;
-    format!("{:.2}", if r == 0.0 { 0.0 } else { r })
-}
-
-fn conc_text(c: f64, ascii: bool) -> String {
+/// A concentration in the unit that reads best.
+pub fn conc_text(c: f64, ascii: bool) -> String {
     units::format_conc(conc_value(c), ascii)
 }
 
-fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
+/// "lo to hi", or one value when both read the same.
+pub fn range_text(lo: f64, hi: f64, ascii: bool) -> String {
     let (a, b) = (conc_text(lo, ascii), conc_text(hi, ascii));
     if a == b { a } else { format!("{a} to {b}") }
-}
-
-fn pad(cells: &[Vec<String>], right: &[bool]) -> Vec<String> {
-    let ncol = cells.first().map_or(0, |r| r.len());
-    let mut w = vec![0usize; ncol];
-    for r in cells {
-        for (i, c) in r.iter().enumerate() {
-            w[i] = w[i].max(c.chars().count());
-        }
-    }
-    cells
-        .iter()
-        .map(|r| {
-            let line: Vec<String> = r
-                .iter()
-                .enumerate()
-                .map(|(i, c)| {
-                    let fill = " ".repeat(w[i] - c.chars().count());
-                    if right[i] {
-                        format!("{fill}{c}")
-                    } else {
-                        format!("{c}{fill}")
-                    }
-                })
-                .collect();
-            line.join("  ").trim_end().to_string()
-        })
-        .collect()
 }
 
 /// Which compounds the optimisation held at their concentrations, and how to free them.
@@ -225,9 +218,8 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     let p = &prep.pathway;
     let u = o.unit;
     let ul = u.label();
-    let c = &state.conditions;
-    let mut out = headline(&p.name, m.direction, c);
-    let v = two(u.of(m.value));
+    let mut out = headline(&p.name, m.direction, &state.conditions);
+    let v = energy3(u.of(m.value));
     let way = match m.direction {
         Direction::Forward => "forward",
         Direction::Reverse => "in reverse",
@@ -242,6 +234,33 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
         ));
     }
     out.push_str(&held_line(p, m));
+    let al = [
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Right,
+        Align::Right,
+        Align::Left,
+    ];
+    out.push_str(&aligned_lines(&step_rows(prep, m, o), &al));
+    out.push_str(&limits_text(prep, m, o));
+    out.push('\n');
+    let al = [
+        Align::Left,
+        Align::Left,
+        Align::Right,
+        Align::Left,
+        Align::Left,
+    ];
+    out.push_str(&aligned_lines(&compound_rows(prep, m, o.ascii), &al));
+    out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
+    out
+}
+
+/// Header and one row per route step: energies, price, bottleneck mark.
+fn step_rows(prep: &Prepared, m: &Mdf, o: TextOptions) -> Vec<Vec<String>> {
+    let u = o.unit;
+    let ul = u.label();
     let mark = if o.ascii { "<" } else { "◀" };
     let mut rows = vec![vec![
         "step".to_string(),
@@ -251,13 +270,13 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
         "price".to_string(),
         String::new(),
     ]];
+    let route = prep.route(m.direction).ok();
     for k in 0..m.steps.len() {
-        let st = &p.steps[m.steps[k]];
-        let reversed = prep
-            .route(m.direction)
-            .ok()
+        let st = &prep.pathway.steps[m.steps[k]];
+        let reversed = route
             .and_then(|r| r.steps.get(k))
             .is_some_and(|r| r.sign < 0.0);
+        let priced = m.prices[k] > 0.0;
         rows.push(vec![
             if reversed {
                 format!("{} (rev)", st.id)
@@ -265,61 +284,64 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
                 st.id.clone()
             },
             st.enzyme.clone().unwrap_or_default(),
-            two(u.of(m.dg0[k])),
-            two(u.of(m.driving_forces[k])),
-            if m.prices[k] > 0.0 {
-                format!("{:.3}", clean(m.prices[k]))
+            energy3(u.of(m.dg0[k])),
+            energy3(u.of(m.driving_forces[k])),
+            if priced {
+                fig3(clean(m.prices[k]))
             } else {
                 "0".into()
             },
-            if m.prices[k] > 0.0 {
+            if priced {
                 format!("{mark} bottleneck")
             } else {
                 String::new()
             },
         ]);
     }
-    let lines = pad(&rows, &[false, false, true, true, true, false]);
-    out.push_str(&lines[0]);
-    out.push('\n');
-    out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
-    out.push('\n');
-    for l in &lines[1..] {
-        out.push_str(l);
-        out.push('\n');
-    }
+    rows
+}
+
+/// The bottlenecks and the limiting bounds with their gains.
+fn limits_text(prep: &Prepared, m: &Mdf, o: TextOptions) -> String {
+    let p = &prep.pathway;
+    let u = o.unit;
+    let ul = u.label();
     let ids: Vec<&str> = m
         .bottlenecks
         .iter()
         .map(|&k| p.steps[m.steps[k]].id.as_str())
         .collect();
-    out.push_str(&format!(
+    let mut out = format!(
         "\nbottlenecks: {} (shadow prices sum to 1: each one's share of the limitation)\n",
         if ids.is_empty() {
             "none".to_string()
         } else {
             ids.join(", ")
         }
-    ));
+    );
     if m.limiting.is_empty() {
         out.push_str("limiting bounds: none\n");
-    } else {
-        out.push_str("limiting bounds (MDF gain per 10-fold wider bound):\n");
-        for &(ci, b, price) in &m.limiting {
-            let (at, dir) = match b {
-                Bound::Lower => (m.bounds[ci].0, "lower"),
-                Bound::Upper => (m.bounds[ci].1, "upper"),
-            };
-            out.push_str(&format!(
-                "  {} at its {dir} bound {}: +{:.2} {ul} (price {:.3})\n",
-                p.compounds[ci].id,
-                conc_text(at, o.ascii),
-                clean(u.of(gain_per_decade(m, price))),
-                clean(price)
-            ));
-        }
+        return out;
     }
-    out.push('\n');
+    out.push_str("limiting bounds (MDF gain per 10-fold wider bound):\n");
+    for &(ci, b, price) in &m.limiting {
+        let (at, dir) = match b {
+            Bound::Lower => (m.bounds[ci].0, "lower"),
+            Bound::Upper => (m.bounds[ci].1, "upper"),
+        };
+        out.push_str(&format!(
+            "  {} at its {dir} bound {}: +{} {ul} (price {})\n",
+            p.compounds[ci].id,
+            conc_text(at, o.ascii),
+            energy3(u.of(gain_per_decade(m, price))),
+            fig3(clean(price))
+        ));
+    }
+    out
+}
+
+/// Header and one row per compound: bounds, optimum, range.
+fn compound_rows(prep: &Prepared, m: &Mdf, ascii: bool) -> Vec<Vec<String>> {
     let mut rows = vec![vec![
         "compound".to_string(),
         "bounds".to_string(),
@@ -338,36 +360,26 @@ pub fn mdf_table(prep: &Prepared, state: &State, m: &Mdf, o: TextOptions) -> Str
     for ci in shown(m) {
         let held = m.parts[ci] == Part::Held;
         rows.push(vec![
-            p.compounds[ci].id.clone(),
+            prep.pathway.compounds[ci].id.clone(),
             if held {
                 "held".to_string()
             } else {
-                range_text(m.bounds[ci].0, m.bounds[ci].1, o.ascii)
+                range_text(m.bounds[ci].0, m.bounds[ci].1, ascii)
             },
-            conc_text(m.conc[ci], o.ascii),
+            conc_text(m.conc[ci], ascii),
             match (&m.ranges, held) {
                 (Some(_), true) => "held".to_string(),
-                (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, ascii),
                 (None, _) => String::new(),
             },
             match (&m.feasible_ranges, held) {
                 (Some(_), true) => "held".to_string(),
-                (Some(r), false) => range_text(r[ci].0, r[ci].1, o.ascii),
+                (Some(r), false) => range_text(r[ci].0, r[ci].1, ascii),
                 (None, _) => String::new(),
             },
         ]);
     }
-    let lines = pad(&rows, &[false, false, true, false, false]);
-    for (i, l) in lines.iter().enumerate() {
-        out.push_str(l);
-        out.push('\n');
-        if i == 0 {
-            out.push_str(&"-".repeat(lines.iter().map(|l| l.chars().count()).max().unwrap_or(0)));
-            out.push('\n');
-        }
-    }
-    out.push_str(&format!("\n{BOTTLENECK_CAUTION}\n"));
-    out
+    rows
 }
 
 /// The ids of an optimum's bottleneck steps, in route order.
@@ -378,29 +390,73 @@ fn bottleneck_ids(prep: &Prepared, route: &Route, m: &Mdf) -> Vec<String> {
         .collect()
 }
 
+/// One sample's optimum.
+#[derive(Debug, Serialize)]
+pub struct SampleMdfJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its MDF.
+    pub mdf: Option<f64>,
+    /// Its bottleneck steps.
+    pub bottlenecks: Vec<String>,
+}
+
+/// `mdf --samples --format json`.
+#[derive(Debug, Serialize)]
+pub struct SamplesMdfJson {
+    /// Pathway name.
+    pub pathway: String,
+    /// forward or reverse.
+    pub direction: &'static str,
+    /// kJ/mol or kcal/mol.
+    pub energy_unit: &'static str,
+    /// One optimum per sample.
+    pub samples: Vec<SampleMdfJson>,
+}
+
 /// `mdf --samples --format json`: one optimum (MDF and bottlenecks) per sample.
 pub fn samples_json(
     prep: &Prepared,
     route: &Route,
     rows: &[(String, Mdf)],
     u: EnergyUnit,
-) -> Value {
-    let list: Vec<Value> = rows
-        .iter()
-        .map(|(name, m)| {
-            json!({
-                "sample": name,
-                "mdf": clean(u.of(m.value)),
-                "bottlenecks": bottleneck_ids(prep, route, m),
+) -> SamplesMdfJson {
+    SamplesMdfJson {
+        pathway: prep.pathway.name.clone(),
+        direction: route.direction.as_str(),
+        energy_unit: u.label(),
+        samples: rows
+            .iter()
+            .map(|(name, m)| SampleMdfJson {
+                sample: name.clone(),
+                mdf: num(u.of(m.value)),
+                bottlenecks: bottleneck_ids(prep, route, m),
             })
-        })
-        .collect();
-    json!({
-        "pathway": prep.pathway.name,
-        "direction": route.direction.as_str(),
-        "energy_unit": u.label(),
-        "samples": list,
-    })
+            .collect(),
+    }
+}
+
+/// `mdf --samples --format csv`: one row per sample (MDF, bottlenecks joined by spaces).
+pub fn samples_csv(
+    prep: &Prepared,
+    route: &Route,
+    rows: &[(String, Mdf)],
+    u: EnergyUnit,
+) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let _ = w.write_record([
+        "sample".to_string(),
+        format!("mdf [{}]", u.label()),
+        "bottlenecks".into(),
+    ]);
+    for (name, m) in rows {
+        let _ = w.write_record([
+            name.clone(),
+            crate::present::full(clean(u.of(m.value))),
+            bottleneck_ids(prep, route, m).join(" "),
+        ]);
+    }
+    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
 }
 
 /// `mdf --samples`: one line per sample with its MDF and bottlenecks.

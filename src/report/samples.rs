@@ -3,19 +3,18 @@
 //! summary across samples as a table, Markdown or JSON. Nothing here computes
 //! results; the numbers come from `analysis::batch`.
 
+use super::json::{ConditionsJson, Ordered, num};
 use super::table::TextOptions;
 use crate::analysis::batch::{StepSpread, Summary, prime_of};
 use crate::analysis::{Analysis, Class, Prepared};
-use crate::present::{EnergyUnit, clean};
+use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, full};
 use crate::scenario::State;
-use serde_json::{Map, Value, json};
+use serde::Serialize;
+use serde_json::Value;
 
-fn num(x: f64) -> Value {
-    if x.is_finite() {
-        json!(clean(x))
-    } else {
-        Value::Null
-    }
+/// Text of a JSON value (strings quoted and escaped).
+fn text<T: Serialize + ?Sized>(v: &T) -> String {
+    serde_json::to_string(v).unwrap_or_default()
 }
 
 fn step_id<'a>(prep: &'a Prepared, a: &Analysis, k: usize) -> &'a str {
@@ -36,15 +35,15 @@ pub fn csv_rows(prep: &Prepared, name: &str, a: &Analysis, u: EnergyUnit) -> Str
         let _ = w.write_record([
             name,
             &prep.pathway.steps[s.step].id,
-            &format!("{}", clean(u.of(s.dg0))),
-            &format!("{}", clean(u.of(s.dg))),
+            &full(clean(u.of(s.dg0))),
+            &full(clean(u.of(s.dg))),
             s.class.as_str(),
             if s.against { "true" } else { "false" },
             s.verdict.map(|v| a.control[v].kind.as_str()).unwrap_or(""),
-            &format!("{}", clean(u.of(s.cumulative))),
+            &full(clean(u.of(s.cumulative))),
             &a.control_estimate
                 .coefficient(k)
-                .map(|c| format!("{}", clean(c)))
+                .map(|c| full(clean(c)))
                 .unwrap_or_default(),
         ]);
     }
@@ -74,7 +73,7 @@ struct SampleRow<'a> {
     steps: Vec<StepRow<'a>>,
     total: Total,
     largest_drop: Option<&'a str>,
-    prime: Option<&'a str>,
+    control_point: Option<&'a str>,
     runs_forward: bool,
 }
 
@@ -104,7 +103,7 @@ fn sample_row<'a>(prep: &'a Prepared, name: &'a str, a: &Analysis, u: EnergyUnit
             dg: opt(u.of(a.total_dg)),
         },
         largest_drop: a.largest_drop.map(|k| step_id(prep, a, k)),
-        prime: prime_of(a).map(|k| step_id(prep, a, k)),
+        control_point: prime_of(a).map(|k| step_id(prep, a, k)),
         runs_forward: a.runs_forward,
     }
 }
@@ -120,10 +119,15 @@ pub fn json_head(prep: &Prepared, state: &State, u: EnergyUnit) -> String {
     let rt = crate::thermo::rt(c.temperature);
     format!(
         "{{\n  \"pathway\": {},\n  \"direction\": {},\n  \"energy_unit\": {},\n  \"conditions\": {},\n  \"samples\": [\n",
-        json!(prep.pathway.name),
-        json!(state.direction.as_str()),
-        json!(u.label()),
-        json!({ "temperature_k": num(c.temperature), "ph": num(c.ph), "ionic_strength_m": num(c.ionic_strength), "rt": num(u.of(rt)) }),
+        text(&prep.pathway.name),
+        text(state.direction.as_str()),
+        text(u.label()),
+        text(&ConditionsJson {
+            temperature_k: num(c.temperature),
+            ph: num(c.ph),
+            ionic_strength_m: num(c.ionic_strength),
+            rt: num(u.of(rt)),
+        }),
     )
 }
 
@@ -143,53 +147,141 @@ fn spread_id<'a>(prep: &'a Prepared, s: &StepSpread) -> &'a str {
     &prep.pathway.steps[s.step].id
 }
 
-/// The summary as JSON (the `summary` member of the samples document).
-pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> Value {
-    let steps: Vec<Value> = sum
-        .steps
+/// One step of the summary across samples.
+#[derive(Debug, Serialize)]
+pub struct SpreadJson {
+    /// Step id.
+    pub id: String,
+    /// dG'° (the same in every sample).
+    pub dg0: Option<f64>,
+    /// Median dG'.
+    pub dg_median: Option<f64>,
+    /// 10th percentile of dG'.
+    pub dg_p10: Option<f64>,
+    /// 90th percentile of dG'.
+    pub dg_p90: Option<f64>,
+    /// Smallest dG'.
+    pub dg_min: Option<f64>,
+    /// Largest dG'.
+    pub dg_max: Option<f64>,
+    /// Samples per class.
+    pub classes: Ordered<usize>,
+    /// Samples in which it is the largest drop.
+    pub largest_drop: usize,
+    /// Samples in which it is the control point.
+    pub control_point: usize,
+    /// Samples in which it runs backward (dG' > 0).
+    pub against: usize,
+    /// The names of those samples.
+    pub against_samples: Vec<String>,
+    /// Median flux control estimate.
+    pub control_coefficient_median: Option<f64>,
+    /// Samples behind that median.
+    pub control_samples: usize,
+}
+
+/// A sample and its class (or control point).
+#[derive(Debug, Serialize)]
+pub struct SampleClassJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its class.
+    pub class: &'static str,
+}
+
+/// A step whose class differs between samples.
+#[derive(Debug, Serialize)]
+pub struct ClassDiffersJson {
+    /// Step id.
+    pub step: String,
+    /// Its most common class.
+    pub usual: &'static str,
+    /// The samples outside it.
+    pub samples: Vec<SampleClassJson>,
+}
+
+/// A sample whose control point is not the usual one.
+#[derive(Debug, Serialize)]
+pub struct PointDiffersJson {
+    /// Sample name.
+    pub sample: String,
+    /// Its control point (null: none).
+    pub control_point: Option<String>,
+}
+
+/// The summary across samples.
+#[derive(Debug, Serialize)]
+pub struct SummaryJson {
+    /// Number of samples.
+    pub samples: usize,
+    /// Per route step.
+    pub steps: Vec<SpreadJson>,
+    /// The most common control point.
+    pub usual_control_point: Option<String>,
+    /// Steps whose class changes.
+    pub class_differs: Vec<ClassDiffersJson>,
+    /// Samples with another control point.
+    pub control_point_differs: Vec<PointDiffersJson>,
+    /// Samples in which the whole route runs forward.
+    pub runs_forward: usize,
+}
+
+fn spread_json(prep: &Prepared, s: &StepSpread, u: EnergyUnit) -> SpreadJson {
+    let classes = [Class::Far, Class::Moderate, Class::Near, Class::Uphill]
         .iter()
-        .map(|s| {
-            let mut classes = Map::new();
-            for c in [Class::Far, Class::Moderate, Class::Near, Class::Uphill] {
-                classes.insert(c.as_str().into(), json!(s.classes.of(c)));
-            }
-            json!({
-                "id": spread_id(prep, s),
-                "dg0": num(u.of(s.dg0)),
-                "dg_median": num(u.of(s.median)),
-                "dg_p10": num(u.of(s.p10)),
-                "dg_p90": num(u.of(s.p90)),
-                "dg_min": num(u.of(s.min)),
-                "dg_max": num(u.of(s.max)),
-                "classes": Value::Object(classes),
-                "largest_drop": s.largest,
-                "prime": s.prime,
-                "against": s.against,
-                "against_samples": s.against_samples,
-                "control_coefficient_median": s.control_median.map_or(Value::Null, num),
-                "control_samples": s.control_samples,
-            })
-        })
+        .map(|&c| (c.as_str().to_string(), s.classes.of(c)))
         .collect();
-    let id = |p: Option<usize>| p.map_or(Value::Null, |k| json!(spread_id(prep, &sum.steps[k])));
-    json!({
-        "samples": sum.samples,
-        "steps": steps,
-        "usual_prime": id(sum.usual_prime),
-        "class_differs": sum
+    SpreadJson {
+        id: spread_id(prep, s).to_string(),
+        dg0: num(u.of(s.dg0)),
+        dg_median: num(u.of(s.median)),
+        dg_p10: num(u.of(s.p10)),
+        dg_p90: num(u.of(s.p90)),
+        dg_min: num(u.of(s.min)),
+        dg_max: num(u.of(s.max)),
+        classes: Ordered(classes),
+        largest_drop: s.largest,
+        control_point: s.prime,
+        against: s.against,
+        against_samples: s.against_samples.clone(),
+        control_coefficient_median: s.control_median.and_then(num),
+        control_samples: s.control_samples,
+    }
+}
+
+/// The summary as JSON (the `summary` member of the samples document).
+pub fn json_summary(prep: &Prepared, sum: &Summary, u: EnergyUnit) -> SummaryJson {
+    let id = |p: Option<usize>| p.map(|k| spread_id(prep, &sum.steps[k]).to_string());
+    SummaryJson {
+        samples: sum.samples,
+        steps: sum.steps.iter().map(|s| spread_json(prep, s, u)).collect(),
+        usual_control_point: id(sum.usual_prime),
+        class_differs: sum
             .class_differs
             .iter()
-            .map(|d| {
-                json!({
-                    "step": spread_id(prep, &sum.steps[d.position]),
-                    "usual": d.usual.as_str(),
-                    "samples": d.samples.iter().map(|(n, c)| json!({ "sample": n, "class": c.as_str() })).collect::<Vec<_>>(),
-                })
+            .map(|d| ClassDiffersJson {
+                step: spread_id(prep, &sum.steps[d.position]).to_string(),
+                usual: d.usual.as_str(),
+                samples: d
+                    .samples
+                    .iter()
+                    .map(|(n, c)| SampleClassJson {
+                        sample: n.clone(),
+                        class: c.as_str(),
+                    })
+                    .collect(),
             })
-            .collect::<Vec<_>>(),
-        "prime_differs": sum.prime_differs.iter().map(|(n, p)| json!({ "sample": n, "prime": id(*p) })).collect::<Vec<_>>(),
-        "runs_forward": sum.runs_forward,
-    })
+            .collect(),
+        control_point_differs: sum
+            .prime_differs
+            .iter()
+            .map(|(n, p)| PointDiffersJson {
+                sample: n.clone(),
+                control_point: id(*p),
+            })
+            .collect(),
+        runs_forward: sum.runs_forward,
+    }
 }
 
 /// The closing of the streamed JSON document, with the summary.
@@ -267,14 +359,14 @@ fn prime_lines(prep: &Prepared, sum: &Summary) -> Vec<String> {
         .map_or("none", |k| spread_id(prep, &sum.steps[k]));
     let same = sum.samples - sum.prime_differs.len();
     let mut out = vec![format!(
-        "usual prime step: {usual} ({same} of {} samples)",
+        "usual control point: {usual} ({same} of {} samples)",
         sum.samples
     )];
     if sum.prime_differs.is_empty() {
-        out.push("the prime step is the same in every sample".into());
+        out.push("the control point is the same in every sample".into());
     } else {
         out.push(format!(
-            "prime step differs in {} sample{}: {}",
+            "control point differs in {} sample{}: {}",
             sum.prime_differs.len(),
             if sum.prime_differs.len() == 1 {
                 ""
@@ -334,41 +426,30 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
         c.ph,
         c.ionic_strength
     );
-    let w = sum
-        .steps
-        .iter()
-        .map(|s| spread_id(prep, s).chars().count())
-        .max()
-        .unwrap_or(4)
-        .max(4);
-    let head = format!(
-        "{:<w$}  {:>14}  {:>17}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}",
-        "step",
-        format!("dG'° [{ul}]"),
-        format!("median dG' [{ul}]"),
-        "dG' 10–90 % range",
-        "far",
-        "moderate",
-        "near",
-        "uphill",
-        "largest drop",
-        "prime",
-        "backward",
-        "median control"
-    );
-    let width = head.chars().count();
-    out.push_str(&head);
-    out.push('\n');
-    out.push_str(&"-".repeat(width));
-    out.push('\n');
     let n = sum.samples;
+    let mut rows = vec![
+        [
+            "step".to_string(),
+            format!("dG'° [{ul}]"),
+            format!("median dG' [{ul}]"),
+            "dG' 10–90 % range".to_string(),
+            "far".into(),
+            "moderate".into(),
+            "near".into(),
+            "uphill".into(),
+            "largest drop".into(),
+            "control point".into(),
+            "backward".into(),
+            "median control".into(),
+        ]
+        .to_vec(),
+    ];
     for s in &sum.steps {
-        out.push_str(&format!(
-            "{:<w$}  {:>14.2}  {:>17.2}  {:>21}  {:>6}  {:>8}  {:>6}  {:>6}  {:>12}  {:>6}  {:>9}  {:>14}\n",
-            spread_id(prep, s),
-            clean(u.of(s.dg0)),
-            clean(u.of(s.median)),
-            format!("{:.2} {dash} {:.2}", clean(u.of(s.p10)), clean(u.of(s.p90))),
+        rows.push(vec![
+            spread_id(prep, s).to_string(),
+            energy3(u.of(s.dg0)),
+            energy3(u.of(s.median)),
+            format!("{} {dash} {}", energy3(u.of(s.p10)), energy3(u.of(s.p90))),
             pct(s.classes.far, n),
             pct(s.classes.moderate, n),
             pct(s.classes.near, n),
@@ -377,8 +458,11 @@ pub fn table(prep: &Prepared, state: &State, sum: &Summary, o: TextOptions) -> S
             pct(s.prime, n),
             backward(s.against, n),
             control_cell(s),
-        ));
+        ]);
     }
+    let mut al = vec![Align::Right; 12];
+    al[0] = Align::Left;
+    out.push_str(&aligned_lines(&rows, &al));
     out.push('\n');
     for l in against_lines(prep, sum) {
         out.push_str(&l);
@@ -407,7 +491,7 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     let ul = u.label();
     let n = sum.samples;
     let mut out = format!(
-        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | prime | backward | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
+        "## {} — {n} samples\n\n{} route, {:.2} °C, pH {}\n\n| step | dG'° [{ul}] | median dG' [{ul}] | 10–90 % [{ul}] | far | moderate | near | uphill | largest drop | control point | backward | median control |\n|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n",
         prep.pathway.name,
         state.direction.as_str(),
         state.conditions.temperature - 273.15,
@@ -415,12 +499,12 @@ pub fn markdown(prep: &Prepared, state: &State, sum: &Summary, u: EnergyUnit) ->
     );
     for s in &sum.steps {
         out.push_str(&format!(
-            "| {} | {:.2} | {:.2} | {:.2} to {:.2} | {} | {} | {} | {} | {} | {} | {} | {} |\n",
+            "| {} | {} | {} | {} to {} | {} | {} | {} | {} | {} | {} | {} | {} |\n",
             spread_id(prep, s),
-            clean(u.of(s.dg0)),
-            clean(u.of(s.median)),
-            clean(u.of(s.p10)),
-            clean(u.of(s.p90)),
+            energy3(u.of(s.dg0)),
+            energy3(u.of(s.median)),
+            energy3(u.of(s.p10)),
+            energy3(u.of(s.p90)),
             pct(s.classes.far, n),
             pct(s.classes.moderate, n),
             pct(s.classes.near, n),
@@ -454,8 +538,8 @@ fn control_cell(s: &StepSpread) -> String {
             if s.control_samples
                 == s.classes.far + s.classes.moderate + s.classes.near + s.classes.uphill =>
         {
-            format!("{m:.3}")
+            fig3(clean(m))
         }
-        Some(m) => format!("{m:.3} ({})", s.control_samples),
+        Some(m) => format!("{} ({})", fig3(clean(m)), s.control_samples),
     }
 }

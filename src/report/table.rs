@@ -1,8 +1,11 @@
 //! The aligned text table for people, with colour on a terminal.
 
-use crate::analysis::{Analysis, Class, Prepared, StepResult, control};
-use crate::model::units;
-use crate::present::{EnergyUnit, class_symbol, clean, headline, sci, sd_partial, verdict_symbol};
+use super::columns::{self, CellOptions, Column};
+use crate::analysis::{Analysis, Class, Prepared, control};
+use crate::present::{
+    EnergyUnit, align, amount, clean, energy3, fig3, headline, sd_partial, to_ascii,
+    verdict_symbol, wrap,
+};
 use crate::scenario::State;
 
 /// Options for the text renderings.
@@ -33,257 +36,191 @@ fn class_color(c: Class) -> &'static str {
     }
 }
 
-/// Share of forward flux undone by the reverse, as a percentage (only for downhill steps).
-fn undone(s: &StepResult, rt: f64) -> String {
-    match s.reverse_share(rt) {
-        Some(r) => format!("{:.1} %", r * 100.0),
-        None => "-".into(),
-    }
+/// Width at which the prose under the table is wrapped.
+const WRAP: usize = 100;
+
+/// The table with the default columns (they fit 120 characters on the demo).
+pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> String {
+    table_with(prep, state, a, o, &columns::default_for(a))
 }
 
-/// The aligned table with verdicts, notes and the closing caution.
-pub fn table(prep: &Prepared, state: &State, a: &Analysis, o: TextOptions) -> String {
-    let p = &prep.pathway;
-    let u = o.unit;
-    let c = &state.conditions;
-    let mut out = String::new();
-    out.push_str(&headline(&p.name, a.direction, c));
-    let ul = u.label();
-    let head = vec![
-        "step".to_string(),
-        "enzyme".to_string(),
-        "turns".to_string(),
-        format!("dG'° [{ul}]"),
-        format!("dG' [{ul}]"),
-        format!("± sd [{ul}]"),
-        "Q".to_string(),
-        "K'".to_string(),
-        "J+/J-".to_string(),
-        "undone".to_string(),
-        "enzyme x".to_string(),
-        "class".to_string(),
-        "share".to_string(),
-        format!("cumul. [{ul}]"),
-        "verdict".to_string(),
-        "control".to_string(),
-        "5–95 %".to_string(),
-    ];
-    // The cells both kinds of rows share: energies, ratios, flux-force, class.
-    let middle = |s: &StepResult| -> Vec<String> {
-        vec![
-            format!("{:.2}", clean(u.of(s.dg0))),
-            format!("{:.2}", clean(u.of(s.dg))),
-            s.dg_sd
-                .map(|v| format!("{:.2}", u.of(v)))
-                .unwrap_or_else(|| "-".into()),
-            sci(s.q()),
-            sci(s.keq()),
-            sci(s.flux_ratio(a.rt)),
-            undone(s, a.rt),
-            s.enzyme_factor(a.rt)
-                .map(|f| format!("{f:.3}"))
-                .unwrap_or_else(|| "-".into()),
-            format!(
-                "{} {}{}",
-                class_symbol(s.class, o.ascii),
-                s.class.as_str(),
-                if s.class_sure { "" } else { "?" }
-            ),
-        ]
+/// The aligned table with these columns, then totals, verdicts, notes and
+/// the closing caution.
+pub fn table_with(
+    prep: &Prepared,
+    state: &State,
+    a: &Analysis,
+    o: TextOptions,
+    cols: &[Column],
+) -> String {
+    let mut out = headline(&prep.pathway.name, a.direction, &state.conditions);
+    out.push_str(&format!(
+        "energies in {} per turn of the step\n\n",
+        o.unit.label()
+    ));
+    let cut = cols != columns::ALL.as_slice();
+    let co = CellOptions {
+        unit: o.unit,
+        ascii: o.ascii,
+        enzyme_width: cut.then_some(columns::ENZYME_WIDTH),
     };
-    let mut rows: Vec<(Vec<String>, Option<Class>)> = Vec::new();
-    for (k, s) in a.steps.iter().enumerate() {
-        let st = &p.steps[s.step];
-        let mut id = st.id.clone();
-        if a.largest_drop == Some(k) {
-            id.push_str(if o.ascii { " <largest" } else { " ◀largest" });
+    let rows = columns::grid(prep, a, cols, co);
+    let al: Vec<_> = cols.iter().map(|c| c.align()).collect();
+    let class_col = cols.iter().position(|&c| c == Column::Class);
+    let classes: Vec<Class> = a.steps.iter().chain(&a.side).map(|s| s.class).collect();
+    let padded = align(&rows, &al);
+    let width = padded
+        .first()
+        .map_or(0, |r| r.join("  ").trim_end().chars().count());
+    for (i, mut r) in padded.into_iter().enumerate() {
+        if let (Some(c), true) = (class_col, i > 0) {
+            r[c] = paint(&r[c], class_color(classes[i - 1]), o.color);
         }
-        if s.against {
-            id.push_str(if o.ascii {
-                " !backward"
-            } else {
-                " ⇄backward"
-            });
-        }
-        if s.sign < 0.0 {
-            id.push_str(" (rev)");
-        }
-        if let Some(r) = s.replaces {
-            id.push_str(&format!(" (for {})", p.steps[r].id));
-        }
-        let verdict = match s.verdict {
-            Some(v) => verdict_symbol(a.control[v].kind, o.ascii).to_string(),
-            None => String::new(),
-        };
-        let mut cells = vec![
-            id,
-            st.enzyme.clone().unwrap_or_default(),
-            units::sig3(s.times),
-        ];
-        cells.extend(middle(s));
-        cells.push(if s.share > 0.0 {
-            format!("{:.0} %", s.share * 100.0)
-        } else {
-            String::new()
-        });
-        cells.push(format!("{:.2}", clean(u.of(s.cumulative))));
-        cells.push(verdict);
-        let est = &a.control_estimate;
-        cells.push(est.coefficient(k).map_or("-".into(), |c| format!("{c:.3}")));
-        cells.push(est.range(k).map_or(String::new(), |(lo, hi)| {
-            format!("{lo:.3}{}{hi:.3}", if o.ascii { "-" } else { "–" })
-        }));
-        rows.push((cells, Some(s.class)));
-    }
-    for s in &a.side {
-        let st = &p.steps[s.step];
-        let mut cells = vec![
-            format!("{} (side)", st.id),
-            st.enzyme.clone().unwrap_or_default(),
-            String::new(),
-        ];
-        cells.extend(middle(s));
-        cells.extend(std::iter::repeat_n(String::new(), 5));
-        rows.push((cells, Some(s.class)));
-    }
-    let ncol = head.len();
-    let mut w = vec![0usize; ncol];
-    for (i, h) in head.iter().enumerate() {
-        w[i] = h.chars().count();
-    }
-    for (r, _) in &rows {
-        for (i, cell) in r.iter().enumerate() {
-            w[i] = w[i].max(cell.chars().count());
+        out.push_str(r.join("  ").trim_end());
+        out.push('\n');
+        if i == 0 {
+            out.push_str(&"-".repeat(width.max(20)));
+            out.push('\n');
         }
     }
-    let numeric = [
-        false, false, true, true, true, true, true, true, true, true, true, false, true, true,
-        false, true, false,
-    ];
-    let class_col = 11;
-    let fmt_row = |cells: &[String]| -> Vec<String> {
-        cells
-            .iter()
-            .enumerate()
-            .map(|(i, cell)| {
-                let pad = w[i] - cell.chars().count();
-                if numeric[i] {
-                    format!("{}{}", " ".repeat(pad), cell)
-                } else {
-                    format!("{}{}", cell, " ".repeat(pad))
-                }
-            })
-            .collect()
-    };
-    out.push_str(fmt_row(&head).join("  ").trim_end());
     out.push('\n');
-    out.push_str(&"-".repeat(w.iter().sum::<usize>() + 2 * (ncol - 1)));
-    out.push('\n');
-    for (r, cls) in &rows {
-        let mut cells = fmt_row(r);
-        if let Some(cl) = cls {
-            cells[class_col] = paint(&cells[class_col], class_color(*cl), o.color);
-        }
-        out.push_str(cells.join("  ").trim_end());
+    for l in summary_lines(prep, a, o.unit) {
+        out.push_str(&l);
         out.push('\n');
     }
-    out.push_str(&format!(
-        "\ntotal: dG'° {:.2} {ul}, dG' {:.2} {ul}{}",
-        clean(u.of(a.total_dg0)),
-        clean(u.of(a.total_dg)),
+    out.push_str(&control_text(prep, a, o.ascii, o.unit));
+    let notes = crate::present::notes(a, o.unit);
+    if !notes.is_empty() {
+        out.push('\n');
+        for n in &notes {
+            out.push_str(&wrap(&format!("note: {n}"), WRAP, "      "));
+            out.push('\n');
+        }
+    }
+    out.push('\n');
+    for l in [
+        legend(cols),
+        control_legend(a),
+        control::CAUTION.to_string(),
+    ] {
+        for l in l.lines() {
+            out.push_str(&wrap(l, WRAP, ""));
+            out.push('\n');
+        }
+    }
+    if o.ascii { to_ascii(&out) } else { out }
+}
+
+/// Totals, the largest drop, coupled groups, the net per pass, and in reverse
+/// the bypasses and the steps that need one: one line each.
+pub fn summary_lines(prep: &Prepared, a: &Analysis, u: EnergyUnit) -> Vec<String> {
+    let p = &prep.pathway;
+    let ul = u.label();
+    let id = |k: usize| p.steps[a.steps[k].step].id.as_str();
+    let mut out = Vec::new();
+    let mut total = format!(
+        "total: dG'° {} {ul}, dG' {} {ul}{}",
+        energy3(u.of(a.total_dg0)),
+        energy3(u.of(a.total_dg)),
         a.total_sd
-            .map(|s| format!(" ± {:.2}{}", u.of(s), sd_partial(a)))
+            .map(|s| format!(" ± {}{}", energy3(u.of(s)), sd_partial(a)))
             .unwrap_or_default()
-    ));
+    );
     if let Some(k) = a.largest_drop {
-        out.push_str(&format!(
+        total.push_str(&format!(
             "; largest drop: {} ({:.0} % of the drop)",
-            p.steps[a.steps[k].step].id,
+            id(k),
             a.steps[k].share * 100.0
         ));
     }
-    out.push('\n');
+    out.push(total);
     for g in &a.groups {
-        let ids: Vec<&str> = g
-            .members
-            .iter()
-            .map(|&m| p.steps[a.steps[m].step].id.as_str())
-            .collect();
-        out.push_str(&format!(
-            "coupled: {} together dG' {:.2} {ul}\n",
+        let ids: Vec<&str> = g.members.iter().map(|&m| id(m)).collect();
+        out.push(format!(
+            "coupled: {} together dG' {} {ul}{}",
             ids.join(" + "),
-            clean(u.of(g.dg))
+            energy3(u.of(g.dg)),
+            g.dg_sd
+                .map(|s| format!(" ± {}", energy3(u.of(s))))
+                .unwrap_or_default()
         ));
     }
     let net: Vec<String> = a
         .net
         .iter()
         .map(|&(ci, v)| {
-            format!(
-                "{} {}{}",
-                p.compounds[ci].id,
-                if v > 0.0 { "+" } else { "" },
-                units::sig3(clean(v))
-            )
+            let sign = if v > 0.0 { "+" } else { "" };
+            format!("{} {sign}{}", p.compounds[ci].id, amount(v))
         })
         .collect();
-    out.push_str(&format!("net per pass: {}\n", net.join(", ")));
-    if !a.needs_bypass.is_empty() {
-        out.push_str("\nneeds a bypass (uphill in reverse, none given):\n");
-        for n in &a.needs_bypass {
-            out.push_str(&format!(
-                "  {} lacks {:.2} {ul} per turn\n",
-                p.steps[a.steps[n.position].step].id,
-                u.of(n.lacks)
-            ));
-        }
+    out.push(format!("net per pass: {}", net.join(", ")));
+    for n in &a.needs_bypass {
+        out.push(format!(
+            "needs a bypass: {} is uphill in reverse and lacks {} {ul} per turn",
+            id(n.position),
+            energy3(u.of(n.lacks))
+        ));
     }
     if a.direction == crate::analysis::Direction::Reverse {
         for (k, s) in a.steps.iter().enumerate() {
             if let Some(r) = s.replaces {
-                out.push_str(&format!(
-                    "bypass {} replaces {}{}\n",
-                    p.steps[s.step].id,
-                    p.steps[r].id,
-                    if a.counterpart == Some(k) {
-                        " — counterpart of the forward prime step"
-                    } else {
-                        ""
-                    }
-                ));
+                let twin = if a.counterpart == Some(k) {
+                    " — counterpart of the forward control point"
+                } else {
+                    ""
+                };
+                out.push(format!("bypass {} replaces {}{twin}", id(k), p.steps[r].id));
             }
         }
     }
-    if !a.control.is_empty() {
-        out.push_str("\ncontrol:\n");
-        for v in &a.control {
-            let id = &p.steps[a.steps[v.position].step].id;
-            let est = match a.control_estimate.coefficient(v.position) {
-                Some(c) => format!("   flux control estimate {c:.3}"),
-                None => String::new(),
-            };
-            out.push_str(&format!(
-                "  {} {}{est}\n",
-                id,
-                verdict_symbol(v.kind, o.ascii)
-            ));
-            for r in &v.reasons {
-                out.push_str(&format!("      {r}\n"));
-            }
-        }
-    }
-    if !a.notes.is_empty() {
-        out.push('\n');
-        for n in &a.notes {
-            out.push_str(&format!("note: {n}\n"));
-        }
-    }
-    out.push_str(&format!(
-        "\nundone: share of forward flux undone by the reverse flux, e^(dG'/RT); enzyme x: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT)).\n{}{}\n",
-        control_legend(a),
-        control::CAUTION
-    ));
     out
+}
+
+/// The verdicts with their reasons and flux control estimates.
+fn control_text(prep: &Prepared, a: &Analysis, ascii: bool, u: EnergyUnit) -> String {
+    if a.control.is_empty() {
+        return String::new();
+    }
+    let mut out = String::from("\ncontrol:\n");
+    for v in &a.control {
+        let id = &prep.pathway.steps[a.steps[v.position].step].id;
+        let est = match a.control_estimate.coefficient(v.position) {
+            Some(c) => format!("   flux control estimate {}", fig3(clean(c))),
+            None => String::new(),
+        };
+        out.push_str(&format!("  {id} {}{est}\n", verdict_symbol(v.kind, ascii)));
+        for r in crate::present::reasons(v, u) {
+            out.push_str(&wrap(&format!("      {r}"), WRAP, "      "));
+            out.push('\n');
+        }
+    }
+    out
+}
+
+/// What the shown columns whose names are short mean.
+pub fn legend(cols: &[Column]) -> String {
+    let mut parts = Vec::new();
+    if cols.contains(&Column::ReverseShare) {
+        parts.push(
+            "reverse share: share of the forward flux undone by the reverse flux, e^(dG'/RT)",
+        );
+    }
+    if cols.contains(&Column::EnzymeFactor) {
+        parts.push(
+            "enzyme factor: enzyme needed relative to an irreversible step, 1/(1 - e^(dG'/RT))",
+        );
+    }
+    if cols.contains(&Column::Times) {
+        parts.push("per pass: turns of the step per pass of the route");
+    }
+    if cols.contains(&Column::Verdict) {
+        parts.push("verdict: control point (the committed step), candidate or not here");
+    }
+    if parts.is_empty() {
+        String::new()
+    } else {
+        format!("{}.\n", parts.join("; "))
+    }
 }
 
 /// What the control columns mean, with the number of saturation draws.

@@ -19,6 +19,57 @@ use clarabel::solver::{DefaultSolver, IPSolver, NonnegativeConeT};
 use program::{Lp, Setup, matrix, settings, setup, solver_error, status_ok};
 use types::AT_BOUND;
 
+/// The warnings the optimisation gives for the scenario (concentrations
+/// outside their bounds) without solving it: cheap enough for every command.
+pub fn warnings(prep: &Prepared, state: &State) -> Result<Vec<String>, MdfError> {
+    Ok(setup(prep, state, &Options::default())?.warnings)
+}
+
+/// Solves many scenarios of one pathway (the samples of a table) without
+/// ranges, solving each distinct programme once: between samples usually
+/// only the free compounds' concentrations change, and they do not enter the
+/// programme, so most samples reuse an optimum found before (each still gets
+/// its own warnings and concentrations around that optimum).
+#[derive(Debug, Default)]
+pub struct Batch {
+    /// Optima by the exact bits of the programme's right-hand sides and bounds.
+    solved: std::collections::HashMap<Vec<u64>, (f64, Vec<f64>, Vec<f64>)>,
+    /// Programmes solved (the rest were found in `solved`).
+    pub solves: usize,
+}
+
+impl Batch {
+    /// The optimum for `state`, as `solve_with` without ranges would give it.
+    pub fn solve(
+        &mut self,
+        prep: &Prepared,
+        state: &State,
+        opts: &Options,
+    ) -> Result<Mdf, MdfError> {
+        let opts = Options {
+            ranges: false,
+            ..*opts
+        };
+        let s = setup(prep, state, &opts)?;
+        let lp = &s.lp;
+        let key: Vec<u64> = [state.direction as u8 as f64, lp.rt]
+            .into_iter()
+            .chain(lp.vars.iter().map(|&c| c as f64))
+            .chain(lp.rhs.iter().copied())
+            .chain(lp.ln_lo.iter().copied())
+            .chain(lp.ln_hi.iter().copied())
+            .map(f64::to_bits)
+            .collect();
+        if !self.solved.contains_key(&key) {
+            let found = optimum(lp, &prep.pathway.file)?;
+            self.solves += 1;
+            self.solved.insert(key.clone(), found);
+        }
+        let (b, x, z) = &self.solved[&key];
+        Ok(assemble(state, &opts, &s, *b, x, z))
+    }
+}
+
 /// Solves the driving-force optimisation for the scenario, carriers held (no
 /// ranges; cheap enough to run on every edit).
 pub fn solve(prep: &Prepared, state: &State) -> Result<Mdf, MdfError> {

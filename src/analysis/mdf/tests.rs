@@ -424,3 +424,34 @@ fn one_feasible_range_matches_all_of_them() {
     assert!((f[1].1 / (1e4 / e) - 1.0).abs() < 1e-5, "{:?}", f[1]);
     assert!((f[0].0 / (1e-12 * e) - 1.0).abs() < 1e-5, "{:?}", f[0]);
 }
+
+#[test]
+fn a_batch_solves_each_distinct_programme_once_and_matches_solve() {
+    let prep = prepared(crate::DEMO);
+    let base = State::from_pathway(&prep.pathway);
+    let p = &prep.pathway;
+    let glc = p.compound("glc").expect("glc");
+    let atp = p.compound("atp").expect("atp");
+    let mut batch = Batch::default();
+    let opts = Options::default();
+    // glc is free: changing it leaves the programme as it was.
+    let mut states = vec![base.clone()];
+    for f in [0.5, 2.0] {
+        let mut s = base.clone();
+        s.conc[glc] *= f;
+        states.push(s);
+    }
+    // atp is a held carrier: a new programme.
+    let mut s = base.clone();
+    s.conc[atp] *= 1.5;
+    states.push(s);
+    for s in &states {
+        let got = batch.solve(&prep, s, &opts).expect("solves");
+        let want = solve(&prep, s).expect("solves");
+        assert_eq!(got, want);
+    }
+    assert_eq!(
+        batch.solves, 2,
+        "one programme for the free edits, one for the held"
+    );
+}

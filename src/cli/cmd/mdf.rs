@@ -4,7 +4,7 @@
 use crate::cli::args::{Common, Format};
 use crate::cli::output::{colour_ok, emit};
 use crate::cli::request::state_from;
-use anyhow::{Result, anyhow, bail};
+use anyhow::{Result, anyhow};
 use dgpath::analysis::{self, Prepared};
 use dgpath::model::samples::SampleReader;
 use dgpath::report::{self, TextOptions};
@@ -29,23 +29,28 @@ fn run_mdf_samples(
     let u = common.unit();
     let route = prep.route(base.direction).map_err(|e| anyhow!("{e}"))?;
     let mut rows: Vec<(String, analysis::mdf::Mdf)> = Vec::new();
+    // Samples that differ only in free compounds share one programme.
+    let mut batch = analysis::mdf::Batch::default();
     for sample in SampleReader::open(path, p, &base.conc)? {
         let sample = sample?;
         let state = State {
             conc: sample.conc,
             ..base.clone()
         };
-        let m = analysis::mdf::solve_with(prep, &state, &opts)
+        let m = batch
+            .solve(prep, &state, &opts)
             .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
         rows.push((sample.name, m));
     }
-    let text = if format == Format::Json {
-        let doc = report::mdf::samples_json(prep, route, &rows, u);
-        let mut s = serde_json::to_string_pretty(&doc)?;
-        s.push('\n');
-        s
-    } else {
-        report::mdf::samples_table(prep, route, &rows, u)
+    let text = match format {
+        Format::Json => {
+            let doc = report::mdf::samples_json(prep, route, &rows, u);
+            let mut s = serde_json::to_string_pretty(&doc)?;
+            s.push('\n');
+            s
+        }
+        Format::Csv => report::mdf::samples_csv(prep, route, &rows, u),
+        Format::Table | Format::Md => report::mdf::samples_table(prep, route, &rows, u),
     };
     emit(&text)
 }
@@ -57,9 +62,6 @@ pub fn run_mdf(
     format: Format,
     free_currencies: bool,
 ) -> Result<()> {
-    if matches!(format, Format::Csv | Format::Md) {
-        bail!("mdf writes --format table or --format json");
-    }
     if let Some(path) = &common.samples {
         return run_mdf_samples(prep, common, path, format, free_currencies);
     }
@@ -69,7 +71,10 @@ pub fn run_mdf(
         ranges: true,
     };
     let m = analysis::mdf::solve_with(prep, &state, &opts).map_err(|e| anyhow!("{e}"))?;
-    for w in &m.warnings {
+    for w in report::warnings::file_warnings(prep)
+        .iter()
+        .chain(&m.warnings)
+    {
         eprintln!("warning: {w}");
     }
     let u = common.unit();
@@ -89,7 +94,8 @@ pub fn run_mdf(
                 ascii: false,
             },
         ),
-        Format::Csv | Format::Md => bail!("mdf writes --format table or --format json"),
+        Format::Csv => report::mdf_flat::mdf_csv(prep, &m, u),
+        Format::Md => report::mdf_flat::mdf_markdown(prep, &state, &m, u),
     };
     emit(&text)
 }

@@ -8,3 +8,4 @@ pub mod new;
 pub mod plot;
 pub mod report;
 pub mod screenshot;
+pub mod shell;

@@ -1,7 +1,7 @@
 //! `report FILE`: per-step results as a table, JSON, CSV or Markdown; with
 //! `--samples TABLE`, one analysis per sample streamed to stdout.
 
-use crate::cli::args::{Common, Format};
+use crate::cli::args::{Common, Format, View};
 use crate::cli::output::{colour_ok, emit, is_broken_pipe};
 use crate::cli::request::state_from;
 use anyhow::{Context, Result, anyhow};
@@ -14,28 +14,36 @@ use std::io::Write;
 use std::path::Path;
 
 /// Runs the report command on a prepared pathway.
-pub fn run_report(prep: &Prepared, common: &Common, format: Format) -> Result<()> {
+pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View) -> Result<()> {
     let state = state_from(prep, common)?;
     let mut a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
     analysis::mca::add_ranges(&mut a, common.draws());
+    for w in report::warnings::warnings(prep, &state) {
+        eprintln!("warning: {w}");
+    }
     let u = common.unit();
     let text = match format {
         Format::Json => {
-            let mut s = serde_json::to_string_pretty(&report::json_value(prep, &state, &a, u))?;
+            let mut s =
+                serde_json::to_string_pretty(&report::json::report_json(prep, &state, &a, u))?;
             s.push('\n');
             s
         }
         Format::Csv => report::csv(prep, &a, u),
-        Format::Md => report::markdown(prep, &state, &a, u),
-        Format::Table => report::table(
+        Format::Md => {
+            let cols = view.columns(&report::columns::ALL);
+            report::markdown::markdown_with(prep, &state, &a, u, &cols)
+        }
+        Format::Table => report::table_with(
             prep,
             &state,
             &a,
             TextOptions {
                 unit: u,
                 color: colour_ok(),
-                ascii: false,
+                ascii: view.ascii,
             },
+            &view.columns(&report::columns::default_for(&a)),
         ),
     };
     emit(&text)

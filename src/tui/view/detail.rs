@@ -206,7 +206,7 @@ fn verdict_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
             format!("verdict: {}", v.kind.as_str().replace('_', " ")),
             t.verdict(v.kind),
         ));
-        for r in &v.reasons {
+        for r in present::reasons(v, app.opts.unit) {
             out.push(Line::from(format!("  {r}")));
         }
     } else if s.class != Class::Far {
