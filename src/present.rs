@@ -2,8 +2,8 @@
 //! unit a person asked for, the class and verdict symbols, number formats and
 //! the reaction as it runs. Front ends use this module, never each other.
 
-use crate::analysis::control::{Reason, Verdict};
 use crate::analysis::{Analysis, Class, EnergyNote, Prepared, StepResult, VerdictKind};
+use crate::analysis::{Reason, Verdict};
 use crate::model::Conditions;
 use crate::scenario::Direction;
 

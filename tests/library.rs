@@ -496,6 +496,6 @@ dg0 = -3
 }
 
 /// A verdict's reasons in words (kJ/mol).
-fn words(v: &dgpath::analysis::control::Verdict) -> Vec<String> {
+fn words(v: &dgpath::analysis::Verdict) -> Vec<String> {
     dgpath::present::reasons(v, dgpath::present::EnergyUnit::KJ)
 }

@@ -437,6 +437,6 @@ fn reverse_route_costs_currency_and_names_the_counterpart() {
 }
 
 /// A verdict's reasons in words (kJ/mol).
-fn words(v: &dgpath::analysis::control::Verdict) -> Vec<String> {
+fn words(v: &dgpath::analysis::Verdict) -> Vec<String> {
     dgpath::present::reasons(v, dgpath::present::EnergyUnit::KJ)
 }

@@ -2,93 +2,9 @@
 //! the sensible place to control flux, by the fixed rules of cli.md, with the
 //! reasons as data (worded by `present`).
 
-use super::{Analysis, Class, Role};
+use super::result::{Analysis, Class, Reason, Verdict, VerdictKind};
+use super::route::Role;
 use crate::model::Pathway;
-
-/// The verdict on one far step.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum VerdictKind {
-    /// The committed step: the first far step no rule argues against.
-    Prime,
-    /// Far, no rule against it, but not the first.
-    Candidate,
-    /// A rule argues against controlling here.
-    NotHere,
-}
-
-impl VerdictKind {
-    /// Name used in JSON and tables.
-    pub fn as_str(self) -> &'static str {
-        match self {
-            VerdictKind::Prime => "control_point",
-            VerdictKind::Candidate => "candidate",
-            VerdictKind::NotHere => "not_here",
-        }
-    }
-}
-
-/// Why a verdict was given: the rule that decided and what else is worth
-/// knowing, with energies in J/mol; worded by `present::reason_text` in the
-/// unit a person asked for.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Reason {
-    /// Rule 1: the last step of the route.
-    LastStep {
-        /// dG' of the step, J/mol.
-        dg: f64,
-    },
-    /// Rule 2: a product is a branch point.
-    BranchProduct {
-        /// dG' of the step, J/mol.
-        dg: f64,
-        /// The branch-point compounds it makes.
-        compounds: Vec<String>,
-    },
-    /// Rule 3: the first far step the other rules leave.
-    FirstFar {
-        /// dG' of the step, J/mol.
-        dg: f64,
-    },
-    /// Rule 4: a later far step.
-    AfterControlPoint {
-        /// dG' of the step, J/mol.
-        dg: f64,
-        /// The control point's id.
-        control_point: String,
-    },
-    /// Branch points between the control point and this candidate.
-    BranchBetween {
-        /// The branch-point compounds.
-        compounds: Vec<String>,
-        /// The control point's id.
-        control_point: String,
-    },
-    /// The class is not sure within the 95 % interval.
-    Unsure {
-        /// Half-width of the 95 % interval of dG', J/mol.
-        half_width: f64,
-        /// The other class it could have.
-        other: Class,
-    },
-    /// The step is coupled with others.
-    Coupled {
-        /// The group's step ids.
-        steps: Vec<String>,
-        /// The group's dG', J/mol.
-        group_dg: f64,
-    },
-}
-
-/// A verdict with its reasons.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Verdict {
-    /// Position in `Analysis::steps`.
-    pub position: usize,
-    /// The verdict.
-    pub kind: VerdictKind,
-    /// The reasons; the first says which rule decided.
-    pub reasons: Vec<Reason>,
-}
 
 /// The sentence every verdict list carries (science.md §7).
 pub const CAUTION: &str = "Closeness to equilibrium alone does not decide control: control is shared among steps (summation theorem), and these verdicts are reasoned rules, not measured flux control coefficients.";
@@ -168,7 +84,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
                 s.class_range.1
             };
             reasons.push(Reason::Unsure {
-                half_width: s.dg_sd.unwrap_or(0.0) * super::Z95,
+                half_width: s.dg_sd.unwrap_or(0.0) * super::result::Z95,
                 other,
             });
         }

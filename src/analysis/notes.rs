@@ -2,7 +2,7 @@
 //! scenario, steps that run backward or uphill, steps left out, and classes
 //! that are not sure.
 
-use super::{Analysis, Class, EnergyNote, StepResult, Z95};
+use super::result::{Analysis, Class, EnergyNote, StepResult, Z95};
 use crate::model::{Conditions, Pathway};
 use crate::scenario::State;
 use crate::thermo;
