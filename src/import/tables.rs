@@ -240,22 +240,12 @@ pub fn read_dg0(text: &str, file: &str) -> Result<Dg0Table, ImportError> {
     )?;
     let mut rows: Vec<Dg0Row> = Vec::new();
     for rec in rdr.records() {
-        let rec = rec.map_err(|e| {
-            ImportError::new(
-                file,
-                e.position().map(|p| p.line() as usize),
-                format!("cannot read the row: {e}"),
-            )
-        })?;
-        let line = rec.position().map(|p| p.line() as usize).unwrap_or(0);
-        let step = rec.get(c.key).unwrap_or("").to_string();
-        if step.is_empty() {
-            return Err(ImportError::new(
-                file,
-                Some(line),
-                "a row has no step id; write the model's reaction id in the 'step' column".into(),
-            ));
-        }
+        let (rec, line, step) = keyed_row(
+            rec,
+            file,
+            c.key,
+            "a row has no step id; write the model's reaction id in the 'step' column",
+        )?;
         let Some(dg0) = cell(
             file,
             line,
@@ -296,29 +286,41 @@ pub fn read_dg0(text: &str, file: &str) -> Result<Dg0Table, ImportError> {
     })
 }
 
+/// One row of a table: the record, its line and its key (step or compound
+/// id), or an error naming the line when the row cannot be read or has no key.
+fn keyed_row(
+    rec: Result<csv::StringRecord, csv::Error>,
+    file: &str,
+    key: usize,
+    no_key: &str,
+) -> Result<(csv::StringRecord, usize, String), ImportError> {
+    let rec = rec.map_err(|e| {
+        ImportError::new(
+            file,
+            e.position().map(|p| p.line() as usize),
+            format!("cannot read the row: {e}"),
+        )
+    })?;
+    let line = rec.position().map(|p| p.line() as usize).unwrap_or(0);
+    let id = rec.get(key).unwrap_or("").to_string();
+    if id.is_empty() {
+        return Err(ImportError::new(file, Some(line), no_key.to_string()));
+    }
+    Ok((rec, line, id))
+}
+
 /// Reads a concentration table (columns `compound`, `conc`).
 pub fn read_conc(text: &str, file: &str) -> Result<ConcTable, ImportError> {
     let mut rdr = records(text);
     let c = columns(&mut rdr, file, "compound", "conc", "compound,conc [mM]")?;
     let mut rows: Vec<ConcRow> = Vec::new();
     for rec in rdr.records() {
-        let rec = rec.map_err(|e| {
-            ImportError::new(
-                file,
-                e.position().map(|p| p.line() as usize),
-                format!("cannot read the row: {e}"),
-            )
-        })?;
-        let line = rec.position().map(|p| p.line() as usize).unwrap_or(0);
-        let compound = rec.get(c.key).unwrap_or("").to_string();
-        if compound.is_empty() {
-            return Err(ImportError::new(
-                file,
-                Some(line),
-                "a row has no compound id; write the model's species id in the 'compound' column"
-                    .into(),
-            ));
-        }
+        let (rec, line, compound) = keyed_row(
+            rec,
+            file,
+            c.key,
+            "a row has no compound id; write the model's species id in the 'compound' column",
+        )?;
         let Some(conc) = cell(
             file,
             line,
