@@ -29,12 +29,17 @@ fn pathway(u: &mut Unstructured) -> Result<String> {
     let _ = writeln!(t, "ionic_strength = \"{:.3} M\"", span(u, 0.0, 0.35)?);
     let nc = u.int_in_range(2..=9usize)?;
     t.push_str("[compounds]\n");
+    // Which compounds carry species data (a solvent without any is water).
+    let mut species = vec![false; nc];
     for c in 0..nc {
         let conc = 10f64.powf(span(u, -7.0, -1.0)?);
         let _ = write!(t, "c{c} = {{ conc = \"{conc:e} M\"");
         match u.int_in_range(0..=9u8)? {
             0 => t.push_str(", role = \"currency\""),
-            1 if c > 0 => t.push_str(", role = \"solvent\""),
+            1 if c > 0 => {
+                t.push_str(", role = \"solvent\"");
+                species[c] = true;
+            }
             2 => t.push_str(", branch = true"),
             3 => t.push_str(", fixed = true"),
             _ => {}
@@ -46,6 +51,7 @@ fn pathway(u: &mut Unstructured) -> Result<String> {
                 u.int_in_range(-4..=2i8)?,
                 u.int_in_range(0..=16u8)?
             );
+            species[c] = true;
         }
         if u.arbitrary::<bool>()? {
             let _ = write!(t, ", cv = {:.2}", span(u, 0.0, 1.0)?);
@@ -77,6 +83,9 @@ fn pathway(u: &mut Unstructured) -> Result<String> {
         };
         let left = side(u, &mut pool, 1)?;
         let right = side(u, &mut pool, 0)?;
+        // With species data for every reactant, protons follow from them
+        // (a stated value must agree): state protons only otherwise.
+        let all_species = (0..nc).all(|c| pool.contains(&c) || species[c]);
         let _ = write!(
             t,
             "[[steps]]\nid = \"s{s}\"\nreaction = \"{left} -> {right}\"\ndg0 = \"{:.2} kJ/mol\"\n",
@@ -101,7 +110,7 @@ fn pathway(u: &mut Unstructured) -> Result<String> {
         if u.arbitrary::<bool>()? {
             let _ = writeln!(t, "dh0 = \"{:.1} kJ/mol\"", span(u, -100.0, 100.0)?);
         }
-        if u.arbitrary::<bool>()? {
+        if u.arbitrary::<bool>()? && !all_species {
             let _ = writeln!(t, "protons = {}", u.int_in_range(-2..=2i8)?);
         }
     }
