@@ -19,7 +19,7 @@ use dgpath::analysis;
 use dgpath::model;
 use dgpath::report::EnergyUnit;
 use dgpath::scenario::State;
-use dgpath::tui::app::{App, Options, Source};
+use dgpath::tui::app::{App, Mode, Options, Source, Target};
 use dgpath::tui::export::render_buffer;
 use libfuzzer_sys::fuzz_target;
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
@@ -161,6 +161,20 @@ fuzz_target!(|data: &[u8]| {
     let mut since_draw = 0;
     while let Some(b) = bytes.next() {
         if let Some(&(code, mods)) = KEYS.get(b as usize) {
+            // The built-in demo's `s` asks for a file name to write it to;
+            // Enter there would write a file, so the fuzzer answers Esc.
+            let writing = matches!(
+                app.mode,
+                Mode::Edit {
+                    target: Target::FileName,
+                    ..
+                }
+            );
+            let code = if writing && code == KeyCode::Enter {
+                KeyCode::Esc
+            } else {
+                code
+            };
             app.handle_key(KeyEvent::new(code, mods));
             check(&app);
             if app.quit {
