@@ -4,12 +4,11 @@ use super::super::pathway::*;
 use super::super::reaction;
 use super::super::units::Kind;
 use super::MAX_PKA;
-use super::reader::{COMPOUND, Cx, Span, open};
-use toml_edit::{Item, TableLike};
+use super::reader::{COMPOUND, Cx, Item, Read, Span, Table, open};
 
 impl Cx<'_> {
     /// `pka = [7.60, 4.68]`: finite numbers, highest first; only with charge and hydrogens.
-    pub(super) fn pka(&mut self, t: &dyn TableLike, what: &str, has_species: bool) -> Vec<f64> {
+    pub(super) fn pka(&mut self, t: &Table, what: &str, has_species: bool) -> Vec<f64> {
         let Some(item) = t.get("pka") else {
             return Vec::new();
         };

@@ -4,10 +4,10 @@
 use super::super::check;
 use super::super::pathway::*;
 use super::super::units::Kind;
-use super::reader::{ANALYSIS, CONDITIONS, Cx, PATHWAY, Span, TOP};
+use super::reader::{ANALYSIS, CONDITIONS, Cx, PATHWAY, Read, Span, TOP, Table};
 
 impl Cx<'_> {
-    pub(super) fn pathway(&mut self, root: &toml_edit::Table) -> Option<Pathway> {
+    pub(super) fn pathway(&mut self, root: &Table) -> Option<Pathway> {
         self.known_keys(root, TOP, "the top level");
         match root.get("format") {
             None => self.err(
@@ -46,7 +46,7 @@ impl Cx<'_> {
                     match item.as_array() {
                         Some(a) if a.iter().all(|v| v.as_str().is_some()) => {
                             route_ids = Some(
-                                a.iter().map(|v| (v.as_str().unwrap_or_default().to_string(), v.span().or(span.clone()))).collect(),
+                                a.iter().map(|v| (v.as_str().unwrap_or_default().to_string(), v.at().or(span.clone()))).collect(),
                             )
                         }
                         _ => self.err(span, "pathway.route must be a list of step ids, e.g. route = [\"s1\", \"s2\"]".into()),
@@ -148,8 +148,8 @@ impl Cx<'_> {
             None => {}
             Some(t) => {
                 for (id, item) in t.iter() {
-                    let kspan = Self::key_span(t, id);
-                    if let Some(c) = self.compound(id, item, kspan) {
+                    let kspan = Some(id.span());
+                    if let Some(c) = self.compound(id.get_ref(), item, kspan) {
                         compounds.push(c);
                     }
                 }
@@ -162,16 +162,19 @@ impl Cx<'_> {
                 Some(0..0),
                 "no [[steps]]; add at least one [[steps]] with id, reaction and dg0".into(),
             ),
-            Some(item) => match item.as_array_of_tables() {
+            Some(item) => match item
+                .as_array()
+                .filter(|a| a.iter().all(|t| t.as_table_like().is_some()))
+            {
                 Some(arr) => {
-                    for t in arr.iter() {
+                    for t in arr {
                         if let Some(s) = self.raw_step(t) {
                             raw_steps.push(s);
                         }
                     }
                 }
                 None => self.err(
-                    item.span(),
+                    item.at(),
                     "steps must be written as [[steps]] tables, one per step".into(),
                 ),
             },

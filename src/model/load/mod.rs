@@ -9,7 +9,6 @@ mod steps;
 
 use super::pathway::*;
 use reader::{Cx, Span};
-use toml_edit::Document;
 
 /// Most pKa values one compound may list.
 pub(super) const MAX_PKA: usize = 16;
@@ -86,7 +85,7 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
         line_starts,
         problems: Vec::new(),
     };
-    let doc = match Document::parse(text) {
+    let doc = match reader::Table::parse(text) {
         Ok(d) => d,
         Err(e) => {
             let span = e.span();
@@ -101,7 +100,7 @@ pub fn load_str(text: &str, file: &str) -> Result<Pathway, LoadError> {
             return Err(cx.finish());
         }
     };
-    let pw = cx.pathway(doc.as_table());
+    let pw = cx.pathway(doc.get_ref());
     match pw {
         Some(p) if cx.problems.is_empty() => Ok(p),
         _ => Err(cx.finish()),

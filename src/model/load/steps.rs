@@ -5,8 +5,7 @@ use super::super::pathway::*;
 use super::super::reaction;
 use super::super::units::Kind;
 use super::fmt_count;
-use super::reader::{Cx, STEP, Span, open};
-use toml_edit::TableLike;
+use super::reader::{Cx, Item, Read, STEP, Span, Table, open};
 
 /// A step as written, before its ids are looked up.
 pub(super) struct RawStep {
@@ -28,7 +27,7 @@ pub(super) struct RawStep {
 
 impl Cx<'_> {
     /// `standard = "1 mM"`: the standard state of dg0/keq, mol/L (1 when absent).
-    pub(super) fn standard_state(&mut self, t: &dyn TableLike, what: &str) -> f64 {
+    pub(super) fn standard_state(&mut self, t: &Table, what: &str) -> f64 {
         match self.quantity(t, "standard", Kind::Concentration, what) {
             Some(c) if c > 0.0 => c,
             Some(_) => {
@@ -69,8 +68,9 @@ impl Cx<'_> {
         }
     }
 
-    pub(super) fn raw_step(&mut self, t: &toml_edit::Table) -> Option<RawStep> {
-        let span = t.span();
+    pub(super) fn raw_step(&mut self, item: &Item) -> Option<RawStep> {
+        let span = item.at();
+        let t = item.as_table_like()?;
         let line = self.line(&span);
         let id = match self.string(t, "id", "step") {
             Some(id) => id,
