@@ -862,3 +862,42 @@ fn an_edit_the_analysis_refuses_is_never_applied_and_keeps_the_redo_history() {
     keys(&mut app, "C-r");
     assert_eq!(app.state(), &edited, "redo still has the undone edit");
 }
+
+#[test]
+fn a_long_route_marks_its_optimum_out_of_date_until_the_background_answer_arrives() {
+    // 2,000 steps: over the length optimised inside a key, so the solver runs apart.
+    let text = dgpath::synthetic::route(2000);
+    let src = Source {
+        path: None,
+        name: "long.toml".into(),
+        text: text.clone(),
+    };
+    let mut app = app_from(&text, src);
+    app.finish_idle_work();
+    let settled = screen(&app, 120, 36);
+    assert!(settled.contains("MDF +"), "{settled}");
+    assert!(!settled.contains("solving"), "{settled}");
+    // A key does not wait: the old optimum is shown, marked, and `o` says to wait.
+    let atp = ci(&app, "atp");
+    keys(&mut app, "Tab");
+    app.comp_sel = atp;
+    keys(&mut app, "+");
+    let before = screen(&app, 120, 36);
+    assert!(before.contains("(out of date, solving)"), "{before}");
+    keys(&mut app, "o");
+    assert!(
+        app.status
+            .as_ref()
+            .is_some_and(|(m, _)| m.contains("still being solved")),
+        "{:?}",
+        app.status
+    );
+    // Once it arrives the mark goes and the optimum is that of the new state.
+    app.finish_idle_work();
+    let after = screen(&app, 120, 36);
+    assert!(!after.contains("solving"), "{after}");
+    assert_eq!(
+        app.mdf,
+        dgpath::scenario::optimum::LiveMdf::solve(&app.prep, app.state())
+    );
+}

@@ -78,14 +78,23 @@ fn against_note(p: &Pathway, a: &Analysis) -> Option<String> {
 
 /// Uphill route steps, and whether a coupled group pays for them.
 fn uphill_notes(p: &Pathway, a: &Analysis) -> Vec<EnergyNote> {
+    // The first group each route position belongs to (one pass, not a
+    // search per step: routes may have tens of thousands of steps).
+    let mut group_of: Vec<Option<usize>> = vec![None; a.steps.len()];
+    for (g, grp) in a.groups.iter().enumerate() {
+        for &m in &grp.members {
+            if let Some(slot) = group_of.get_mut(m)
+                && slot.is_none()
+            {
+                *slot = Some(g);
+            }
+        }
+    }
     let mut out = Vec::new();
-    for s in &a.steps {
+    for (k, s) in a.steps.iter().enumerate() {
         if s.class == Class::Uphill {
             let id = &p.steps[s.step].id;
-            let grp = a
-                .groups
-                .iter()
-                .find(|g| g.members.iter().any(|&m| std::ptr::eq(&a.steps[m], s)));
+            let grp = group_of[k].map(|g| &a.groups[g]);
             out.push(EnergyNote::Uphill {
                 step: id.clone(),
                 dg: s.dg,
@@ -98,8 +107,14 @@ fn uphill_notes(p: &Pathway, a: &Analysis) -> Vec<EnergyNote> {
 
 /// Steps an explicit route leaves out that are neither side steps nor bypasses.
 fn left_out_note(p: &Pathway) -> Option<String> {
+    let mut on_route = vec![false; p.steps.len()];
+    for &i in &p.route {
+        if let Some(x) = on_route.get_mut(i) {
+            *x = true;
+        }
+    }
     let left_out: Vec<&str> = (0..p.steps.len())
-        .filter(|&i| !p.route.contains(&i) && !p.steps[i].side && p.steps[i].bypass_of.is_none())
+        .filter(|&i| !on_route[i] && !p.steps[i].side && p.steps[i].bypass_of.is_none())
         .map(|i| p.steps[i].id.as_str())
         .collect();
     if left_out.is_empty() {
@@ -147,15 +162,18 @@ fn species_notes(p: &Pathway, all: &[&StepResult], c: &Conditions, r: &Condition
     let ph_moves = c.ph != r.ph;
     let i_moves = c.ionic_strength != r.ionic_strength;
     if ph_moves || i_moves {
+        // In order of first appearance, each once (sets, not searches of
+        // the lists: a long route may have thousands of such steps).
         let mut steps: Vec<&str> = Vec::new();
         let mut lacking: Vec<&str> = Vec::new();
+        let mut seen = std::collections::HashSet::new();
         for s in all.iter().filter(|s| !s.species) {
             let st = &p.steps[s.step];
-            if !steps.contains(&st.id.as_str()) {
+            if seen.insert(("step", st.id.as_str())) {
                 steps.push(&st.id);
             }
             for id in thermo::species::lacking(st, &p.compounds) {
-                if !lacking.contains(&id) {
+                if seen.insert(("compound", id)) {
                     lacking.push(id);
                 }
             }

@@ -5,9 +5,14 @@ use crate::analysis::Prepared;
 use crate::analysis::mdf::{self, Mdf};
 use crate::model::units;
 use crate::scenario::State;
-/// Routes longer than this are not optimised on every edit (the optimisation
-/// would no longer fit in a keystroke's time budget); the screen says so.
-pub const LIVE_MDF_MAX_STEPS: usize = 200;
+use std::sync::Arc;
+use std::sync::mpsc::{self, Receiver, Sender};
+
+/// Routes up to this long are optimised in the keystroke itself (a few
+/// milliseconds); longer ones in the background, so that a key never waits
+/// for the solver. The screen marks an optimum that belongs to an earlier
+/// state as out of date until the new one arrives.
+pub const LIVE_MDF_SYNC_STEPS: usize = 200;
 
 /// The driving-force optimisation for the current scenario.
 #[derive(Debug, Clone, PartialEq)]
@@ -16,19 +21,170 @@ pub enum LiveMdf {
     Solved(Box<Mdf>),
     /// Could not be run; the message says why.
     Failed(String),
-    /// Not run on every edit: the route has this many steps.
-    Skipped(usize),
+    /// Being solved in the background; no earlier result to show.
+    Pending,
 }
 
 impl LiveMdf {
-    /// Solves for the scenario unless the route is too long to do so live.
-    pub fn solve(prep: &Prepared, state: &State, route_steps: usize) -> LiveMdf {
-        if route_steps > LIVE_MDF_MAX_STEPS {
-            return LiveMdf::Skipped(route_steps);
-        }
+    /// Solves for the scenario now.
+    pub fn solve(prep: &Prepared, state: &State) -> LiveMdf {
         match mdf::solve(prep, state) {
             Ok(m) => LiveMdf::Solved(Box::new(m)),
             Err(e) => LiveMdf::Failed(e.to_string()),
+        }
+    }
+}
+
+/// Where one free concentration lets the whole route run, or why not known.
+pub type FeasibleRange = Result<Option<(f64, f64)>, String>;
+
+/// Work for the background solver, tagged with the state's generation.
+enum Job {
+    Solve {
+        id: u64,
+        prep: Arc<Prepared>,
+        state: State,
+    },
+    Range {
+        id: u64,
+        prep: Arc<Prepared>,
+        state: State,
+        mdf: Box<Mdf>,
+        compound: usize,
+    },
+}
+
+impl Job {
+    fn id(&self) -> u64 {
+        match self {
+            Job::Solve { id, .. } | Job::Range { id, .. } => *id,
+        }
+    }
+}
+
+/// What the background solver sends back.
+#[derive(Debug)]
+pub enum Answer {
+    /// The optimum for generation `id`.
+    Solved {
+        /// Generation of the state it was solved for.
+        id: u64,
+        /// The result.
+        mdf: LiveMdf,
+    },
+    /// The feasible range of one compound for generation `id`.
+    Range {
+        /// Generation of the state it was solved for.
+        id: u64,
+        /// The compound.
+        compound: usize,
+        /// The range.
+        range: FeasibleRange,
+    },
+}
+
+/// A thread that solves optimisations one at a time, newest first: jobs
+/// queued behind a newer one of the same kind are dropped unsolved, so a
+/// burst of keys costs one solve, not one per key. It ends when the
+/// `Background` is dropped.
+#[derive(Debug)]
+pub struct Background {
+    jobs: Sender<Job>,
+    answers: Receiver<Answer>,
+}
+
+impl std::fmt::Debug for Job {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "Job({})", self.id())
+    }
+}
+
+impl Background {
+    /// Starts the solver thread; None when the system refuses a thread (the
+    /// caller then solves in the foreground).
+    pub fn start() -> Option<Background> {
+        let (jobs, job_rx) = mpsc::channel::<Job>();
+        let (answer_tx, answers) = mpsc::channel::<Answer>();
+        std::thread::Builder::new()
+            .name("optimum".into())
+            .spawn(move || serve(&job_rx, &answer_tx))
+            .ok()?;
+        Some(Background { jobs, answers })
+    }
+
+    /// Asks for the optimum of `state` (generation `id`).
+    pub fn solve(&self, id: u64, prep: Arc<Prepared>, state: State) {
+        let _ = self.jobs.send(Job::Solve { id, prep, state });
+    }
+
+    /// Asks for the feasible range of `compound` at the optimum `mdf` of `state`.
+    pub fn range(
+        &self,
+        id: u64,
+        prep: Arc<Prepared>,
+        state: State,
+        mdf: Box<Mdf>,
+        compound: usize,
+    ) {
+        let _ = self.jobs.send(Job::Range {
+            id,
+            prep,
+            state,
+            mdf,
+            compound,
+        });
+    }
+
+    /// The answers that have arrived, oldest first, without waiting.
+    pub fn arrived(&self) -> Vec<Answer> {
+        self.answers.try_iter().collect()
+    }
+
+    /// Waits for the next answer; None when the solver has stopped.
+    pub fn wait(&self) -> Option<Answer> {
+        self.answers.recv().ok()
+    }
+}
+
+/// The solver thread: take every waiting job, keep the newest optimisation
+/// and the newest range (dropping a range for an older state than the
+/// newest optimisation), solve, answer.
+fn serve(jobs: &Receiver<Job>, answers: &Sender<Answer>) {
+    while let Ok(first) = jobs.recv() {
+        let (mut solve, mut range) = (None, None);
+        for job in std::iter::once(first).chain(jobs.try_iter()) {
+            match job {
+                Job::Solve { .. } => solve = Some(job),
+                Job::Range { .. } => range = Some(job),
+            }
+        }
+        if let (Some(s), Some(r)) = (&solve, &range)
+            && r.id() < s.id()
+        {
+            range = None;
+        }
+        for job in solve.into_iter().chain(range) {
+            let answer = match job {
+                Job::Solve { id, prep, state } => Answer::Solved {
+                    id,
+                    mdf: LiveMdf::solve(&prep, &state),
+                },
+                Job::Range {
+                    id,
+                    prep,
+                    state,
+                    mdf,
+                    compound,
+                } => Answer::Range {
+                    id,
+                    compound,
+                    range: mdf::feasible_range(&prep, &state, &mdf, compound)
+                        .map_err(|e| e.to_string()),
+                },
+            };
+            if answers.send(answer).is_err() {
+                return;
+            }
         }
     }
 }

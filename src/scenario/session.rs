@@ -3,12 +3,13 @@
 //! (stamps, save, reload, poll). The explorer's `App` is a `Session` plus
 //! screen state; nothing here knows about keys, panes or messages.
 
-use super::optimum::LiveMdf;
+use super::optimum::{Answer, Background, FeasibleRange, LIVE_MDF_SYNC_STEPS, LiveMdf};
 use super::save::{self, DiskStamp};
 use super::{Direction, Scenario, State};
 use crate::analysis::{self, Analysis, Prepared};
 use crate::model::{self, Pathway};
 use std::path::PathBuf;
+use std::sync::Arc;
 
 /// Where the pathway came from.
 #[derive(Debug, Clone)]
@@ -35,14 +36,27 @@ impl Source {
 /// A pathway being explored: its document and what is computed from it.
 #[derive(Debug, Clone)]
 pub struct Session {
-    /// The checked pathway with its routes.
-    pub prep: Prepared,
+    /// The checked pathway with its routes (shared with the background solver).
+    pub prep: Arc<Prepared>,
     /// What the person changes, with undo/redo.
     pub scenario: Scenario,
     /// Results for the current state.
     pub analysis: Analysis,
-    /// The driving-force optimisation for the current state.
+    /// The driving-force optimisation: for the current state, or on long
+    /// routes possibly for an earlier one (`optimum_current` tells).
     pub mdf: LiveMdf,
+    /// Counts the analyses installed: the current state's generation.
+    generation: u64,
+    /// The generation `mdf` was solved for.
+    mdf_generation: u64,
+    /// One compound's feasible range at the current optimum, from the
+    /// background solver: (compound, generation, range).
+    range: Option<(usize, u64, FeasibleRange)>,
+    /// The range last asked of the background solver.
+    range_asked: Option<(usize, u64)>,
+    /// The solver thread for routes over `LIVE_MDF_SYNC_STEPS` steps,
+    /// started on the first such route. Shared by clones of the session.
+    background: Option<Arc<Background>>,
     /// Where the pathway came from.
     pub source: Source,
     /// Stamp of the file as last read or written.
@@ -75,20 +89,26 @@ impl Session {
     /// Opens a session on a prepared pathway and a starting state.
     pub fn new(prep: Prepared, state: State, source: Source) -> Result<Session, model::Problem> {
         let analysis = analysis::analyze(&prep, &state)?;
-        let mdf = LiveMdf::solve(&prep, &state, analysis.steps.len());
         let stamp = source
             .path
             .as_ref()
             .map(|p| DiskStamp::read(p).unwrap_or_else(|_| DiskStamp::of_text(&source.text, None)));
-        Ok(Session {
-            prep,
+        let mut s = Session {
+            prep: Arc::new(prep),
             scenario: Scenario::new(state),
             analysis,
-            mdf,
+            mdf: LiveMdf::Pending,
+            generation: 0,
+            mdf_generation: 0,
+            range: None,
+            range_asked: None,
+            background: None,
             source,
             stamp,
             bad_stamp: None,
-        })
+        };
+        s.optimise();
+        Ok(s)
     }
 
     /// The pathway.
@@ -142,7 +162,129 @@ impl Session {
 
     fn install(&mut self, a: Analysis) {
         self.analysis = a;
-        self.mdf = LiveMdf::solve(&self.prep, self.scenario.state(), self.analysis.steps.len());
+        self.generation += 1;
+        // An answer for an earlier state is not waited for.
+        self.range_asked = None;
+        self.optimise();
+    }
+
+    /// Solves the optimisation for the current state: at once on short
+    /// routes, in the background on long ones (the last optimum stays shown,
+    /// marked out of date, until the new one arrives).
+    fn optimise(&mut self) {
+        if self.analysis.steps.len() > LIVE_MDF_SYNC_STEPS && self.background.is_none() {
+            self.background = Background::start().map(Arc::new);
+        }
+        match &self.background {
+            Some(bg) if self.analysis.steps.len() > LIVE_MDF_SYNC_STEPS => {
+                bg.solve(self.generation, self.prep.clone(), self.state().clone());
+            }
+            _ => {
+                self.mdf = LiveMdf::solve(&self.prep, self.state());
+                self.mdf_generation = self.generation;
+            }
+        }
+    }
+
+    /// True when `mdf` belongs to the current state.
+    pub fn optimum_current(&self) -> bool {
+        self.mdf_generation == self.generation && self.mdf != LiveMdf::Pending
+    }
+
+    /// True while an answer of the background solver is awaited.
+    pub fn optimum_waiting(&self) -> bool {
+        !self.optimum_current() || self.range_asked.is_some()
+    }
+
+    /// Takes the background solver's answers that have arrived; true when
+    /// the screen should be drawn again.
+    pub fn receive(&mut self) -> bool {
+        let Some(bg) = self.background.clone() else {
+            return false;
+        };
+        let answers = bg.arrived();
+        let changed = !answers.is_empty();
+        for a in answers {
+            self.take(a);
+        }
+        changed
+    }
+
+    /// Waits until the optimum (and any range asked for) of the current
+    /// state has arrived: for key scripts, screenshots and tests.
+    pub fn settle(&mut self) {
+        while self.optimum_waiting() {
+            match self.background.as_ref().and_then(|bg| bg.wait()) {
+                Some(a) => self.take(a),
+                None => break,
+            }
+        }
+    }
+
+    fn take(&mut self, a: Answer) {
+        match a {
+            Answer::Solved { id, mdf } if id >= self.mdf_generation => {
+                self.mdf = mdf;
+                self.mdf_generation = id;
+            }
+            Answer::Range {
+                id,
+                compound,
+                range,
+            } => {
+                if self.range_asked == Some((compound, id)) {
+                    self.range_asked = None;
+                }
+                if id == self.generation {
+                    self.range = Some((compound, id, range));
+                }
+            }
+            Answer::Solved { .. } => {}
+        }
+    }
+
+    /// Where free compound `i` lets the whole route run at the current
+    /// optimum `m`: solved here on short routes; on long ones the
+    /// background solver's answer, or None while it is still being solved
+    /// (ask for it with `ask_range`).
+    pub fn feasible_range(&self, m: &crate::analysis::mdf::Mdf, i: usize) -> Option<FeasibleRange> {
+        if self.background.is_none() || self.analysis.steps.len() <= LIVE_MDF_SYNC_STEPS {
+            return Some(
+                crate::analysis::mdf::feasible_range(&self.prep, self.state(), m, i)
+                    .map_err(|e| e.to_string()),
+            );
+        }
+        match &self.range {
+            Some((c, g, r)) if *c == i && *g == self.generation && self.optimum_current() => {
+                Some(r.clone())
+            }
+            _ => None,
+        }
+    }
+
+    /// Asks the background solver for compound `i`'s feasible range at the
+    /// current optimum, unless it is known, already asked for, or not needed.
+    pub fn ask_range(&mut self, i: usize) {
+        let (Some(bg), LiveMdf::Solved(m)) = (&self.background, &self.mdf) else {
+            return;
+        };
+        let wanted = self.analysis.steps.len() > LIVE_MDF_SYNC_STEPS
+            && self.optimum_current()
+            && m.feasible_ranges.is_none()
+            && m.value >= 0.0
+            && m.parts.get(i) == Some(&crate::analysis::mdf::Part::Free)
+            && !matches!(&self.range, Some((c, g, _)) if *c == i && *g == self.generation)
+            && self.range_asked != Some((i, self.generation));
+        if wanted {
+            bg.range(
+                self.generation,
+                self.prep.clone(),
+                self.state().clone(),
+                m.clone(),
+                i,
+            );
+            self.range_asked = Some((i, self.generation));
+        }
     }
 
     /// True when the file changed on disk since it was last read or written.
@@ -179,7 +321,7 @@ impl Session {
         let prep = model::load_str(&text, &name)
             .and_then(analysis::prepare)
             .map_err(|e| format!("written, but the file does not read back: {e}"))?;
-        self.prep = prep;
+        self.prep = Arc::new(prep);
         self.source = Source {
             path: Some(path.clone()),
             name,
@@ -268,7 +410,7 @@ impl Session {
             .filter(|(j, c)| !c.is_solvent() && c.conc != Some(next.conc[*j]))
             .count();
         self.scenario.remap(carry);
-        self.prep = prep;
+        self.prep = Arc::new(prep);
         self.install(a);
         self.source.text = text;
         self.stamp = stamp_now;
@@ -293,6 +435,72 @@ mod tests {
             text: crate::DEMO.into(),
         };
         (dir, path, Session::new(prep, state, source).unwrap())
+    }
+
+    /// A session on a generated route long enough to be optimised in the background.
+    fn long_session(steps: usize) -> Session {
+        assert!(steps > LIVE_MDF_SYNC_STEPS);
+        let text = crate::synthetic::route(steps);
+        let prep = analysis::prepare(model::load_str(&text, "long.toml").unwrap()).unwrap();
+        let state = State::from_pathway(&prep.pathway);
+        let source = Source {
+            path: None,
+            name: "long.toml".into(),
+            text,
+        };
+        Session::new(prep, state, source).unwrap()
+    }
+
+    #[test]
+    fn a_long_route_is_optimised_in_the_background_and_ends_at_the_newest_state() {
+        let mut s = long_session(LIVE_MDF_SYNC_STEPS + 50);
+        // Nothing is shown until the first answer is taken.
+        assert_eq!(s.mdf, LiveMdf::Pending);
+        assert!(!s.optimum_current());
+        s.settle();
+        assert!(s.optimum_current());
+        let first = s.mdf.clone();
+        assert!(matches!(first, LiveMdf::Solved(_)));
+        // A burst of edits: the old optimum stays, marked out of date, and
+        // the one that arrives at the end is that of the last state.
+        let atp = s.pathway().compound("atp").unwrap();
+        for k in 1..=5 {
+            s.edit(|st| st.conc[atp] = 1e-3 * f64::from(k)).unwrap();
+        }
+        assert!(!s.optimum_current());
+        assert_eq!(s.mdf, first, "the last optimum stays shown meanwhile");
+        s.settle();
+        assert!(s.optimum_current());
+        let expected = LiveMdf::solve(&s.prep, s.state());
+        assert_eq!(s.mdf, expected);
+        assert_ne!(s.mdf, first, "the held carrier moved, so the optimum did");
+    }
+
+    #[test]
+    fn the_feasible_range_of_a_long_route_comes_from_the_background_and_matches_a_direct_solve() {
+        let mut s = long_session(LIVE_MDF_SYNC_STEPS + 10);
+        s.settle();
+        let LiveMdf::Solved(m) = s.mdf.clone() else {
+            panic!("solved")
+        };
+        let i = (0..m.parts.len())
+            .find(|&i| m.parts[i] == crate::analysis::mdf::Part::Free)
+            .unwrap();
+        assert_eq!(s.feasible_range(&m, i), None, "not asked for yet");
+        s.ask_range(i);
+        assert!(s.optimum_waiting());
+        s.settle();
+        let direct = crate::analysis::mdf::feasible_range(&s.prep, s.state(), &m, i)
+            .map_err(|e| e.to_string());
+        assert_eq!(s.feasible_range(&m, i), Some(direct));
+        // An edit makes the range unknown again.
+        let c3 = s.pathway().compound("c3").unwrap();
+        s.edit(|st| st.conc[c3] *= 2.0).unwrap();
+        s.settle();
+        let LiveMdf::Solved(m2) = s.mdf.clone() else {
+            panic!("solved")
+        };
+        assert_eq!(s.feasible_range(&m2, i), None);
     }
 
     #[test]

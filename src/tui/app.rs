@@ -12,7 +12,7 @@ use crate::analysis::{Direction, Prepared, StepResult};
 use crate::model::samples::Sample;
 use crate::model::{self, units};
 use crate::scenario::State;
-pub use crate::scenario::optimum::{LIVE_MDF_MAX_STEPS, LiveMdf};
+pub use crate::scenario::optimum::{LIVE_MDF_SYNC_STEPS, LiveMdf};
 use crate::scenario::save;
 use crate::scenario::session::Session;
 pub use crate::scenario::session::Source;
@@ -118,6 +118,24 @@ impl App {
         self.range_job.is_some() || self.analysis.control_estimate.range_pending()
     }
 
+    /// Takes what the background solver has sent (long routes) and asks
+    /// for the selected compound's feasible range when it is shown; true
+    /// when the screen should be drawn again. The event loop calls it
+    /// between keys.
+    pub fn receive(&mut self) -> bool {
+        let changed = self.session.receive();
+        self.ask_shown_range();
+        changed
+    }
+
+    /// Asks the background solver for the range the compound detail shows.
+    pub(super) fn ask_shown_range(&mut self) {
+        if self.focus == Pane::Compounds {
+            let i = self.comp_sel;
+            self.session.ask_range(i);
+        }
+    }
+
     /// Computes a part of the flux control range (off the keystroke path:
     /// the event loop calls it when no key is waiting); true when the screen
     /// should be drawn again.
@@ -144,8 +162,13 @@ impl App {
         false
     }
 
-    /// Runs `idle_work` until nothing is left (for screenshots and tests).
+    /// Runs `idle_work` until nothing is left, and waits for the background
+    /// solver's answers (for key scripts, screenshots and tests).
     pub fn finish_idle_work(&mut self) {
+        self.ask_shown_range();
+        self.session.settle();
+        self.ask_shown_range();
+        self.session.settle();
         while self.busy() {
             self.idle_work();
         }

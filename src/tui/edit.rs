@@ -1,7 +1,7 @@
 //! The edit line: checking a typed value before it is applied, applying it,
 //! and loading the optimal concentrations.
 
-use super::app::{App, LIVE_MDF_MAX_STEPS, Mode, Pane, Target, Tone};
+use super::app::{App, Mode, Pane, Target, Tone};
 use crate::analysis::mdf::Part;
 use crate::model::units::Kind;
 use crate::model::{Pathway, check};
@@ -186,21 +186,20 @@ impl App {
     }
 
     pub(super) fn load_optimum(&mut self) {
+        if !self.optimum_current() {
+            self.say(
+                "the optimum for this state is still being solved; press o again when the title's mark clears",
+                Tone::Warn,
+            );
+            return;
+        }
         let m = match &self.mdf {
             LiveMdf::Solved(m) => m.clone(),
             LiveMdf::Failed(e) => {
                 self.say(format!("no optimum to load: {e}"), Tone::Warn);
                 return;
             }
-            LiveMdf::Skipped(n) => {
-                self.say(
-                    format!(
-                        "no optimum to load: routes over {LIVE_MDF_MAX_STEPS} steps ({n} here) are not optimised live; run `dgpath mdf FILE`"
-                    ),
-                    Tone::Warn,
-                );
-                return;
-            }
+            LiveMdf::Pending => return,
         };
         let values: Vec<(usize, f64)> = (0..m.conc.len())
             .filter(|&i| m.parts[i] == Part::Free)

@@ -23,6 +23,9 @@ pub fn render_buffer(app: &App, width: u16, height: u16) -> Buffer {
 /// Replays a key script (see `parse_keys`) into the app.
 pub fn replay(app: &mut App, script: &str) -> Result<(), String> {
     for k in parse_keys(script)? {
+        // Each key sees the screen as a person who waited for the
+        // background solver would (long routes only; short ones solve in the key).
+        app.session.settle();
         app.handle_key(k);
         if app.quit {
             break;

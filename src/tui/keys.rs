@@ -26,6 +26,7 @@ impl App {
         match self.message_for(key) {
             Some(m) => {
                 self.update(m);
+                self.ask_shown_range();
                 true
             }
             None => false,

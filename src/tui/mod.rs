@@ -36,6 +36,9 @@ use std::time::{Duration, Instant};
 /// How often the file on disk is checked for outside changes.
 pub const POLL: Duration = Duration::from_millis(500);
 
+/// How often an answer of the background solver is looked for while one is awaited.
+pub const SOLVER_LOOK: Duration = Duration::from_millis(4);
+
 /// Why the explorer could not run.
 #[derive(Debug, thiserror::Error)]
 pub enum TuiError {
@@ -81,9 +84,13 @@ pub fn run(mut app: App) -> Result<(), TuiError> {
             terminal.draw(|f| view::draw(f, &app))?;
             redraw = false;
         }
-        // Work left between keys (the flux control range) polls without waiting.
+        // Work left between keys (the flux control range) polls without
+        // waiting; an answer awaited from the background solver is looked
+        // for every few milliseconds.
         let wait = if app.busy() {
             Duration::ZERO
+        } else if app.optimum_waiting() {
+            SOLVER_LOOK.min(POLL.saturating_sub(last_poll.elapsed()))
         } else {
             POLL.saturating_sub(last_poll.elapsed())
         };
@@ -96,6 +103,7 @@ pub fn run(mut app: App) -> Result<(), TuiError> {
         } else if app.busy() {
             redraw |= app.idle_work();
         }
+        redraw |= app.receive();
         if app.quit {
             break;
         }

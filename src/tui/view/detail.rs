@@ -3,12 +3,12 @@
 use super::text::{class_text, fit, kv, num3, role_text};
 use super::theme::{Theme, block};
 use super::theme::{against_mark, bottleneck_mark};
-use crate::analysis::mdf::{self, Mdf, Part};
+use crate::analysis::mdf::{Mdf, Part};
 use crate::analysis::{Class, Role, StepResult, mca};
 use crate::model::units;
 use crate::present;
 use crate::tui::app::LiveMdf;
-use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
+use crate::tui::app::{App, Pane};
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;
 use ratatui::style::Modifier;
@@ -314,18 +314,23 @@ pub fn compound_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
         .map(|s| p.steps[s.step].id.as_str())
         .collect();
     if !users.is_empty() {
-        out.push(Line::from(format!("used by {}", users.join(", "))));
+        // A carrier on a long route is used by thousands of steps: name the
+        // first few (the pane shows one line of them anyway).
+        const NAMED: usize = 12;
+        let more = match users.len().saturating_sub(NAMED) {
+            0 => String::new(),
+            n => format!(" and {n} more"),
+        };
+        let named = &users[..users.len().min(NAMED)];
+        out.push(Line::from(format!("used by {}{more}", named.join(", "))));
     }
     match &app.mdf {
         LiveMdf::Solved(m) => out.extend(compound_optimum_lines(app, t, m, i)),
-        LiveMdf::Failed(e) => out.push(Line::styled(
-            format!("optimum: not solved — {e}"),
-            t.warn(),
-        )),
-        LiveMdf::Skipped(n) => out.push(Line::styled(
-            format!(
-                "optimum: not computed live for routes over {LIVE_MDF_MAX_STEPS} steps ({n} here); run `dgpath mdf FILE`"
-            ),
+        LiveMdf::Failed(e) => {
+            out.push(Line::styled(format!("optimum: not solved — {e}"), t.warn()))
+        }
+        LiveMdf::Pending => out.push(Line::styled(
+            "optimum: being solved in the background",
             t.dim(),
         )),
     }
@@ -341,17 +346,18 @@ fn compound_optimum_lines(app: &App, t: &Theme, m: &Mdf, i: usize) -> Vec<Line<'
         Some(Part::Free) => {
             let mut v = vec![Line::from(format!("at the optimum: {}", conc(m.conc[i])))];
             let (dash, ge) = if ascii { ("-", ">=") } else { ("–", "≥") };
-            v.push(match mdf::feasible_range(&app.prep, app.state(), m, i) {
-                Ok(Some((lo, hi))) => Line::from(format!(
+            v.push(match app.session.feasible_range(m, i) {
+                None => Line::styled("route range: being solved in the background", t.dim()),
+                Some(Ok(Some((lo, hi)))) => Line::from(format!(
                     "the route can run for {}{dash}{} (every step at -dG' {ge} 0, the others free within their bounds)",
                     conc(lo),
                     conc(hi)
                 )),
-                Ok(None) => Line::styled(
+                Some(Ok(None)) => Line::styled(
                     "no concentration lets the whole route run within the bounds (MDF < 0)",
                     t.warn(),
                 ),
-                Err(e) => Line::styled(format!("range not solved — {e}"), t.warn()),
+                Some(Err(e)) => Line::styled(format!("range not solved — {e}"), t.warn()),
             });
             v
         }
@@ -381,12 +387,7 @@ fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
     let a = &app.analysis;
     match &app.mdf {
         LiveMdf::Failed(e) => Line::styled(format!("optimum: not solved — {e}"), t.warn()),
-        LiveMdf::Skipped(n) => Line::styled(
-            format!(
-                "optimum: not computed live for routes over {LIVE_MDF_MAX_STEPS} steps ({n} here); run `dgpath mdf FILE`"
-            ),
-            t.dim(),
-        ),
+        LiveMdf::Pending => Line::styled("optimum: being solved in the background", t.dim()),
         LiveMdf::Solved(_) => {
             let pos = a.steps.iter().position(|x| std::ptr::eq(x, s));
             match pos.and_then(|k| app.price_at(k).map(|pf| (k, pf))) {
@@ -405,6 +406,9 @@ fn optimum_line(app: &App, t: &Theme, s: &StepResult) -> Line<'static> {
                             format!("{} bottleneck", bottleneck_mark(app.opts.ascii)),
                             t.warn(),
                         ));
+                    }
+                    if !app.optimum_current() {
+                        l.push(Span::styled("  (out of date, solving)", t.dim()));
                     }
                     Line::from(l)
                 }

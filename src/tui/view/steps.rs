@@ -7,7 +7,7 @@ use super::theme::{MARKER_COLUMN, Theme, against_mark, block_with, bottleneck_ma
 use crate::model::units;
 use crate::present;
 use crate::tui::app::LiveMdf;
-use crate::tui::app::{App, LIVE_MDF_MAX_STEPS, Pane};
+use crate::tui::app::{App, Pane};
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;
 use ratatui::style::{Modifier, Style};
@@ -328,6 +328,14 @@ fn mdf_title(app: &App, t: &Theme, room: usize) -> Vec<Span<'static>> {
     let ascii = app.opts.ascii;
     let sep = if ascii { " | " } else { " · " };
     let (long, short, style) = match &app.mdf {
+        LiveMdf::Solved(m) if !app.optimum_current() => {
+            let v = tenth(u.of(m.value));
+            (
+                format!("MDF {v:+.1} {} (out of date, solving)", u.label()),
+                format!("MDF {v:+.1} (solving)"),
+                t.dim(),
+            )
+        }
         LiveMdf::Solved(m) => {
             let v = tenth(u.of(m.value));
             let num = format!("MDF {v:+.1} {}", u.label());
@@ -341,14 +349,19 @@ fn mdf_title(app: &App, t: &Theme, room: usize) -> Vec<Span<'static>> {
                 )
             }
         }
+        LiveMdf::Failed(_) if !app.optimum_current() => (
+            "MDF not solved (out of date, solving)".to_string(),
+            "MDF solving".to_string(),
+            t.dim(),
+        ),
         LiveMdf::Failed(_) => (
             "MDF not solved (see step detail)".to_string(),
             "MDF failed".to_string(),
             t.warn(),
         ),
-        LiveMdf::Skipped(_) => (
-            format!("MDF off (over {LIVE_MDF_MAX_STEPS} steps)"),
-            "MDF off".to_string(),
+        LiveMdf::Pending => (
+            "MDF being solved".to_string(),
+            "MDF solving".to_string(),
             t.dim(),
         ),
     };
