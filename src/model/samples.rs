@@ -118,22 +118,52 @@ impl SampleReader<std::fs::File> {
     }
 }
 
+/// Why a column header could not be split into an id and a unit.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+enum HeaderError {
+    /// `glc [mM` (the header as written).
+    #[error("'{0}' opens '[' but does not close it; write e.g. 'glc [mM]'")]
+    Unclosed(String),
+    /// `glc [mM] x` (the header as written).
+    #[error("'{0}' has text after the unit; write e.g. 'glc [mM]'")]
+    TextAfterUnit(String),
+}
+
+/// Why a concentration cell could not be read.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+enum CellError {
+    /// Neither a number nor a number with a unit (the cell as written).
+    #[error(
+        "'{0}' is not a concentration; write a number such as 2.5 (with the unit in the header) or '2.5 mM'"
+    )]
+    NotAConcentration(String),
+    /// A bare number under a header without a unit.
+    #[error(
+        "'{0}' has no unit and the column header gives none; write '{0} mM' or put the unit in the header (e.g. 'glc [mM]')"
+    )]
+    NoUnit(String),
+    /// The number and unit could not be read.
+    #[error(transparent)]
+    Unit(#[from] units::UnitError),
+    /// Zero or negative.
+    #[error(
+        "'{0}': a concentration must be above zero; leave the cell empty to keep the pathway file's value"
+    )]
+    NotPositive(String),
+}
+
 /// Splits `glc [mM]` into `glc` and `Some("mM")`.
-fn split_header(h: &str) -> Result<(&str, Option<&str>), String> {
+fn split_header(h: &str) -> Result<(&str, Option<&str>), HeaderError> {
     let h = h.trim();
     match h.find('[') {
         None => Ok((h, None)),
         Some(i) => {
             let rest = &h[i + 1..];
             let Some(j) = rest.find(']') else {
-                return Err(format!(
-                    "'{h}' opens '[' but does not close it; write e.g. 'glc [mM]'"
-                ));
+                return Err(HeaderError::Unclosed(h.to_string()));
             };
             if !rest[j + 1..].trim().is_empty() {
-                return Err(format!(
-                    "'{h}' has text after the unit; write e.g. 'glc [mM]'"
-                ));
+                return Err(HeaderError::TextAfterUnit(h.to_string()));
             }
             Ok((h[..i].trim(), Some(rest[..j].trim())))
         }
@@ -189,7 +219,7 @@ impl<R: Read> SampleReader<R> {
             }));
             let (id, unit) = split_header(h).map_err(|m| SampleError::Header {
                 place: place.clone(),
-                message: m,
+                message: m.to_string(),
             })?;
             if id.is_empty() {
                 return Err(SampleError::Header {
@@ -294,7 +324,7 @@ impl<R: Read> SampleReader<R> {
             }
             let v = parse_cell(cell, col.factor).map_err(|m| SampleError::Cell {
                 place: place(&col.header),
-                message: m,
+                message: m.to_string(),
             })?;
             conc[col.compound] = v;
         }
@@ -303,12 +333,8 @@ impl<R: Read> SampleReader<R> {
 }
 
 /// Parses one concentration cell to mol/L; `factor` is how many of the header's unit make 1 M.
-fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, String> {
-    let bad = || {
-        format!(
-            "'{cell}' is not a concentration; write a number such as 2.5 (with the unit in the header) or '2.5 mM'"
-        )
-    };
+fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, CellError> {
+    let bad = || CellError::NotAConcentration(cell.to_string());
     let t = cell.trim();
     // A bare number takes the header's unit.
     let v = if let Ok(x) = t.parse::<f64>() {
@@ -319,28 +345,19 @@ fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, String> {
         }
         match factor {
             Some(d) => x / d,
-            None => {
-                return Err(format!(
-                    "'{cell}' has no unit and the column header gives none; write '{cell} mM' or put the unit in the header (e.g. 'glc [mM]')"
-                ));
-            }
+            None => return Err(CellError::NoUnit(cell.to_string())),
         }
     } else {
-        units::parse(t, units::Kind::Concentration).map_err(|e| {
-            if e.contains("does not start with a number") {
-                bad()
-            } else {
-                e
-            }
+        units::parse(t, units::Kind::Concentration).map_err(|e| match e {
+            units::UnitError::NotANumber(_) => bad(),
+            e => CellError::Unit(e),
         })?
     };
     if !v.is_finite() {
         return Err(bad());
     }
     if v <= 0.0 {
-        return Err(format!(
-            "'{cell}': a concentration must be above zero; leave the cell empty to keep the pathway file's value"
-        ));
+        return Err(CellError::NotPositive(cell.to_string()));
     }
     Ok(v)
 }
