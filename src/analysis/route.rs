@@ -6,6 +6,7 @@
 use crate::model::{LoadError, Pathway, Problem};
 /// Which way a route runs (it belongs to the scenario; re-exported here).
 pub use crate::scenario::Direction;
+use std::collections::HashMap;
 
 /// A compound's role on one route.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -129,54 +130,89 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                 .into(),
         ));
     }
-    let mut steps: Vec<RouteStep> = Vec::new();
+    let (mut steps, unbypassed) = match direction {
+        Direction::Forward => (forward_steps(p), Vec::new()),
+        Direction::Reverse => reverse_steps(p),
+    };
+    let roles = infer_roles(p, &steps);
+    let side: Vec<usize> = (0..p.steps.len()).filter(|&s| p.steps[s].side).collect();
+    let branch = branch_points(p, &side);
+    balance(p, &mut steps, &roles, direction)?;
+    if direction == Direction::Reverse {
+        scale_reverse_turns(p, &mut steps)?;
+    }
+    let groups = coupled_groups(p, &steps, direction)?;
+    if direction == Direction::Forward {
+        check_couples_name_later_steps(p)?;
+    }
+    Ok(Route {
+        direction,
+        steps,
+        roles,
+        branch,
+        groups,
+        side,
+        unbypassed,
+    })
+}
+
+/// The main route's steps as written, one turn each.
+fn forward_steps(p: &Pathway) -> Vec<RouteStep> {
+    p.route
+        .iter()
+        .map(|&s| RouteStep {
+            step: s,
+            sign: 1.0,
+            times: 1.0,
+            replaces: None,
+        })
+        .collect()
+}
+
+/// The reverse route: the main route backward, each step replaced by its
+/// bypasses (in file order) or else run reversed; also the reversed steps
+/// that have no bypass.
+fn reverse_steps(p: &Pathway) -> (Vec<RouteStep>, Vec<usize>) {
+    let mut steps = Vec::new();
     let mut unbypassed = Vec::new();
-    match direction {
-        Direction::Forward => {
-            for &s in &p.route {
+    // Bypasses of each step, in file order.
+    let mut bypasses_of: Vec<Vec<usize>> = vec![Vec::new(); p.steps.len()];
+    for (b, st) in p.steps.iter().enumerate() {
+        if let Some(f) = st.bypass_of {
+            bypasses_of[f].push(b);
+        }
+    }
+    for &f in p.route.iter().rev() {
+        let bypasses = std::mem::take(&mut bypasses_of[f]);
+        if bypasses.is_empty() {
+            steps.push(RouteStep {
+                step: f,
+                sign: -1.0,
+                times: 1.0,
+                replaces: None,
+            });
+            unbypassed.push(f);
+        } else {
+            for b in bypasses {
                 steps.push(RouteStep {
-                    step: s,
+                    step: b,
                     sign: 1.0,
                     times: 1.0,
-                    replaces: None,
+                    replaces: Some(f),
                 });
             }
         }
-        Direction::Reverse => {
-            // Bypasses of each step, in file order.
-            let mut bypasses_of: Vec<Vec<usize>> = vec![Vec::new(); p.steps.len()];
-            for (b, st) in p.steps.iter().enumerate() {
-                if let Some(f) = st.bypass_of {
-                    bypasses_of[f].push(b);
-                }
-            }
-            for &f in p.route.iter().rev() {
-                let bypasses = std::mem::take(&mut bypasses_of[f]);
-                if bypasses.is_empty() {
-                    steps.push(RouteStep {
-                        step: f,
-                        sign: -1.0,
-                        times: 1.0,
-                        replaces: None,
-                    });
-                    unbypassed.push(f);
-                } else {
-                    for b in bypasses {
-                        steps.push(RouteStep {
-                            step: b,
-                            sign: 1.0,
-                            times: 1.0,
-                            replaces: Some(f),
-                        });
-                    }
-                }
-            }
-        }
     }
+    (steps, unbypassed)
+}
+
+/// Each compound's role on these steps: stated (solvent, currency) or from
+/// whether the route makes it, uses it, both or neither.
+fn infer_roles(p: &Pathway, steps: &[RouteStep]) -> Vec<Role> {
     let nc = p.compounds.len();
     let mut produced = vec![false; nc];
     let mut consumed = vec![false; nc];
-    for rs in &steps {
+    for rs in steps {
         for &(c, nu) in &p.steps[rs.step].stoich {
             if nu * rs.sign > 0.0 {
                 produced[c] = true;
@@ -185,7 +221,7 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    let roles: Vec<Role> = (0..nc)
+    (0..nc)
         .map(|c| {
             let comp = &p.compounds[c];
             if comp.is_solvent() {
@@ -201,10 +237,14 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                 }
             }
         })
-        .collect();
-    let side: Vec<usize> = (0..p.steps.len()).filter(|&s| p.steps[s].side).collect();
+        .collect()
+}
+
+/// Branch points: compounds marked `branch = true` and every non-currency
+/// compound a side step uses.
+fn branch_points(p: &Pathway, side: &[usize]) -> Vec<bool> {
     let mut branch: Vec<bool> = p.compounds.iter().map(|c| c.branch).collect();
-    for &s in &side {
+    for &s in side {
         for &(c, _) in &p.steps[s].stoich {
             let comp = &p.compounds[c];
             if !comp.is_currency() {
@@ -212,32 +252,36 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    balance(p, &mut steps, &roles, direction)?;
-    if direction == Direction::Reverse {
-        let first = p.route[0];
-        let stand_in = steps
-            .iter()
-            .position(|r| r.replaces == Some(first))
-            .or_else(|| steps.iter().position(|r| r.step == first));
-        let any_explicit = steps.iter().any(|r| p.steps[r.step].times.is_some());
-        let fwd_first = build_forward_first_times(p)?;
-        if let (Some(k), false) = (stand_in, any_explicit) {
-            let f = fwd_first / steps[k].times;
-            for r in steps.iter_mut() {
-                r.times *= f;
-            }
+    branch
+}
+
+/// Scales the reverse route's turns so the step standing in for the forward
+/// route's first step keeps that step's turns (unless a step states `times`).
+fn scale_reverse_turns(p: &Pathway, steps: &mut [RouteStep]) -> Result<(), Problem> {
+    let first = p.route[0];
+    let stand_in = steps
+        .iter()
+        .position(|r| r.replaces == Some(first))
+        .or_else(|| steps.iter().position(|r| r.step == first));
+    let any_explicit = steps.iter().any(|r| p.steps[r.step].times.is_some());
+    let fwd_first = build_forward_first_times(p)?;
+    if let (Some(k), false) = (stand_in, any_explicit) {
+        let f = fwd_first / steps[k].times;
+        for r in steps.iter_mut() {
+            r.times *= f;
         }
     }
-    // Coupled groups. Positions of each step on the route, and of the steps
-    // that couple to each step, so that each link is found without a scan.
-    let mut positions: std::collections::HashMap<usize, Vec<usize>> = Default::default();
-    let mut coupled_to: std::collections::HashMap<usize, Vec<usize>> = Default::default();
-    for (m, rs) in steps.iter().enumerate() {
-        positions.entry(rs.step).or_default().push(m);
-        if let Some(c) = p.steps[rs.step].couple {
-            coupled_to.entry(c).or_default().push(m);
-        }
-    }
+    Ok(())
+}
+
+/// Coupled groups (positions on the route, each of two steps or more); an
+/// error when a group's steps make different turns.
+fn coupled_groups(
+    p: &Pathway,
+    steps: &[RouteStep],
+    direction: Direction,
+) -> Result<Vec<Vec<usize>>, Problem> {
+    let links = CoupleLinks::new(p, steps);
     let mut groups: Vec<Vec<usize>> = Vec::new();
     let mut in_group = vec![false; steps.len()];
     for k in 0..steps.len() {
@@ -246,81 +290,115 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
         }
         let mut chain = vec![k];
         let mut cur = k;
-        loop {
-            // Forward: cur couples to the next; reverse: the next couples to cur.
-            let next = match direction {
-                Direction::Forward => p.steps[steps[cur].step]
-                    .couple
-                    .and_then(|c| positions.get(&c))
-                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
-                Direction::Reverse => coupled_to
-                    .get(&steps[cur].step)
-                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
-            };
-            match next {
-                Some(m) if !in_group[m] => {
-                    chain.push(m);
-                    cur = m;
-                }
-                _ => break,
-            }
+        while let Some(m) = links.next(p, steps, direction, cur)
+            && !in_group[m]
+        {
+            chain.push(m);
+            cur = m;
         }
         if chain.len() > 1 {
             for &m in &chain {
                 in_group[m] = true;
             }
-            let t0 = steps[chain[0]].times;
-            if let Some(&bad) = chain
-                .iter()
-                .find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0))
-            {
-                let a = &p.steps[steps[chain[0]].step];
-                let b = &p.steps[steps[bad].step];
-                return Err(problem(
-                    p,
-                    Some(a.line),
-                    format!(
-                        "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
-                        a.id,
-                        b.id,
-                        fmt_t(t0),
-                        fmt_t(steps[bad].times)
-                    ),
-                ));
-            }
+            equal_turns(p, steps, &chain)?;
             groups.push(chain);
         }
     }
-    if direction == Direction::Forward {
-        let mut route_pos: std::collections::HashMap<usize, usize> = Default::default();
-        for (i, &x) in p.route.iter().enumerate() {
-            route_pos.entry(x).or_insert(i);
+    Ok(groups)
+}
+
+/// Positions of each step on the route, and of the steps that couple to
+/// each step, so that each link is found without a scan.
+struct CoupleLinks {
+    positions: HashMap<usize, Vec<usize>>,
+    coupled_to: HashMap<usize, Vec<usize>>,
+}
+
+impl CoupleLinks {
+    /// The positions of `steps`.
+    fn new(p: &Pathway, steps: &[RouteStep]) -> CoupleLinks {
+        let mut positions: HashMap<usize, Vec<usize>> = Default::default();
+        let mut coupled_to: HashMap<usize, Vec<usize>> = Default::default();
+        for (m, rs) in steps.iter().enumerate() {
+            positions.entry(rs.step).or_default().push(m);
+            if let Some(c) = p.steps[rs.step].couple {
+                coupled_to.entry(c).or_default().push(m);
+            }
         }
-        for &s in &p.route {
-            if let Some(c) = p.steps[s].couple {
-                let (ps, pc) = (route_pos.get(&s).copied(), route_pos.get(&c).copied());
-                if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
-                    return Err(problem(
-                        p,
-                        Some(p.steps[s].line),
-                        format!(
-                            "step '{}' couples to '{}', which is not a later step of the main route; couple names a following step",
-                            p.steps[s].id, p.steps[c].id
-                        ),
-                    ));
-                }
+        CoupleLinks {
+            positions,
+            coupled_to,
+        }
+    }
+
+    /// The position after `cur` that `cur` is coupled with. Forward: cur
+    /// couples to the next; reverse: the next couples to cur.
+    fn next(
+        &self,
+        p: &Pathway,
+        steps: &[RouteStep],
+        direction: Direction,
+        cur: usize,
+    ) -> Option<usize> {
+        match direction {
+            Direction::Forward => p.steps[steps[cur].step]
+                .couple
+                .and_then(|c| self.positions.get(&c))
+                .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+            Direction::Reverse => self
+                .coupled_to
+                .get(&steps[cur].step)
+                .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+        }
+    }
+}
+
+/// Refuses a coupled group whose steps make different turns.
+fn equal_turns(p: &Pathway, steps: &[RouteStep], chain: &[usize]) -> Result<(), Problem> {
+    let t0 = steps[chain[0]].times;
+    if let Some(&bad) = chain
+        .iter()
+        .find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0))
+    {
+        let a = &p.steps[steps[chain[0]].step];
+        let b = &p.steps[steps[bad].step];
+        return Err(problem(
+            p,
+            Some(a.line),
+            format!(
+                "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
+                a.id,
+                b.id,
+                fmt_t(t0),
+                fmt_t(steps[bad].times)
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Refuses a `couple` that does not name a later step of the main route.
+fn check_couples_name_later_steps(p: &Pathway) -> Result<(), Problem> {
+    let mut route_pos: HashMap<usize, usize> = Default::default();
+    for (i, &x) in p.route.iter().enumerate() {
+        route_pos.entry(x).or_insert(i);
+    }
+    for &s in &p.route {
+        if let Some(c) = p.steps[s].couple {
+            let (ps, pc) = (route_pos.get(&s).copied(), route_pos.get(&c).copied());
+            if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
+                return Err(problem(
+                    p,
+                    Some(p.steps[s].line),
+                    format!(
+                        "step '{}' couples to '{}', which is not a later step of the main route; couple names a following step",
+                        p.steps[s].id, p.steps[c].id
+                    ),
+                ));
             }
         }
     }
-    Ok(Route {
-        direction,
-        steps,
-        roles,
-        branch,
-        groups,
-        side,
-        unbypassed,
-    })
+    Ok(())
 }
 
 fn build_forward_first_times(p: &Pathway) -> Result<f64, Problem> {
