@@ -473,10 +473,30 @@ fn balance(
         }
         v
     };
-    let m = unknown.len();
-    let cidx: std::collections::HashMap<usize, usize> =
-        inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
-    let mut sys = Sparse::new(inter.len(), m);
+    let cidx: HashMap<usize, usize> = inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
+    let mut sys = balance_system(p, steps, &cidx, &col_of, unknown.len());
+    let x = sys.solve();
+    for k in 0..n {
+        steps[k].times = match col_of[k] {
+            Some(j) => x[j],
+            None => p.steps[steps[k].step].times.unwrap_or(1.0),
+        };
+    }
+    check_balanced(p, steps, &inter, &cidx, direction)?;
+    check_turns_positive(p, steps, roles, direction)
+}
+
+/// The balance as a sparse system: one row per intermediate (`cidx` gives
+/// its row), one column per step of unknown turns (`col_of`); stated turns
+/// go to the right-hand side.
+fn balance_system(
+    p: &Pathway,
+    steps: &[RouteStep],
+    cidx: &HashMap<usize, usize>,
+    col_of: &[Option<usize>],
+    unknowns: usize,
+) -> Sparse {
+    let mut sys = Sparse::new(cidx.len(), unknowns);
     for (k, rs) in steps.iter().enumerate() {
         let st = &p.steps[rs.step];
         for &(c, nu) in &st.stoich {
@@ -490,51 +510,32 @@ fn balance(
             }
         }
     }
-    let pivots = sys.reduce();
-    let unbalanced = |c: usize, why: String| {
-        let comp = &p.compounds[c];
-        problem(
-            p,
-            Some(comp.line),
-            format!(
-                "compound '{}' cannot be balanced on the {} route: {why}; if it is a carrier (ATP, NADH, CoA ...), mark it role = \"currency\", otherwise check the reactions or the stated times",
-                comp.id,
-                direction.as_str()
-            ),
-        )
-    };
-    let free: Vec<bool> = {
-        let mut f = vec![true; m];
-        for &(_, j) in &pivots {
-            f[j] = false;
-        }
-        f
-    };
-    let mut x = vec![0.0; m];
-    for j in 0..m {
-        if free[j] {
-            x[j] = 1.0;
-        }
-    }
-    // Back substitution: a pivot row holds its own column, later pivot
-    // columns (solved first) and free columns (one turn each).
-    for &(r, j) in pivots.iter().rev() {
-        let mut v = sys.rhs[r];
-        for (&q, &a) in &sys.rows[r] {
-            if q != j && a != 0.0 {
-                v -= a * x[q];
-            }
-        }
-        x[j] = v;
-    }
-    for k in 0..n {
-        steps[k].times = match col_of[k] {
-            Some(j) => x[j],
-            None => p.steps[steps[k].step].times.unwrap_or(1.0),
-        };
-    }
-    // Check every intermediate balances (catches inconsistent systems), in
-    // one pass over the route's stoichiometry.
+    sys
+}
+
+/// The problem for a compound the route cannot balance, with `why`.
+fn unbalanced(p: &Pathway, direction: Direction, c: usize, why: String) -> Problem {
+    let comp = &p.compounds[c];
+    problem(
+        p,
+        Some(comp.line),
+        format!(
+            "compound '{}' cannot be balanced on the {} route: {why}; if it is a carrier (ATP, NADH, CoA ...), mark it role = \"currency\", otherwise check the reactions or the stated times",
+            comp.id,
+            direction.as_str()
+        ),
+    )
+}
+
+/// Checks every intermediate balances with the solved turns (catches
+/// inconsistent systems), in one pass over the route's stoichiometry.
+fn check_balanced(
+    p: &Pathway,
+    steps: &[RouteStep],
+    inter: &[usize],
+    cidx: &HashMap<usize, usize>,
+    direction: Direction,
+) -> Result<(), Problem> {
     let mut sum = vec![0.0; inter.len()];
     let mut scale = vec![0.0f64; inter.len()];
     for rs in steps.iter() {
@@ -548,6 +549,8 @@ fn balance(
     for (r, &c) in inter.iter().enumerate() {
         if sum[r].abs() > 1e-7 * scale[r].max(1.0) {
             return Err(unbalanced(
+                p,
+                direction,
                 c,
                 format!(
                     "what the route makes and uses of it differs by {} per pass",
@@ -556,6 +559,17 @@ fn balance(
             ));
         }
     }
+    Ok(())
+}
+
+/// Refuses a step that would need zero, negative or no finite turns, naming
+/// an intermediate it touches (or its first compound).
+fn check_turns_positive(
+    p: &Pathway,
+    steps: &[RouteStep],
+    roles: &[Role],
+    direction: Direction,
+) -> Result<(), Problem> {
     for rs in steps.iter() {
         if rs.times.is_nan() || rs.times <= 1e-9 || rs.times.is_infinite() {
             let st = &p.steps[rs.step];
@@ -572,7 +586,7 @@ fn balance(
             let Some(c) = c.or(st.stoich.first().map(|x| x.0)) else {
                 return Err(problem(p, Some(st.line), why));
             };
-            return Err(unbalanced(c, why));
+            return Err(unbalanced(p, direction, c, why));
         }
     }
     Ok(())
@@ -596,6 +610,29 @@ impl Sparse {
             rhs: vec![0.0; rows],
             col_rows: vec![Default::default(); cols],
         }
+    }
+
+    /// Reduces the system and solves it: free columns make one turn each,
+    /// and back substitution gives the pivot columns (a pivot row holds its
+    /// own column, later pivot columns, solved first, and free columns).
+    fn solve(&mut self) -> Vec<f64> {
+        let m = self.col_rows.len();
+        let pivots = self.reduce();
+        let mut free = vec![true; m];
+        for &(_, j) in &pivots {
+            free[j] = false;
+        }
+        let mut x: Vec<f64> = free.iter().map(|&f| if f { 1.0 } else { 0.0 }).collect();
+        for &(r, j) in pivots.iter().rev() {
+            let mut v = self.rhs[r];
+            for (&q, &a) in &self.rows[r] {
+                if q != j && a != 0.0 {
+                    v -= a * x[q];
+                }
+            }
+            x[j] = v;
+        }
+        x
     }
 
     fn add(&mut self, r: usize, j: usize, a: f64) {
