@@ -3,6 +3,7 @@
 
 use super::super::pathway::*;
 use super::super::reaction;
+use super::header::Header;
 use super::reader::{Cx, Span};
 use super::steps::RawStep;
 use std::collections::HashMap;
@@ -39,18 +40,22 @@ impl<'a> Ids<'a> {
 }
 
 impl Cx<'_> {
-    #[allow(clippy::too_many_arguments)]
+    /// The checked pathway from the header, the compounds and the steps as
+    /// read; None when a problem leaves no pathway to build.
     pub(super) fn resolve(
         &mut self,
-        name: Option<String>,
-        description: Option<String>,
-        route_ids: Option<Vec<(String, Span)>>,
-        conditions: Conditions,
-        reference: Conditions,
-        settings: Settings,
+        header: Header,
         compounds: Vec<Compound>,
         raw: Vec<RawStep>,
     ) -> Option<Pathway> {
+        let Header {
+            name,
+            description,
+            route_ids,
+            conditions,
+            reference,
+            settings,
+        } = header;
         let ids = Ids::new(&compounds, &raw);
         self.unique_step_ids(&raw, &ids);
         let steps: Vec<Step> = raw.iter().map(|s| self.step(s, &ids)).collect();
