@@ -185,99 +185,11 @@ impl<R: Read> SampleReader<R> {
             .has_headers(true)
             .trim(csv::Trim::All)
             .from_reader(buf);
-        let head_place = |column: Option<String>| Place {
-            file: file.to_string(),
-            line: Some(1),
-            column,
-        };
         let headers = match rdr.headers() {
             Ok(h) => h.clone(),
             Err(e) => return Err(csv_error(file, &e)),
         };
-        if headers.is_empty() || headers.iter().all(|h| h.is_empty()) {
-            return Err(SampleError::Header {
-                place: head_place(None),
-                message: "the samples table is empty; its first line must be a header such as 'sample,glc [mM],atp [mM]'".into(),
-            });
-        }
-        let first = headers.get(0).unwrap_or("");
-        if !first.eq_ignore_ascii_case("sample") {
-            return Err(SampleError::Header {
-                place: head_place(Some(first.to_string())),
-                message: format!(
-                    "the first column must be 'sample' (the sample's name), not '{first}'"
-                ),
-            });
-        }
-        let mut columns = Vec::new();
-        let mut used: Vec<Option<String>> = vec![None; p.compounds.len()];
-        for (k, h) in headers.iter().enumerate().skip(1) {
-            let place = head_place(Some(if h.is_empty() {
-                format!("#{}", k + 1)
-            } else {
-                h.to_string()
-            }));
-            let (id, unit) = split_header(h).map_err(|m| SampleError::Header {
-                place: place.clone(),
-                message: m.to_string(),
-            })?;
-            if id.is_empty() {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "column {} has no compound id; write a compound id such as 'glc [mM]'",
-                        k + 1
-                    ),
-                });
-            }
-            let Some(ci) = p.compound(id) else {
-                let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
-                    .map(|s| format!("; did you mean '{s}'?"))
-                    .unwrap_or_else(|| {
-                        "; every column after 'sample' must be a compound id of the pathway".into()
-                    });
-                return Err(SampleError::Header {
-                    place,
-                    message: format!("no compound '{id}' in {}{hint}", p.file),
-                });
-            };
-            if p.compounds[ci].is_solvent() {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "'{id}' is a solvent (activity 1); it has no concentration — remove the column"
-                    ),
-                });
-            }
-            if let Some(prev) = &used[ci] {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "'{id}' already has a column ('{prev}'); keep one column per compound"
-                    ),
-                });
-            }
-            used[ci] = Some(h.to_string());
-            let factor = match unit {
-                None => None,
-                Some(u) => Some(
-                    units::conc_divisor(&u.replace(' ', ""))
-                        .filter(|_| !u.is_empty())
-                        .ok_or_else(|| SampleError::Header {
-                            place: place.clone(),
-                            message: format!(
-                                "unknown concentration unit '[{u}]'; use {}",
-                                units::Kind::Concentration.units()
-                            ),
-                        })?,
-                ),
-            };
-            columns.push(Column {
-                header: h.to_string(),
-                compound: ci,
-                factor,
-            });
-        }
+        let columns = header_columns(&headers, file, p)?;
         Ok(SampleReader {
             file: file.to_string(),
             rows: rdr.into_records(),
@@ -330,6 +242,113 @@ impl<R: Read> SampleReader<R> {
         }
         Ok(Sample { name, conc })
     }
+}
+
+/// A place on the header line.
+fn head_place(file: &str, column: Option<String>) -> Place {
+    Place {
+        file: file.to_string(),
+        line: Some(1),
+        column,
+    }
+}
+
+/// The compound columns of the header row, after checking that it is not
+/// empty and starts with 'sample'.
+fn header_columns(
+    headers: &csv::StringRecord,
+    file: &str,
+    p: &Pathway,
+) -> Result<Vec<Column>, SampleError> {
+    if headers.is_empty() || headers.iter().all(|h| h.is_empty()) {
+        return Err(SampleError::Header {
+            place: head_place(file, None),
+            message: "the samples table is empty; its first line must be a header such as 'sample,glc [mM],atp [mM]'".into(),
+        });
+    }
+    let first = headers.get(0).unwrap_or("");
+    if !first.eq_ignore_ascii_case("sample") {
+        return Err(SampleError::Header {
+            place: head_place(file, Some(first.to_string())),
+            message: format!(
+                "the first column must be 'sample' (the sample's name), not '{first}'"
+            ),
+        });
+    }
+    let mut columns = Vec::new();
+    let mut used: Vec<Option<String>> = vec![None; p.compounds.len()];
+    for (k, h) in headers.iter().enumerate().skip(1) {
+        let place = head_place(
+            file,
+            Some(if h.is_empty() {
+                format!("#{}", k + 1)
+            } else {
+                h.to_string()
+            }),
+        );
+        columns.push(compound_column(h, k, p, &mut used, place)?);
+    }
+    Ok(columns)
+}
+
+/// Header cell `h` (column `k`, 0-based) as a compound column: a known,
+/// non-solvent compound with no column yet (`used` holds the headers seen
+/// per compound), and its unit when it gives one.
+fn compound_column(
+    h: &str,
+    k: usize,
+    p: &Pathway,
+    used: &mut [Option<String>],
+    place: Place,
+) -> Result<Column, SampleError> {
+    let refuse = |message: String| SampleError::Header {
+        place: place.clone(),
+        message,
+    };
+    let (id, unit) = split_header(h).map_err(|m| refuse(m.to_string()))?;
+    if id.is_empty() {
+        return Err(refuse(format!(
+            "column {} has no compound id; write a compound id such as 'glc [mM]'",
+            k + 1
+        )));
+    }
+    let Some(ci) = p.compound(id) else {
+        let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
+            .map(|s| format!("; did you mean '{s}'?"))
+            .unwrap_or_else(|| {
+                "; every column after 'sample' must be a compound id of the pathway".into()
+            });
+        return Err(refuse(format!("no compound '{id}' in {}{hint}", p.file)));
+    };
+    if p.compounds[ci].is_solvent() {
+        return Err(refuse(format!(
+            "'{id}' is a solvent (activity 1); it has no concentration — remove the column"
+        )));
+    }
+    if let Some(prev) = &used[ci] {
+        return Err(refuse(format!(
+            "'{id}' already has a column ('{prev}'); keep one column per compound"
+        )));
+    }
+    used[ci] = Some(h.to_string());
+    let factor = match unit {
+        None => None,
+        Some(u) => Some(
+            units::conc_divisor(&u.replace(' ', ""))
+                .filter(|_| !u.is_empty())
+                .ok_or_else(|| {
+                    refuse(format!(
+                        "unknown concentration unit '[{u}]'; use {}",
+                        units::Kind::Concentration.units()
+                    ))
+                })?,
+        ),
+    };
+    Ok(Column {
+        header: h.to_string(),
+        compound: ci,
+        factor,
+    })
 }
 
 /// Parses one concentration cell to mol/L; `factor` is how many of the header's unit make 1 M.
