@@ -31,7 +31,7 @@ fuzz_target!(|data: &[u8]| {
                     }
                 }
             }
-            Err(m) => assert!(!m.is_empty()),
+            Err(m) => assert!(!m.to_string().is_empty()),
         }
     }
 });

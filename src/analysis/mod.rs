@@ -186,6 +186,8 @@ fn weighted_sd(
     any.then(|| var.sqrt())
 }
 
+/// Analyses one built route under a state: per-step results, the profile,
+/// groups, net balance, verdicts, notes and the control estimate.
 fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
     let rt = thermo::rt(state.conditions.temperature);
     let mut steps: Vec<StepResult> = route
@@ -202,8 +204,56 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
         .iter()
         .map(|&s| step_result(p, s, 1.0, 1.0, None, state))
         .collect();
+    let largest = profile(&mut steps);
+    let groups = groups(p, route, &steps, rt);
+    let all: Vec<(usize, f64)> = steps
+        .iter()
+        .enumerate()
+        .map(|(k, s)| (k, s.times))
+        .collect();
+    let total_sd = weighted_sd(p, &steps, &all, rt);
+    let net = net_balance(p, route);
+    let mut a = Analysis {
+        direction: state.direction,
+        rt,
+        total_dg0: steps.iter().map(|s| s.times * s.dg0).sum(),
+        total_dg: steps.iter().map(|s| s.weighted()).sum(),
+        total_sd,
+        steps_without_dg0_sd: route
+            .steps
+            .iter()
+            .filter(|r| p.steps[r.step].dg0_sd.is_none())
+            .count(),
+        runs_forward: steps.iter().all(|s| !s.against),
+        steps,
+        side,
+        groups,
+        net,
+        largest_drop: largest,
+        control: Vec::new(),
+        roles: route.roles.clone(),
+        branch: route.branch.clone(),
+        needs_bypass: Vec::new(),
+        counterpart: None,
+        notes: Vec::new(),
+        energy_notes: Vec::new(),
+        control_estimate: mca::Estimate::default(),
+    };
+    a.control = control::verdicts(p, &a);
+    for (i, v) in a.control.iter().enumerate() {
+        a.steps[v.position].verdict = Some(i);
+    }
+    (a.notes, a.energy_notes) = notes::notes(p, &a, state);
+    a.control_estimate = mca::estimate(p, &a, &state.conc);
+    a.notes.extend(a.control_estimate.notes.iter().cloned());
+    a
+}
+
+/// Fills the running totals and shares of the drop; returns the position of
+/// the largest drop (the first on ties).
+fn profile(steps: &mut [StepResult]) -> Option<usize> {
     let (mut cum, mut cum0, mut drop) = (0.0, 0.0, 0.0);
-    for s in &steps {
+    for s in steps.iter() {
         if s.weighted() < 0.0 {
             drop += s.weighted();
         }
@@ -223,7 +273,12 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
             largest = Some((k, s.weighted()));
         }
     }
-    let groups = route
+    largest.map(|l| l.0)
+}
+
+/// The route's coupled groups with their summed dG' and its sd.
+fn groups(p: &Pathway, route: &Route, steps: &[StepResult], rt: f64) -> Vec<Group> {
+    route
         .groups
         .iter()
         .map(|g| Group {
@@ -231,18 +286,17 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
             dg: g.iter().map(|&k| steps[k].dg).sum(),
             dg_sd: weighted_sd(
                 p,
-                &steps,
+                steps,
                 &g.iter().map(|&k| (k, 1.0)).collect::<Vec<_>>(),
                 rt,
             ),
         })
-        .collect();
-    let all: Vec<(usize, f64)> = steps
-        .iter()
-        .enumerate()
-        .map(|(k, s)| (k, s.times))
-        .collect();
-    let total_sd = weighted_sd(p, &steps, &all, rt);
+        .collect()
+}
+
+/// Net change per pass of every input, output and currency compound the
+/// route uses (zero when it is recycled).
+fn net_balance(p: &Pathway, route: &Route) -> Vec<(usize, f64)> {
     let mut net = Vec::new();
     for (c, role) in route.roles.iter().enumerate() {
         if matches!(role, Role::Input | Role::Output | Role::Currency) {
@@ -261,38 +315,5 @@ fn analyze_route(p: &Pathway, route: &Route, state: &State) -> Analysis {
             }
         }
     }
-    let mut a = Analysis {
-        direction: state.direction,
-        rt,
-        total_dg0: steps.iter().map(|s| s.times * s.dg0).sum(),
-        total_dg: steps.iter().map(|s| s.weighted()).sum(),
-        total_sd,
-        steps_without_dg0_sd: route
-            .steps
-            .iter()
-            .filter(|r| p.steps[r.step].dg0_sd.is_none())
-            .count(),
-        runs_forward: steps.iter().all(|s| !s.against),
-        steps,
-        side,
-        groups,
-        net,
-        largest_drop: largest.map(|l| l.0),
-        control: Vec::new(),
-        roles: route.roles.clone(),
-        branch: route.branch.clone(),
-        needs_bypass: Vec::new(),
-        counterpart: None,
-        notes: Vec::new(),
-        energy_notes: Vec::new(),
-        control_estimate: mca::Estimate::default(),
-    };
-    a.control = control::verdicts(p, &a);
-    for (i, v) in a.control.iter().enumerate() {
-        a.steps[v.position].verdict = Some(i);
-    }
-    (a.notes, a.energy_notes) = notes::notes(p, &a, state);
-    a.control_estimate = mca::estimate(p, &a, &state.conc);
-    a.notes.extend(a.control_estimate.notes.iter().cloned());
-    a
+    net
 }

@@ -6,6 +6,7 @@
 use crate::model::{LoadError, Pathway, Problem};
 /// Which way a route runs (it belongs to the scenario; re-exported here).
 pub use crate::scenario::Direction;
+use std::collections::HashMap;
 
 /// A compound's role on one route.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -129,54 +130,89 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                 .into(),
         ));
     }
-    let mut steps: Vec<RouteStep> = Vec::new();
+    let (mut steps, unbypassed) = match direction {
+        Direction::Forward => (forward_steps(p), Vec::new()),
+        Direction::Reverse => reverse_steps(p),
+    };
+    let roles = infer_roles(p, &steps);
+    let side: Vec<usize> = (0..p.steps.len()).filter(|&s| p.steps[s].side).collect();
+    let branch = branch_points(p, &side);
+    balance(p, &mut steps, &roles, direction)?;
+    if direction == Direction::Reverse {
+        scale_reverse_turns(p, &mut steps)?;
+    }
+    let groups = coupled_groups(p, &steps, direction)?;
+    if direction == Direction::Forward {
+        check_couples_name_later_steps(p)?;
+    }
+    Ok(Route {
+        direction,
+        steps,
+        roles,
+        branch,
+        groups,
+        side,
+        unbypassed,
+    })
+}
+
+/// The main route's steps as written, one turn each.
+fn forward_steps(p: &Pathway) -> Vec<RouteStep> {
+    p.route
+        .iter()
+        .map(|&s| RouteStep {
+            step: s,
+            sign: 1.0,
+            times: 1.0,
+            replaces: None,
+        })
+        .collect()
+}
+
+/// The reverse route: the main route backward, each step replaced by its
+/// bypasses (in file order) or else run reversed; also the reversed steps
+/// that have no bypass.
+fn reverse_steps(p: &Pathway) -> (Vec<RouteStep>, Vec<usize>) {
+    let mut steps = Vec::new();
     let mut unbypassed = Vec::new();
-    match direction {
-        Direction::Forward => {
-            for &s in &p.route {
+    // Bypasses of each step, in file order.
+    let mut bypasses_of: Vec<Vec<usize>> = vec![Vec::new(); p.steps.len()];
+    for (b, st) in p.steps.iter().enumerate() {
+        if let Some(f) = st.bypass_of {
+            bypasses_of[f].push(b);
+        }
+    }
+    for &f in p.route.iter().rev() {
+        let bypasses = std::mem::take(&mut bypasses_of[f]);
+        if bypasses.is_empty() {
+            steps.push(RouteStep {
+                step: f,
+                sign: -1.0,
+                times: 1.0,
+                replaces: None,
+            });
+            unbypassed.push(f);
+        } else {
+            for b in bypasses {
                 steps.push(RouteStep {
-                    step: s,
+                    step: b,
                     sign: 1.0,
                     times: 1.0,
-                    replaces: None,
+                    replaces: Some(f),
                 });
             }
         }
-        Direction::Reverse => {
-            // Bypasses of each step, in file order.
-            let mut bypasses_of: Vec<Vec<usize>> = vec![Vec::new(); p.steps.len()];
-            for (b, st) in p.steps.iter().enumerate() {
-                if let Some(f) = st.bypass_of {
-                    bypasses_of[f].push(b);
-                }
-            }
-            for &f in p.route.iter().rev() {
-                let bypasses = std::mem::take(&mut bypasses_of[f]);
-                if bypasses.is_empty() {
-                    steps.push(RouteStep {
-                        step: f,
-                        sign: -1.0,
-                        times: 1.0,
-                        replaces: None,
-                    });
-                    unbypassed.push(f);
-                } else {
-                    for b in bypasses {
-                        steps.push(RouteStep {
-                            step: b,
-                            sign: 1.0,
-                            times: 1.0,
-                            replaces: Some(f),
-                        });
-                    }
-                }
-            }
-        }
     }
+    (steps, unbypassed)
+}
+
+/// Each compound's role on these steps: stated (solvent, currency) or from
+/// whether the route makes it, uses it, both or neither.
+fn infer_roles(p: &Pathway, steps: &[RouteStep]) -> Vec<Role> {
     let nc = p.compounds.len();
     let mut produced = vec![false; nc];
     let mut consumed = vec![false; nc];
-    for rs in &steps {
+    for rs in steps {
         for &(c, nu) in &p.steps[rs.step].stoich {
             if nu * rs.sign > 0.0 {
                 produced[c] = true;
@@ -185,7 +221,7 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    let roles: Vec<Role> = (0..nc)
+    (0..nc)
         .map(|c| {
             let comp = &p.compounds[c];
             if comp.is_solvent() {
@@ -201,10 +237,14 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
                 }
             }
         })
-        .collect();
-    let side: Vec<usize> = (0..p.steps.len()).filter(|&s| p.steps[s].side).collect();
+        .collect()
+}
+
+/// Branch points: compounds marked `branch = true` and every non-currency
+/// compound a side step uses.
+fn branch_points(p: &Pathway, side: &[usize]) -> Vec<bool> {
     let mut branch: Vec<bool> = p.compounds.iter().map(|c| c.branch).collect();
-    for &s in &side {
+    for &s in side {
         for &(c, _) in &p.steps[s].stoich {
             let comp = &p.compounds[c];
             if !comp.is_currency() {
@@ -212,32 +252,36 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
             }
         }
     }
-    balance(p, &mut steps, &roles, direction)?;
-    if direction == Direction::Reverse {
-        let first = p.route[0];
-        let stand_in = steps
-            .iter()
-            .position(|r| r.replaces == Some(first))
-            .or_else(|| steps.iter().position(|r| r.step == first));
-        let any_explicit = steps.iter().any(|r| p.steps[r.step].times.is_some());
-        let fwd_first = build_forward_first_times(p)?;
-        if let (Some(k), false) = (stand_in, any_explicit) {
-            let f = fwd_first / steps[k].times;
-            for r in steps.iter_mut() {
-                r.times *= f;
-            }
+    branch
+}
+
+/// Scales the reverse route's turns so the step standing in for the forward
+/// route's first step keeps that step's turns (unless a step states `times`).
+fn scale_reverse_turns(p: &Pathway, steps: &mut [RouteStep]) -> Result<(), Problem> {
+    let first = p.route[0];
+    let stand_in = steps
+        .iter()
+        .position(|r| r.replaces == Some(first))
+        .or_else(|| steps.iter().position(|r| r.step == first));
+    let any_explicit = steps.iter().any(|r| p.steps[r.step].times.is_some());
+    let fwd_first = build_forward_first_times(p)?;
+    if let (Some(k), false) = (stand_in, any_explicit) {
+        let f = fwd_first / steps[k].times;
+        for r in steps.iter_mut() {
+            r.times *= f;
         }
     }
-    // Coupled groups. Positions of each step on the route, and of the steps
-    // that couple to each step, so that each link is found without a scan.
-    let mut positions: std::collections::HashMap<usize, Vec<usize>> = Default::default();
-    let mut coupled_to: std::collections::HashMap<usize, Vec<usize>> = Default::default();
-    for (m, rs) in steps.iter().enumerate() {
-        positions.entry(rs.step).or_default().push(m);
-        if let Some(c) = p.steps[rs.step].couple {
-            coupled_to.entry(c).or_default().push(m);
-        }
-    }
+    Ok(())
+}
+
+/// Coupled groups (positions on the route, each of two steps or more); an
+/// error when a group's steps make different turns.
+fn coupled_groups(
+    p: &Pathway,
+    steps: &[RouteStep],
+    direction: Direction,
+) -> Result<Vec<Vec<usize>>, Problem> {
+    let links = CoupleLinks::new(p, steps);
     let mut groups: Vec<Vec<usize>> = Vec::new();
     let mut in_group = vec![false; steps.len()];
     for k in 0..steps.len() {
@@ -246,81 +290,115 @@ pub fn build(p: &Pathway, direction: Direction) -> Result<Route, Problem> {
         }
         let mut chain = vec![k];
         let mut cur = k;
-        loop {
-            // Forward: cur couples to the next; reverse: the next couples to cur.
-            let next = match direction {
-                Direction::Forward => p.steps[steps[cur].step]
-                    .couple
-                    .and_then(|c| positions.get(&c))
-                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
-                Direction::Reverse => coupled_to
-                    .get(&steps[cur].step)
-                    .and_then(|v| v.iter().copied().find(|&m| m > cur)),
-            };
-            match next {
-                Some(m) if !in_group[m] => {
-                    chain.push(m);
-                    cur = m;
-                }
-                _ => break,
-            }
+        while let Some(m) = links.next(p, steps, direction, cur)
+            && !in_group[m]
+        {
+            chain.push(m);
+            cur = m;
         }
         if chain.len() > 1 {
             for &m in &chain {
                 in_group[m] = true;
             }
-            let t0 = steps[chain[0]].times;
-            if let Some(&bad) = chain
-                .iter()
-                .find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0))
-            {
-                let a = &p.steps[steps[chain[0]].step];
-                let b = &p.steps[steps[bad].step];
-                return Err(problem(
-                    p,
-                    Some(a.line),
-                    format!(
-                        "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
-                        a.id,
-                        b.id,
-                        fmt_t(t0),
-                        fmt_t(steps[bad].times)
-                    ),
-                ));
-            }
+            equal_turns(p, steps, &chain)?;
             groups.push(chain);
         }
     }
-    if direction == Direction::Forward {
-        let mut route_pos: std::collections::HashMap<usize, usize> = Default::default();
-        for (i, &x) in p.route.iter().enumerate() {
-            route_pos.entry(x).or_insert(i);
+    Ok(groups)
+}
+
+/// Positions of each step on the route, and of the steps that couple to
+/// each step, so that each link is found without a scan.
+struct CoupleLinks {
+    positions: HashMap<usize, Vec<usize>>,
+    coupled_to: HashMap<usize, Vec<usize>>,
+}
+
+impl CoupleLinks {
+    /// The positions of `steps`.
+    fn new(p: &Pathway, steps: &[RouteStep]) -> CoupleLinks {
+        let mut positions: HashMap<usize, Vec<usize>> = Default::default();
+        let mut coupled_to: HashMap<usize, Vec<usize>> = Default::default();
+        for (m, rs) in steps.iter().enumerate() {
+            positions.entry(rs.step).or_default().push(m);
+            if let Some(c) = p.steps[rs.step].couple {
+                coupled_to.entry(c).or_default().push(m);
+            }
         }
-        for &s in &p.route {
-            if let Some(c) = p.steps[s].couple {
-                let (ps, pc) = (route_pos.get(&s).copied(), route_pos.get(&c).copied());
-                if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
-                    return Err(problem(
-                        p,
-                        Some(p.steps[s].line),
-                        format!(
-                            "step '{}' couples to '{}', which is not a later step of the main route; couple names a following step",
-                            p.steps[s].id, p.steps[c].id
-                        ),
-                    ));
-                }
+        CoupleLinks {
+            positions,
+            coupled_to,
+        }
+    }
+
+    /// The position after `cur` that `cur` is coupled with. Forward: cur
+    /// couples to the next; reverse: the next couples to cur.
+    fn next(
+        &self,
+        p: &Pathway,
+        steps: &[RouteStep],
+        direction: Direction,
+        cur: usize,
+    ) -> Option<usize> {
+        match direction {
+            Direction::Forward => p.steps[steps[cur].step]
+                .couple
+                .and_then(|c| self.positions.get(&c))
+                .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+            Direction::Reverse => self
+                .coupled_to
+                .get(&steps[cur].step)
+                .and_then(|v| v.iter().copied().find(|&m| m > cur)),
+        }
+    }
+}
+
+/// Refuses a coupled group whose steps make different turns.
+fn equal_turns(p: &Pathway, steps: &[RouteStep], chain: &[usize]) -> Result<(), Problem> {
+    let t0 = steps[chain[0]].times;
+    if let Some(&bad) = chain
+        .iter()
+        .find(|&&m| (steps[m].times - t0).abs() > 1e-9 * t0.abs().max(1.0))
+    {
+        let a = &p.steps[steps[chain[0]].step];
+        let b = &p.steps[steps[bad].step];
+        return Err(problem(
+            p,
+            Some(a.line),
+            format!(
+                "coupled steps '{}' and '{}' make different turns per pass ({} and {}); couple only steps with equal turns",
+                a.id,
+                b.id,
+                fmt_t(t0),
+                fmt_t(steps[bad].times)
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Refuses a `couple` that does not name a later step of the main route.
+fn check_couples_name_later_steps(p: &Pathway) -> Result<(), Problem> {
+    let mut route_pos: HashMap<usize, usize> = Default::default();
+    for (i, &x) in p.route.iter().enumerate() {
+        route_pos.entry(x).or_insert(i);
+    }
+    for &s in &p.route {
+        if let Some(c) = p.steps[s].couple {
+            let (ps, pc) = (route_pos.get(&s).copied(), route_pos.get(&c).copied());
+            if !matches!((ps, pc), (Some(a), Some(b)) if b > a) {
+                return Err(problem(
+                    p,
+                    Some(p.steps[s].line),
+                    format!(
+                        "step '{}' couples to '{}', which is not a later step of the main route; couple names a following step",
+                        p.steps[s].id, p.steps[c].id
+                    ),
+                ));
             }
         }
     }
-    Ok(Route {
-        direction,
-        steps,
-        roles,
-        branch,
-        groups,
-        side,
-        unbypassed,
-    })
+    Ok(())
 }
 
 fn build_forward_first_times(p: &Pathway) -> Result<f64, Problem> {
@@ -395,10 +473,30 @@ fn balance(
         }
         v
     };
-    let m = unknown.len();
-    let cidx: std::collections::HashMap<usize, usize> =
-        inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
-    let mut sys = Sparse::new(inter.len(), m);
+    let cidx: HashMap<usize, usize> = inter.iter().enumerate().map(|(i, &c)| (c, i)).collect();
+    let mut sys = balance_system(p, steps, &cidx, &col_of, unknown.len());
+    let x = sys.solve();
+    for k in 0..n {
+        steps[k].times = match col_of[k] {
+            Some(j) => x[j],
+            None => p.steps[steps[k].step].times.unwrap_or(1.0),
+        };
+    }
+    check_balanced(p, steps, &inter, &cidx, direction)?;
+    check_turns_positive(p, steps, roles, direction)
+}
+
+/// The balance as a sparse system: one row per intermediate (`cidx` gives
+/// its row), one column per step of unknown turns (`col_of`); stated turns
+/// go to the right-hand side.
+fn balance_system(
+    p: &Pathway,
+    steps: &[RouteStep],
+    cidx: &HashMap<usize, usize>,
+    col_of: &[Option<usize>],
+    unknowns: usize,
+) -> Sparse {
+    let mut sys = Sparse::new(cidx.len(), unknowns);
     for (k, rs) in steps.iter().enumerate() {
         let st = &p.steps[rs.step];
         for &(c, nu) in &st.stoich {
@@ -412,51 +510,32 @@ fn balance(
             }
         }
     }
-    let pivots = sys.reduce();
-    let unbalanced = |c: usize, why: String| {
-        let comp = &p.compounds[c];
-        problem(
-            p,
-            Some(comp.line),
-            format!(
-                "compound '{}' cannot be balanced on the {} route: {why}; if it is a carrier (ATP, NADH, CoA ...), mark it role = \"currency\", otherwise check the reactions or the stated times",
-                comp.id,
-                direction.as_str()
-            ),
-        )
-    };
-    let free: Vec<bool> = {
-        let mut f = vec![true; m];
-        for &(_, j) in &pivots {
-            f[j] = false;
-        }
-        f
-    };
-    let mut x = vec![0.0; m];
-    for j in 0..m {
-        if free[j] {
-            x[j] = 1.0;
-        }
-    }
-    // Back substitution: a pivot row holds its own column, later pivot
-    // columns (solved first) and free columns (one turn each).
-    for &(r, j) in pivots.iter().rev() {
-        let mut v = sys.rhs[r];
-        for (&q, &a) in &sys.rows[r] {
-            if q != j && a != 0.0 {
-                v -= a * x[q];
-            }
-        }
-        x[j] = v;
-    }
-    for k in 0..n {
-        steps[k].times = match col_of[k] {
-            Some(j) => x[j],
-            None => p.steps[steps[k].step].times.unwrap_or(1.0),
-        };
-    }
-    // Check every intermediate balances (catches inconsistent systems), in
-    // one pass over the route's stoichiometry.
+    sys
+}
+
+/// The problem for a compound the route cannot balance, with `why`.
+fn unbalanced(p: &Pathway, direction: Direction, c: usize, why: String) -> Problem {
+    let comp = &p.compounds[c];
+    problem(
+        p,
+        Some(comp.line),
+        format!(
+            "compound '{}' cannot be balanced on the {} route: {why}; if it is a carrier (ATP, NADH, CoA ...), mark it role = \"currency\", otherwise check the reactions or the stated times",
+            comp.id,
+            direction.as_str()
+        ),
+    )
+}
+
+/// Checks every intermediate balances with the solved turns (catches
+/// inconsistent systems), in one pass over the route's stoichiometry.
+fn check_balanced(
+    p: &Pathway,
+    steps: &[RouteStep],
+    inter: &[usize],
+    cidx: &HashMap<usize, usize>,
+    direction: Direction,
+) -> Result<(), Problem> {
     let mut sum = vec![0.0; inter.len()];
     let mut scale = vec![0.0f64; inter.len()];
     for rs in steps.iter() {
@@ -470,6 +549,8 @@ fn balance(
     for (r, &c) in inter.iter().enumerate() {
         if sum[r].abs() > 1e-7 * scale[r].max(1.0) {
             return Err(unbalanced(
+                p,
+                direction,
                 c,
                 format!(
                     "what the route makes and uses of it differs by {} per pass",
@@ -478,6 +559,17 @@ fn balance(
             ));
         }
     }
+    Ok(())
+}
+
+/// Refuses a step that would need zero, negative or no finite turns, naming
+/// an intermediate it touches (or its first compound).
+fn check_turns_positive(
+    p: &Pathway,
+    steps: &[RouteStep],
+    roles: &[Role],
+    direction: Direction,
+) -> Result<(), Problem> {
     for rs in steps.iter() {
         if rs.times.is_nan() || rs.times <= 1e-9 || rs.times.is_infinite() {
             let st = &p.steps[rs.step];
@@ -494,7 +586,7 @@ fn balance(
             let Some(c) = c.or(st.stoich.first().map(|x| x.0)) else {
                 return Err(problem(p, Some(st.line), why));
             };
-            return Err(unbalanced(c, why));
+            return Err(unbalanced(p, direction, c, why));
         }
     }
     Ok(())
@@ -518,6 +610,29 @@ impl Sparse {
             rhs: vec![0.0; rows],
             col_rows: vec![Default::default(); cols],
         }
+    }
+
+    /// Reduces the system and solves it: free columns make one turn each,
+    /// and back substitution gives the pivot columns (a pivot row holds its
+    /// own column, later pivot columns, solved first, and free columns).
+    fn solve(&mut self) -> Vec<f64> {
+        let m = self.col_rows.len();
+        let pivots = self.reduce();
+        let mut free = vec![true; m];
+        for &(_, j) in &pivots {
+            free[j] = false;
+        }
+        let mut x: Vec<f64> = free.iter().map(|&f| if f { 1.0 } else { 0.0 }).collect();
+        for &(r, j) in pivots.iter().rev() {
+            let mut v = self.rhs[r];
+            for (&q, &a) in &self.rows[r] {
+                if q != j && a != 0.0 {
+                    v -= a * x[q];
+                }
+            }
+            x[j] = v;
+        }
+        x
     }
 
     fn add(&mut self, r: usize, j: usize, a: f64) {

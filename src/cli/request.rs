@@ -6,25 +6,21 @@ use super::args::Common;
 use anyhow::{Context, Result, anyhow, bail};
 use dgpath::analysis::{self, Direction, Prepared};
 use dgpath::model::samples::Sample;
-use dgpath::model::{self, LoadError, check, units};
+use dgpath::model::{self, check, units};
 use dgpath::scenario::State;
 use dgpath::tui::Source;
 use std::path::Path;
 
-fn load_error(e: LoadError) -> anyhow::Error {
-    anyhow!("{e}")
-}
-
 /// Loads and prepares a pathway file.
 pub fn load(path: &Path) -> Result<Prepared> {
-    let p = model::load_file(path).map_err(load_error)?;
-    analysis::prepare(p).map_err(load_error)
+    let p = model::load_file(path)?;
+    Ok(analysis::prepare(p)?)
 }
 
 /// Loads the bundled demo.
 pub fn load_demo() -> Result<Prepared> {
-    let p = model::load_str(dgpath::DEMO, dgpath::DEMO_NAME).map_err(load_error)?;
-    analysis::prepare(p).map_err(load_error)
+    let p = model::load_str(dgpath::DEMO, dgpath::DEMO_NAME)?;
+    Ok(analysis::prepare(p)?)
 }
 
 /// Builds the scenario state from the file and the shared options.
@@ -33,15 +29,15 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
     let mut s = State::from_pathway(p);
     // The same checker as the file and the explorer (model::check).
     if let Some(t) = &c.temperature {
-        s.conditions.temperature = check::quantity(t, units::Kind::Temperature)
-            .map_err(|e| anyhow!("--temperature: {e}"))?;
+        s.conditions.temperature =
+            check::checked_quantity(t, units::Kind::Temperature).context("--temperature")?;
     }
     if let Some(ph) = c.ph {
-        s.conditions.ph = check::ph(ph).map_err(|e| anyhow!("--ph: {e}"))?;
+        s.conditions.ph = check::ph(ph).context("--ph")?;
     }
     if let Some(i) = &c.ionic_strength {
-        s.conditions.ionic_strength = check::quantity(i, units::Kind::IonicStrength)
-            .map_err(|e| anyhow!("--ionic-strength: {e}"))?;
+        s.conditions.ionic_strength =
+            check::checked_quantity(i, units::Kind::IonicStrength).context("--ionic-strength")?;
     }
     for item in &c.set {
         let (id, val) = item
@@ -62,7 +58,7 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
                 });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
         })?;
-        let v = check::concentration(val).map_err(|e| anyhow!("--set '{item}': {e}"))?;
+        let v = check::checked_concentration(val).with_context(|| format!("--set '{item}'"))?;
         if p.compounds[ci].is_solvent() {
             bail!(
                 "--set '{item}': '{id}' is a solvent (activity 1); its concentration does not enter Q"

@@ -33,6 +33,13 @@ fn link(
         .count()
 }
 
+/// Link scores of a neighbour pair for its four orientations [a][b]
+/// (0 = as written, 1 = flipped).
+type Scores = [[usize; 2]; 2];
+
+/// No orientation allowed (a step held by `--flip`/`--keep`).
+const NONE: i64 = i64::MIN / 4;
+
 /// For each route step (in route order), true when it runs against the model's written direction.
 pub fn orient(
     model: &Model,
@@ -43,18 +50,47 @@ pub fn orient(
     keep: &[usize],
 ) -> Result<Vec<bool>, ImportError> {
     let n = route.len();
+    if n == 1 {
+        return Ok(vec![flip.contains(&route[0])]);
+    }
+    let links = link_scores(model, file, route, kinds)?;
     let allowed = |i: usize, s: usize| {
         let r = route[i];
         !(flip.contains(&r) && s == 0 || keep.contains(&r) && s == 1)
     };
-    if n == 1 {
-        return Ok(vec![flip.contains(&route[0])]);
+    let (flipped, ambiguous) = best_orientation(&links, &allowed);
+    check_connected(model, file, route, kinds, &links, &flipped)?;
+    if !ambiguous.is_empty() {
+        let lines: Vec<String> = ambiguous
+            .iter()
+            .map(|&i| {
+                let r = &model.reactions[route[i]];
+                format!(
+                    "step '{}' ({}) could run either way along this route; add --flip {} to run it right to left, or --keep {} to run it as written",
+                    r.id,
+                    model.equation(r),
+                    r.id,
+                    r.id
+                )
+            })
+            .collect();
+        return Err(ImportError::new(file, None, lines.join("\n  ")));
     }
-    // Scores of each link for the four orientations [a][b] (0 = as written, 1 = flipped).
+    Ok(flipped)
+}
+
+/// The scores of every neighbour pair; an error for a pair that shares no
+/// compound in any orientation.
+fn link_scores(
+    model: &Model,
+    file: &str,
+    route: &[usize],
+    kinds: &[Kind],
+) -> Result<Vec<Scores>, ImportError> {
     let core = |s: usize| kinds[s] == Kind::Other;
-    let mut links = Vec::with_capacity(n - 1);
-    for i in 0..n - 1 {
-        let (a, b) = (route[i], route[i + 1]);
+    let mut links = Vec::with_capacity(route.len() - 1);
+    for w in route.windows(2) {
+        let (a, b) = (w[0], w[1]);
         let mut score = [[0usize; 2]; 2];
         for (fa, row) in score.iter_mut().enumerate() {
             for (fb, cell) in row.iter_mut().enumerate() {
@@ -77,8 +113,18 @@ pub fn orient(
         }
         links.push(score);
     }
-    // Best totals up to and from each step in each orientation.
-    const NONE: i64 = i64::MIN / 4;
+    Ok(links)
+}
+
+/// The orientation of the whole route with the highest total score (the
+/// first on ties, as written before flipped), and the steps that run
+/// either way in equally good solutions. Best totals up to and from each
+/// step in each orientation, by dynamic programming.
+fn best_orientation(
+    links: &[Scores],
+    allowed: &dyn Fn(usize, usize) -> bool,
+) -> (Vec<bool>, Vec<usize>) {
+    let n = links.len() + 1;
     let mut fwd = vec![[NONE; 2]; n];
     let mut bwd = vec![[NONE; 2]; n];
     for s in 0..2 {
@@ -121,8 +167,20 @@ pub fn orient(
         }
         flipped[i] = ok.first() == Some(&1);
     }
-    // Every neighbour pair must share a compound the first makes and the second uses.
-    for i in 0..n - 1 {
+    (flipped, ambiguous)
+}
+
+/// Every neighbour pair must share a compound the first makes and the
+/// second uses, as oriented.
+fn check_connected(
+    model: &Model,
+    file: &str,
+    route: &[usize],
+    kinds: &[Kind],
+    links: &[Scores],
+    flipped: &[bool],
+) -> Result<(), ImportError> {
+    for i in 0..route.len() - 1 {
         let (a, b) = (flipped[i] as usize, flipped[i + 1] as usize);
         if links[i][a][b] == 0 {
             let ra = &model.reactions[route[i]];
@@ -149,21 +207,5 @@ pub fn orient(
             ));
         }
     }
-    if !ambiguous.is_empty() {
-        let lines: Vec<String> = ambiguous
-            .iter()
-            .map(|&i| {
-                let r = &model.reactions[route[i]];
-                format!(
-                    "step '{}' ({}) could run either way along this route; add --flip {} to run it right to left, or --keep {} to run it as written",
-                    r.id,
-                    model.equation(r),
-                    r.id,
-                    r.id
-                )
-            })
-            .collect();
-        return Err(ImportError::new(file, None, lines.join("\n  ")));
-    }
-    Ok(flipped)
+    Ok(())
 }

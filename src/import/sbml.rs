@@ -345,46 +345,7 @@ fn read_reactions(
                     "a <reaction> has no id; the model is not valid SBML".into(),
                 ));
             };
-            let mut stoich: Vec<(usize, f64)> = Vec::new();
-            for (list_name, sign) in [("listOfReactants", -1.0), ("listOfProducts", 1.0)] {
-                let Some(l) = child(r, list_name) else {
-                    continue;
-                };
-                for sr in elements(l, "speciesReference") {
-                    let sid = sr.attribute("species").unwrap_or("");
-                    let Some(&si) = species_index.get(sid) else {
-                        return Err(ImportError::new(
-                            file,
-                            Some(line_of(sr)),
-                            format!(
-                                "reaction '{sbml_id}' names species '{sid}', which the model does not declare; the model is not valid SBML"
-                            ),
-                        ));
-                    };
-                    // Level 2 defaults to 1; Level 3 leaves it open, and models
-                    // that omit it mean 1.
-                    let coef = match sr.attribute("stoichiometry") {
-                        None => 1.0,
-                        Some(v) => match v.trim().parse::<f64>() {
-                            Ok(c) if c.is_finite() && c >= 0.0 => c,
-                            _ => {
-                                return Err(ImportError::new(
-                                    file,
-                                    Some(line_of(sr)),
-                                    format!(
-                                        "reaction '{sbml_id}': stoichiometry '{v}' of '{sid}' is not a non-negative number"
-                                    ),
-                                ));
-                            }
-                        },
-                    };
-                    match stoich.iter_mut().find(|(s, _)| *s == si) {
-                        Some(e) => e.1 += sign * coef,
-                        None => stoich.push((si, sign * coef)),
-                    }
-                }
-            }
-            stoich.retain(|(_, v)| *v != 0.0);
+            let stoich = reaction_stoich(r, sbml_id, file, line_of, species_index)?;
             let lower = fbc_attr(r, "lowerFluxBound").and_then(|p| parameters.get(p));
             // Level 2 defaults to reversible; Level 3 requires the attribute.
             let mut reversible = r.attribute("reversible").map(str::trim) != Some("false");
@@ -394,19 +355,7 @@ fn read_reactions(
                 reversible = false;
             }
             let name = r.attribute("name").unwrap_or("").to_string();
-            let l2_objective = r
-                .descendants()
-                .filter(|n| n.has_tag_name_local("parameter"))
-                .any(|p| {
-                    p.attribute("id") == Some("OBJECTIVE_COEFFICIENT")
-                        && p.attribute("value")
-                            .and_then(|v| v.trim().parse::<f64>().ok())
-                            .is_some_and(|v| v != 0.0)
-                });
-            let objective = objective_ids.contains(&sbml_id)
-                || l2_objective
-                || sbml_id.to_ascii_lowercase().contains("biomass")
-                || name.to_ascii_lowercase().contains("biomass");
+            let objective = is_objective(r, sbml_id, &name, objective_ids);
             let i = reactions.len();
             let id = strip(sbml_id, "R_").to_string();
             reaction_index.insert(sbml_id.to_string(), i);
@@ -422,6 +371,83 @@ fn read_reactions(
         }
     }
     Ok((reactions, reaction_index))
+}
+
+/// A reaction's net stoichiometry (species index, coefficient; products
+/// positive), zero entries left out.
+fn reaction_stoich(
+    r: Node,
+    sbml_id: &str,
+    file: &str,
+    line_of: &dyn Fn(Node) -> usize,
+    species_index: &HashMap<String, usize>,
+) -> Result<Vec<(usize, f64)>, ImportError> {
+    let mut stoich: Vec<(usize, f64)> = Vec::new();
+    for (list_name, sign) in [("listOfReactants", -1.0), ("listOfProducts", 1.0)] {
+        let Some(l) = child(r, list_name) else {
+            continue;
+        };
+        for sr in elements(l, "speciesReference") {
+            let sid = sr.attribute("species").unwrap_or("");
+            let Some(&si) = species_index.get(sid) else {
+                return Err(ImportError::new(
+                    file,
+                    Some(line_of(sr)),
+                    format!(
+                        "reaction '{sbml_id}' names species '{sid}', which the model does not declare; the model is not valid SBML"
+                    ),
+                ));
+            };
+            let Some(coef) = coefficient(sr) else {
+                let v = sr.attribute("stoichiometry").unwrap_or("");
+                return Err(ImportError::new(
+                    file,
+                    Some(line_of(sr)),
+                    format!(
+                        "reaction '{sbml_id}': stoichiometry '{v}' of '{sid}' is not a non-negative number"
+                    ),
+                ));
+            };
+            match stoich.iter_mut().find(|(s, _)| *s == si) {
+                Some(e) => e.1 += sign * coef,
+                None => stoich.push((si, sign * coef)),
+            }
+        }
+    }
+    stoich.retain(|(_, v)| *v != 0.0);
+    Ok(stoich)
+}
+
+/// The stoichiometry of a species reference; None when it is not a
+/// non-negative number. Level 2 defaults to 1; Level 3 leaves it open, and
+/// models that omit it mean 1.
+fn coefficient(sr: Node) -> Option<f64> {
+    match sr.attribute("stoichiometry") {
+        None => Some(1.0),
+        Some(v) => v
+            .trim()
+            .parse::<f64>()
+            .ok()
+            .filter(|c| c.is_finite() && *c >= 0.0),
+    }
+}
+
+/// An objective reaction: named by the fbc objectives, with a Level 2
+/// `OBJECTIVE_COEFFICIENT` other than zero, or "biomass" in its id or name.
+fn is_objective(r: Node, sbml_id: &str, name: &str, objective_ids: &[&str]) -> bool {
+    let l2_objective = r
+        .descendants()
+        .filter(|n| n.has_tag_name_local("parameter"))
+        .any(|p| {
+            p.attribute("id") == Some("OBJECTIVE_COEFFICIENT")
+                && p.attribute("value")
+                    .and_then(|v| v.trim().parse::<f64>().ok())
+                    .is_some_and(|v| v != 0.0)
+        });
+    objective_ids.contains(&sbml_id)
+        || l2_objective
+        || sbml_id.to_ascii_lowercase().contains("biomass")
+        || name.to_ascii_lowercase().contains("biomass")
 }
 
 /// `M_glc__D_c` -> `glc__D_c`; an id that would be empty keeps its prefix.

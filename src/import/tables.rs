@@ -188,7 +188,7 @@ fn cell(
             ),
         ));
     };
-    let si = check::quantity(&format!("{number} {unit}"), kind)
+    let si = check::checked_quantity(&format!("{number} {unit}"), kind)
         .map_err(|m| ImportError::new(file, Some(line), format!("column '{column}': {m}")))?;
     if kind == Kind::Concentration && si <= 0.0 {
         return Err(ImportError::new(

@@ -4,7 +4,48 @@
 //! functions, so they share one set of plausibility limits and one wording.
 //! The limits are written down for users in `docs/format.md`.
 
-use super::units::{self, Kind};
+use super::units::{self, Kind, UnitError};
+
+/// Why a value was refused; the message states the limit and what to write
+/// instead.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum CheckError {
+    /// The text could not be read as a quantity.
+    #[error(transparent)]
+    Unit(#[from] UnitError),
+    /// A temperature outside liquid water (the value as shown).
+    #[error(
+        "{0} is outside 0–100 °C (273.15–373.15 K), where water is liquid; write e.g. \"30 C\""
+    )]
+    Temperature(String),
+    /// An ionic strength outside 0–1 M (the value as shown).
+    #[error("{0} is outside 0–1 M; cytosol is about 0.15–0.25 M: write e.g. \"0.2 M\"")]
+    IonicStrength(String),
+    /// A concentration outside 1 fM–10 M (the value as shown).
+    #[error(
+        "{0} is outside 1 fM–10 M, the range of anything dissolved in a cell; write e.g. \"1 mM\""
+    )]
+    Concentration(String),
+    /// An energy beyond ±3000 kJ/mol (the value as shown).
+    #[error(
+        "{0} is beyond ±3000 kJ/mol, more than any one step of metabolism releases; write e.g. \"-16.7 kJ/mol\""
+    )]
+    Energy(String),
+    /// A concentration typed as zero or less (the text, shortened).
+    #[error(
+        "'{0}' is not above zero; write a small positive value such as \"1 nM\" for a trace compound"
+    )]
+    NotPositive(String),
+    /// A stepped concentration that reached zero.
+    #[error("a concentration must stay above zero")]
+    StepToZero,
+    /// A pH outside 0–14 (the value as shown).
+    #[error("pH {0} is outside 0–14; write e.g. 7.0")]
+    Ph(String),
+    /// A pH that is not a number (the text, shortened).
+    #[error("pH '{0}' is not a number; write e.g. 7.2")]
+    PhNotANumber(String),
+}
 
 /// Lowest temperature accepted, in K (0 °C: liquid water).
 pub const MIN_TEMPERATURE: f64 = 273.15;
@@ -28,7 +69,7 @@ pub const PH_RANGE: (f64, f64) = (0.0, 14.0);
 
 /// Checks a value already in SI units against the limits of its kind;
 /// `Err` says the limit and what to write instead.
-pub fn plausible(si: f64, kind: Kind) -> Result<f64, String> {
+pub fn plausible(si: f64, kind: Kind) -> Result<f64, CheckError> {
     let ok = match kind {
         Kind::Temperature => (MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&si),
         Kind::IonicStrength => (0.0..=MAX_IONIC_STRENGTH).contains(&si),
@@ -40,54 +81,54 @@ pub fn plausible(si: f64, kind: Kind) -> Result<f64, String> {
     if ok && si.is_finite() {
         return Ok(si);
     }
+    let shown = show(si, kind);
     Err(match kind {
-        Kind::Temperature => format!(
-            "{} is outside 0–100 °C (273.15–373.15 K), where water is liquid; write e.g. \"30 C\"",
-            show(si, kind)
-        ),
-        Kind::IonicStrength => format!(
-            "{} is outside 0–1 M; cytosol is about 0.15–0.25 M: write e.g. \"0.2 M\"",
-            show(si, kind)
-        ),
-        Kind::Concentration => format!(
-            "{} is outside 1 fM–10 M, the range of anything dissolved in a cell; write e.g. \"1 mM\"",
-            show(si, kind)
-        ),
-        Kind::Energy => format!(
-            "{} is beyond ±3000 kJ/mol, more than any one step of metabolism releases; write e.g. \"-16.7 kJ/mol\"",
-            show(si, kind)
-        ),
+        Kind::Temperature => CheckError::Temperature(shown),
+        Kind::IonicStrength => CheckError::IonicStrength(shown),
+        Kind::Concentration => CheckError::Concentration(shown),
+        Kind::Energy => CheckError::Energy(shown),
     })
 }
 
 /// Parses a quantity with its unit and checks it against its limits.
-pub fn quantity(text: &str, kind: Kind) -> Result<f64, String> {
+pub fn checked_quantity(text: &str, kind: Kind) -> Result<f64, CheckError> {
     plausible(units::parse(text, kind)?, kind)
 }
 
 /// Parses a concentration that must be positive ("2.5 mM", "80 uM", "0.5").
-pub fn concentration(text: &str) -> Result<f64, String> {
-    let c = quantity(text, Kind::Concentration)?;
+pub fn checked_concentration(text: &str) -> Result<f64, CheckError> {
+    let c = checked_quantity(text, Kind::Concentration)?;
     if c <= 0.0 {
-        return Err(format!(
-            "'{}' is not above zero; write a small positive value such as \"1 nM\" for a trace compound",
-            super::pathway::shorten(text.trim())
-        ));
+        return Err(CheckError::NotPositive(super::pathway::shorten(
+            text.trim(),
+        )));
     }
     Ok(c)
 }
 
-/// Checks a concentration already in mol/L (a stepped value in the explorer).
+/// `checked_quantity` with the message as text, as the explorer's edit line
+/// (`tui/edit.rs`) still takes it.
+pub fn quantity(text: &str, kind: Kind) -> Result<f64, String> {
+    checked_quantity(text, kind).map_err(|e| e.to_string())
+}
+
+/// `checked_concentration` with the message as text (see `quantity`).
+pub fn concentration(text: &str) -> Result<f64, String> {
+    checked_concentration(text).map_err(|e| e.to_string())
+}
+
+/// Checks a concentration already in mol/L (a stepped value in the explorer),
+/// with the message as text, as the explorer's status line takes it.
 pub fn concentration_si(c: f64) -> Result<f64, String> {
     if c > 0.0 {
-        plausible(c, Kind::Concentration)
+        plausible(c, Kind::Concentration).map_err(|e| e.to_string())
     } else {
-        Err("a concentration must stay above zero".into())
+        Err(CheckError::StepToZero.to_string())
     }
 }
 
 /// Checks a pH value.
-pub fn ph(value: f64) -> Result<f64, String> {
+pub fn ph(value: f64) -> Result<f64, CheckError> {
     if value.is_finite() && (PH_RANGE.0..=PH_RANGE.1).contains(&value) {
         Ok(value)
     } else {
@@ -96,19 +137,22 @@ pub fn ph(value: f64) -> Result<f64, String> {
         } else {
             format!("{value:.3e}")
         };
-        Err(format!("pH {shown} is outside 0–14; write e.g. 7.0"))
+        Err(CheckError::Ph(shown))
     }
 }
 
-/// Parses and checks a pH typed as text ("7.2").
+/// Parses and checks a pH typed as text ("7.2"), with the message as text
+/// (see `quantity`).
 pub fn ph_text(text: &str) -> Result<f64, String> {
+    checked_ph_text(text).map_err(|e| e.to_string())
+}
+
+/// Parses and checks a pH typed as text ("7.2").
+pub fn checked_ph_text(text: &str) -> Result<f64, CheckError> {
     let t = text.trim();
-    let v: f64 = t.parse().map_err(|_| {
-        format!(
-            "pH '{}' is not a number; write e.g. 7.2",
-            super::pathway::shorten(t)
-        )
-    })?;
+    let v: f64 = t
+        .parse()
+        .map_err(|_| CheckError::PhNotANumber(super::pathway::shorten(t)))?;
     ph(v)
 }
 
@@ -163,7 +207,7 @@ mod tests {
                 .unwrap_err()
                 .contains("0–1 M")
         );
-        assert!(ph_text("15").unwrap_err().contains("0–14"));
+        assert!(ph_text("15").unwrap_err().to_string().contains("0–14"));
         assert!(ph_text("seven").unwrap_err().contains("not a number"));
         assert!(
             concentration("0 mM")

@@ -19,6 +19,8 @@ pub struct Problem {
     pub message: String,
 }
 
+impl std::error::Error for Problem {}
+
 impl fmt::Display for Problem {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match (self.line, self.column) {

@@ -44,15 +44,90 @@ pub fn valid_id(id: &str) -> bool {
 pub const ID_RULE: &str =
     "ids contain letters, digits and '_', start with a letter or digit, and are not a bare number";
 
+/// Why an equation could not be read; each message quotes the reaction
+/// (shortened) and says what to write instead.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ReactionError {
+    /// No arrow at all.
+    #[error(
+        "reaction '{0}' has no arrow; write it as \"a + b -> c\" (-> → => <-> <=> ⇌ or = all work)"
+    )]
+    NoArrow(String),
+    /// Two arrows or more.
+    #[error("reaction '{0}' has more than one arrow; write exactly one")]
+    TwoArrows(String),
+    /// More than `MAX_TERMS` terms.
+    #[error(
+        "reaction '{reaction}' has {terms} terms, over the limit of {MAX_TERMS}; write it as several steps"
+    )]
+    TooManyTerms {
+        /// The reaction.
+        reaction: String,
+        /// Terms on both sides.
+        terms: usize,
+    },
+    /// One side is empty.
+    #[error("reaction '{0}' needs compounds on both sides of the arrow")]
+    OneSided(String),
+    /// A stray '+'.
+    #[error("reaction '{0}' has an empty term (a stray '+'?)")]
+    EmptyTerm(String),
+    /// Three words or more in one term.
+    #[error(
+        "'{term}' in reaction '{reaction}' is not 'coefficient id'; separate compounds with ' + '"
+    )]
+    NotCoefficientId {
+        /// The term as written.
+        term: String,
+        /// The reaction.
+        reaction: String,
+    },
+    /// The coefficient word is not a number.
+    #[error("'{word}' in reaction '{reaction}' is not a number; write e.g. \"2 {id}\"")]
+    BadCoefficient {
+        /// The coefficient as written.
+        word: String,
+        /// The reaction.
+        reaction: String,
+        /// The id that follows it.
+        id: String,
+    },
+    /// Zero, negative or not finite.
+    #[error(
+        "coefficient {coef} of '{id}' in reaction '{reaction}' must be a positive number; put the compound on the other side instead of using a negative or zero coefficient"
+    )]
+    NotPositive {
+        /// The coefficient.
+        coef: f64,
+        /// The compound id.
+        id: String,
+        /// The reaction.
+        reaction: String,
+    },
+    /// H+ written as a compound.
+    #[error(
+        "reaction '{0}' contains H+; dG'° values are transformed at fixed pH, so leave H+ out and state it with protons = N (net H+ released)"
+    )]
+    Proton(String),
+    /// An id that breaks `ID_RULE`.
+    #[error("'{id}' in reaction '{reaction}' is not a valid compound id; {ID_RULE}")]
+    BadId {
+        /// The id as written.
+        id: String,
+        /// The reaction.
+        reaction: String,
+    },
+}
+
 /// Parses an equation; the error says what is wrong and what to write instead.
-pub fn parse(text: &str) -> Result<Equation, String> {
+pub fn parse(text: &str) -> Result<Equation, ReactionError> {
     parse_with(text, &|_| false)
 }
 
 /// Parses an equation where `known` tells which ids are declared, so that a
 /// declared id starting with digits (`13dpg_c`) is not read as a coefficient
 /// glued to an id (`2atp`).
-pub fn parse_with(text: &str, known: &dyn Fn(&str) -> bool) -> Result<Equation, String> {
+pub fn parse_with(text: &str, known: &dyn Fn(&str) -> bool) -> Result<Equation, ReactionError> {
     let shown = super::pathway::shorten(text);
     let mut found: Option<(usize, &str)> = None;
     for arrow in ARROWS {
@@ -62,33 +137,28 @@ pub fn parse_with(text: &str, known: &dyn Fn(&str) -> bool) -> Result<Equation, 
         }
     }
     let Some((pos, arrow)) = found else {
-        return Err(format!(
-            "reaction '{shown}' has no arrow; write it as \"a + b -> c\" (-> → => <-> <=> ⇌ or = all work)"
-        ));
+        return Err(ReactionError::NoArrow(shown));
     };
     let (l, r) = (&text[..pos], &text[pos + arrow.len()..]);
     if ARROWS.iter().any(|a| r.contains(a)) {
-        return Err(format!(
-            "reaction '{shown}' has more than one arrow; write exactly one"
-        ));
+        return Err(ReactionError::TwoArrows(shown));
     }
     let left = side(l, &shown, known)?;
     let right = side(r, &shown, known)?;
     if left.len() + right.len() > MAX_TERMS {
-        return Err(format!(
-            "reaction '{shown}' has {} terms, over the limit of {MAX_TERMS}; write it as several steps",
-            left.len() + right.len()
-        ));
+        return Err(ReactionError::TooManyTerms {
+            terms: left.len() + right.len(),
+            reaction: shown,
+        });
     }
     if left.is_empty() || right.is_empty() {
-        return Err(format!(
-            "reaction '{shown}' needs compounds on both sides of the arrow"
-        ));
+        return Err(ReactionError::OneSided(shown));
     }
     Ok(Equation { left, right })
 }
 
-fn side(s: &str, whole: &str, known: &dyn Fn(&str) -> bool) -> Result<Vec<Term>, String> {
+/// The terms of one side of the arrow (`whole` is the reaction, for messages).
+fn side(s: &str, whole: &str, known: &dyn Fn(&str) -> bool) -> Result<Vec<Term>, ReactionError> {
     let s = s.trim();
     if s.is_empty() {
         return Ok(Vec::new());
@@ -97,23 +167,22 @@ fn side(s: &str, whole: &str, known: &dyn Fn(&str) -> bool) -> Result<Vec<Term>,
     for raw in s.split(" + ").flat_map(|p| split_plus(p)) {
         let part = raw.trim();
         if part.is_empty() {
-            return Err(format!(
-                "reaction '{whole}' has an empty term (a stray '+'?)"
-            ));
+            return Err(ReactionError::EmptyTerm(whole.to_string()));
         }
         let mut words = part.split_whitespace();
         let first = words.next().unwrap_or("");
         let (coef, id) = match words.next() {
             Some(second) => {
                 if words.next().is_some() {
-                    return Err(format!(
-                        "'{part}' in reaction '{whole}' is not 'coefficient id'; separate compounds with ' + '"
-                    ));
+                    return Err(ReactionError::NotCoefficientId {
+                        term: part.to_string(),
+                        reaction: whole.to_string(),
+                    });
                 }
-                let c: f64 = first.parse().map_err(|_| {
-                    format!(
-                        "'{first}' in reaction '{whole}' is not a number; write e.g. \"2 {second}\""
-                    )
+                let c: f64 = first.parse().map_err(|_| ReactionError::BadCoefficient {
+                    word: first.to_string(),
+                    reaction: whole.to_string(),
+                    id: second.to_string(),
                 })?;
                 (c, second)
             }
@@ -121,19 +190,20 @@ fn side(s: &str, whole: &str, known: &dyn Fn(&str) -> bool) -> Result<Vec<Term>,
             None => split_glued(first),
         };
         if !coef.is_finite() || coef <= 0.0 {
-            return Err(format!(
-                "coefficient {coef} of '{id}' in reaction '{whole}' must be a positive number; put the compound on the other side instead of using a negative or zero coefficient"
-            ));
+            return Err(ReactionError::NotPositive {
+                coef,
+                id: id.to_string(),
+                reaction: whole.to_string(),
+            });
         }
         if id == "H+" || id == "h+" || id.eq_ignore_ascii_case("h") || id == "H" || id == "proton" {
-            return Err(format!(
-                "reaction '{whole}' contains H+; dG'° values are transformed at fixed pH, so leave H+ out and state it with protons = N (net H+ released)"
-            ));
+            return Err(ReactionError::Proton(whole.to_string()));
         }
         if !valid_id(id) {
-            return Err(format!(
-                "'{id}' in reaction '{whole}' is not a valid compound id; {ID_RULE}"
-            ));
+            return Err(ReactionError::BadId {
+                id: id.to_string(),
+                reaction: whole.to_string(),
+            });
         }
         out.push(Term {
             coef,
@@ -194,6 +264,7 @@ mod tests {
         assert!(
             parse("a → b → c")
                 .unwrap_err()
+                .to_string()
                 .contains("more than one arrow")
         );
     }
@@ -220,25 +291,53 @@ mod tests {
 
     #[test]
     fn rejects_h_plus_with_advice() {
-        let e = parse("nadh + H+ + o2 -> nad + h2o").unwrap_err();
+        let e = parse("nadh + H+ + o2 -> nad + h2o")
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("protons"), "{e}");
-        let e = parse("a -> b + H+").unwrap_err();
+        let e = parse("a -> b + H+").unwrap_err().to_string();
         assert!(e.contains("H+"), "{e}");
     }
 
     #[test]
     fn rejects_bad_coefficients_and_shapes() {
-        assert!(parse("0 a -> b").unwrap_err().contains("positive"));
-        assert!(parse("-1 a -> b").unwrap_err().contains("positive"));
-        assert!(parse("a b").unwrap_err().contains("no arrow"));
-        assert!(parse("a -> ").unwrap_err().contains("both sides"));
+        assert!(
+            parse("0 a -> b")
+                .unwrap_err()
+                .to_string()
+                .contains("positive")
+        );
+        assert!(
+            parse("-1 a -> b")
+                .unwrap_err()
+                .to_string()
+                .contains("positive")
+        );
+        assert!(parse("a b").unwrap_err().to_string().contains("no arrow"));
+        assert!(
+            parse("a -> ")
+                .unwrap_err()
+                .to_string()
+                .contains("both sides")
+        );
         assert!(
             parse("a -> b -> c")
                 .unwrap_err()
+                .to_string()
                 .contains("more than one arrow")
         );
-        assert!(parse("a + + b -> c").unwrap_err().contains("empty term"));
-        assert!(parse("2x a -> b").unwrap_err().contains("not a number"));
+        assert!(
+            parse("a + + b -> c")
+                .unwrap_err()
+                .to_string()
+                .contains("empty term")
+        );
+        assert!(
+            parse("2x a -> b")
+                .unwrap_err()
+                .to_string()
+                .contains("not a number")
+        );
     }
 
     #[test]

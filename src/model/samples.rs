@@ -118,22 +118,52 @@ impl SampleReader<std::fs::File> {
     }
 }
 
+/// Why a column header could not be split into an id and a unit.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+enum HeaderError {
+    /// `glc [mM` (the header as written).
+    #[error("'{0}' opens '[' but does not close it; write e.g. 'glc [mM]'")]
+    Unclosed(String),
+    /// `glc [mM] x` (the header as written).
+    #[error("'{0}' has text after the unit; write e.g. 'glc [mM]'")]
+    TextAfterUnit(String),
+}
+
+/// Why a concentration cell could not be read.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+enum CellError {
+    /// Neither a number nor a number with a unit (the cell as written).
+    #[error(
+        "'{0}' is not a concentration; write a number such as 2.5 (with the unit in the header) or '2.5 mM'"
+    )]
+    NotAConcentration(String),
+    /// A bare number under a header without a unit.
+    #[error(
+        "'{0}' has no unit and the column header gives none; write '{0} mM' or put the unit in the header (e.g. 'glc [mM]')"
+    )]
+    NoUnit(String),
+    /// The number and unit could not be read.
+    #[error(transparent)]
+    Unit(#[from] units::UnitError),
+    /// Zero or negative.
+    #[error(
+        "'{0}': a concentration must be above zero; leave the cell empty to keep the pathway file's value"
+    )]
+    NotPositive(String),
+}
+
 /// Splits `glc [mM]` into `glc` and `Some("mM")`.
-fn split_header(h: &str) -> Result<(&str, Option<&str>), String> {
+fn split_header(h: &str) -> Result<(&str, Option<&str>), HeaderError> {
     let h = h.trim();
     match h.find('[') {
         None => Ok((h, None)),
         Some(i) => {
             let rest = &h[i + 1..];
             let Some(j) = rest.find(']') else {
-                return Err(format!(
-                    "'{h}' opens '[' but does not close it; write e.g. 'glc [mM]'"
-                ));
+                return Err(HeaderError::Unclosed(h.to_string()));
             };
             if !rest[j + 1..].trim().is_empty() {
-                return Err(format!(
-                    "'{h}' has text after the unit; write e.g. 'glc [mM]'"
-                ));
+                return Err(HeaderError::TextAfterUnit(h.to_string()));
             }
             Ok((h[..i].trim(), Some(rest[..j].trim())))
         }
@@ -155,99 +185,11 @@ impl<R: Read> SampleReader<R> {
             .has_headers(true)
             .trim(csv::Trim::All)
             .from_reader(buf);
-        let head_place = |column: Option<String>| Place {
-            file: file.to_string(),
-            line: Some(1),
-            column,
-        };
         let headers = match rdr.headers() {
             Ok(h) => h.clone(),
             Err(e) => return Err(csv_error(file, &e)),
         };
-        if headers.is_empty() || headers.iter().all(|h| h.is_empty()) {
-            return Err(SampleError::Header {
-                place: head_place(None),
-                message: "the samples table is empty; its first line must be a header such as 'sample,glc [mM],atp [mM]'".into(),
-            });
-        }
-        let first = headers.get(0).unwrap_or("");
-        if !first.eq_ignore_ascii_case("sample") {
-            return Err(SampleError::Header {
-                place: head_place(Some(first.to_string())),
-                message: format!(
-                    "the first column must be 'sample' (the sample's name), not '{first}'"
-                ),
-            });
-        }
-        let mut columns = Vec::new();
-        let mut used: Vec<Option<String>> = vec![None; p.compounds.len()];
-        for (k, h) in headers.iter().enumerate().skip(1) {
-            let place = head_place(Some(if h.is_empty() {
-                format!("#{}", k + 1)
-            } else {
-                h.to_string()
-            }));
-            let (id, unit) = split_header(h).map_err(|m| SampleError::Header {
-                place: place.clone(),
-                message: m,
-            })?;
-            if id.is_empty() {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "column {} has no compound id; write a compound id such as 'glc [mM]'",
-                        k + 1
-                    ),
-                });
-            }
-            let Some(ci) = p.compound(id) else {
-                let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
-                    .map(|s| format!("; did you mean '{s}'?"))
-                    .unwrap_or_else(|| {
-                        "; every column after 'sample' must be a compound id of the pathway".into()
-                    });
-                return Err(SampleError::Header {
-                    place,
-                    message: format!("no compound '{id}' in {}{hint}", p.file),
-                });
-            };
-            if p.compounds[ci].is_solvent() {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "'{id}' is a solvent (activity 1); it has no concentration — remove the column"
-                    ),
-                });
-            }
-            if let Some(prev) = &used[ci] {
-                return Err(SampleError::Header {
-                    place,
-                    message: format!(
-                        "'{id}' already has a column ('{prev}'); keep one column per compound"
-                    ),
-                });
-            }
-            used[ci] = Some(h.to_string());
-            let factor = match unit {
-                None => None,
-                Some(u) => Some(
-                    units::conc_divisor(&u.replace(' ', ""))
-                        .filter(|_| !u.is_empty())
-                        .ok_or_else(|| SampleError::Header {
-                            place: place.clone(),
-                            message: format!(
-                                "unknown concentration unit '[{u}]'; use {}",
-                                units::Kind::Concentration.units()
-                            ),
-                        })?,
-                ),
-            };
-            columns.push(Column {
-                header: h.to_string(),
-                compound: ci,
-                factor,
-            });
-        }
+        let columns = header_columns(&headers, file, p)?;
         Ok(SampleReader {
             file: file.to_string(),
             rows: rdr.into_records(),
@@ -294,7 +236,7 @@ impl<R: Read> SampleReader<R> {
             }
             let v = parse_cell(cell, col.factor).map_err(|m| SampleError::Cell {
                 place: place(&col.header),
-                message: m,
+                message: m.to_string(),
             })?;
             conc[col.compound] = v;
         }
@@ -302,13 +244,116 @@ impl<R: Read> SampleReader<R> {
     }
 }
 
-/// Parses one concentration cell to mol/L; `factor` is how many of the header's unit make 1 M.
-fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, String> {
-    let bad = || {
-        format!(
-            "'{cell}' is not a concentration; write a number such as 2.5 (with the unit in the header) or '2.5 mM'"
-        )
+/// A place on the header line.
+fn head_place(file: &str, column: Option<String>) -> Place {
+    Place {
+        file: file.to_string(),
+        line: Some(1),
+        column,
+    }
+}
+
+/// The compound columns of the header row, after checking that it is not
+/// empty and starts with 'sample'.
+fn header_columns(
+    headers: &csv::StringRecord,
+    file: &str,
+    p: &Pathway,
+) -> Result<Vec<Column>, SampleError> {
+    if headers.is_empty() || headers.iter().all(|h| h.is_empty()) {
+        return Err(SampleError::Header {
+            place: head_place(file, None),
+            message: "the samples table is empty; its first line must be a header such as 'sample,glc [mM],atp [mM]'".into(),
+        });
+    }
+    let first = headers.get(0).unwrap_or("");
+    if !first.eq_ignore_ascii_case("sample") {
+        return Err(SampleError::Header {
+            place: head_place(file, Some(first.to_string())),
+            message: format!(
+                "the first column must be 'sample' (the sample's name), not '{first}'"
+            ),
+        });
+    }
+    let mut columns = Vec::new();
+    let mut used: Vec<Option<String>> = vec![None; p.compounds.len()];
+    for (k, h) in headers.iter().enumerate().skip(1) {
+        let place = head_place(
+            file,
+            Some(if h.is_empty() {
+                format!("#{}", k + 1)
+            } else {
+                h.to_string()
+            }),
+        );
+        columns.push(compound_column(h, k, p, &mut used, place)?);
+    }
+    Ok(columns)
+}
+
+/// Header cell `h` (column `k`, 0-based) as a compound column: a known,
+/// non-solvent compound with no column yet (`used` holds the headers seen
+/// per compound), and its unit when it gives one.
+fn compound_column(
+    h: &str,
+    k: usize,
+    p: &Pathway,
+    used: &mut [Option<String>],
+    place: Place,
+) -> Result<Column, SampleError> {
+    let refuse = |message: String| SampleError::Header {
+        place: place.clone(),
+        message,
     };
+    let (id, unit) = split_header(h).map_err(|m| refuse(m.to_string()))?;
+    if id.is_empty() {
+        return Err(refuse(format!(
+            "column {} has no compound id; write a compound id such as 'glc [mM]'",
+            k + 1
+        )));
+    }
+    let Some(ci) = p.compound(id) else {
+        let hint = model::suggest(id, p.compounds.iter().map(|c| c.id.as_str()))
+            .map(|s| format!("; did you mean '{s}'?"))
+            .unwrap_or_else(|| {
+                "; every column after 'sample' must be a compound id of the pathway".into()
+            });
+        return Err(refuse(format!("no compound '{id}' in {}{hint}", p.file)));
+    };
+    if p.compounds[ci].is_solvent() {
+        return Err(refuse(format!(
+            "'{id}' is a solvent (activity 1); it has no concentration — remove the column"
+        )));
+    }
+    if let Some(prev) = &used[ci] {
+        return Err(refuse(format!(
+            "'{id}' already has a column ('{prev}'); keep one column per compound"
+        )));
+    }
+    used[ci] = Some(h.to_string());
+    let factor = match unit {
+        None => None,
+        Some(u) => Some(
+            units::conc_divisor(&u.replace(' ', ""))
+                .filter(|_| !u.is_empty())
+                .ok_or_else(|| {
+                    refuse(format!(
+                        "unknown concentration unit '[{u}]'; use {}",
+                        units::Kind::Concentration.units()
+                    ))
+                })?,
+        ),
+    };
+    Ok(Column {
+        header: h.to_string(),
+        compound: ci,
+        factor,
+    })
+}
+
+/// Parses one concentration cell to mol/L; `factor` is how many of the header's unit make 1 M.
+fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, CellError> {
+    let bad = || CellError::NotAConcentration(cell.to_string());
     let t = cell.trim();
     // A bare number takes the header's unit.
     let v = if let Ok(x) = t.parse::<f64>() {
@@ -319,28 +364,19 @@ fn parse_cell(cell: &str, factor: Option<f64>) -> Result<f64, String> {
         }
         match factor {
             Some(d) => x / d,
-            None => {
-                return Err(format!(
-                    "'{cell}' has no unit and the column header gives none; write '{cell} mM' or put the unit in the header (e.g. 'glc [mM]')"
-                ));
-            }
+            None => return Err(CellError::NoUnit(cell.to_string())),
         }
     } else {
-        units::parse(t, units::Kind::Concentration).map_err(|e| {
-            if e.contains("does not start with a number") {
-                bad()
-            } else {
-                e
-            }
+        units::parse(t, units::Kind::Concentration).map_err(|e| match e {
+            units::UnitError::NotANumber(_) => bad(),
+            e => CellError::Unit(e),
         })?
     };
     if !v.is_finite() {
         return Err(bad());
     }
     if v <= 0.0 {
-        return Err(format!(
-            "'{cell}': a concentration must be above zero; leave the cell empty to keep the pathway file's value"
-        ));
+        return Err(CellError::NotPositive(cell.to_string()));
     }
     Ok(v)
 }

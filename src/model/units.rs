@@ -77,20 +77,60 @@ fn number_len(b: &[u8]) -> usize {
     end
 }
 
+/// Why a quantity could not be read; the message says what to write instead.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum UnitError {
+    /// The number itself overflows (text shortened for the message).
+    #[error("'{0}' is too large to work with")]
+    NumberTooLarge(String),
+    /// The text does not start with a number.
+    #[error("'{0}' does not start with a number")]
+    NotANumber(String),
+    /// The number is fine but the value in SI overflows.
+    #[error("'{text}' is too large to work with; write e.g. {example}")]
+    ValueTooLarge {
+        /// The text as written, shortened.
+        text: String,
+        /// An example of the kind.
+        example: &'static str,
+    },
+    /// A unit this kind does not know.
+    #[error("unknown unit '{unit}'; use {units}")]
+    UnknownUnit {
+        /// The unit as written, shortened.
+        unit: String,
+        /// The units the kind accepts.
+        units: &'static str,
+    },
+    /// "1,5 mM": the number stopped at a decimal comma.
+    #[error(
+        "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")"
+    )]
+    DecimalComma,
+    /// A temperature without a unit; both readings are offered.
+    #[error("a temperature needs a unit: write \"{celsius} C\" or \"{kelvin} K\"")]
+    TemperatureWithoutUnit {
+        /// The number read as °C.
+        celsius: String,
+        /// The number read as °C, in K.
+        kelvin: String,
+    },
+}
+
 /// Splits "12.5 mM" into the number and the unit text (which may be empty).
-fn split(text: &str) -> Result<(f64, &str), String> {
+fn split(text: &str) -> Result<(f64, &str), UnitError> {
     let t = text.trim();
     // The longest prefix that is a number is the number ("inf" and "nan" are not).
     let n = number_len(t.as_bytes());
     match t[..n].parse::<f64>() {
         Ok(v) if n > 0 && v.is_finite() => Ok((v, t[n..].trim())),
-        Ok(_) if n > 0 => Err(format!("'{}' is too large to work with", shorten(t))),
-        _ => Err(format!("'{}' does not start with a number", shorten(t))),
+        Ok(_) if n > 0 => Err(UnitError::NumberTooLarge(shorten(t))),
+        _ => Err(UnitError::NotANumber(shorten(t))),
     }
 }
 
 /// Parses a quantity given as text; `Ok` holds the SI value.
-pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
+pub fn parse(text: &str, kind: Kind) -> Result<f64, UnitError> {
     let (v, unit) = split(text)?;
     let unit_l = unit.replace(' ', "");
     let si = match kind {
@@ -110,20 +150,19 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, String> {
             "C" | "°C" | "degC" | "ºC" => v + 273.15,
             "K" => v,
             "" => {
-                return Err(format!(
-                    "a temperature needs a unit: write \"{v} C\" or \"{} K\"",
-                    fmt_num(v + 273.15)
-                ));
+                return Err(UnitError::TemperatureWithoutUnit {
+                    celsius: v.to_string(),
+                    kelvin: fmt_num(v + 273.15),
+                });
             }
             _ => return Err(unknown_unit(unit, kind)),
         },
     };
     if !si.is_finite() {
-        return Err(format!(
-            "'{}' is too large to work with; write e.g. {}",
-            shorten(text.trim()),
-            kind.example()
-        ));
+        return Err(UnitError::ValueTooLarge {
+            text: shorten(text.trim()),
+            example: kind.example(),
+        });
     }
     Ok(si)
 }
@@ -144,27 +183,29 @@ pub fn conc_divisor(unit: &str) -> Option<f64> {
 }
 
 /// Parses a bare number (from a TOML integer or float) in the kind's default unit.
-pub fn from_number(v: f64, kind: Kind) -> Result<f64, String> {
+pub fn from_number(v: f64, kind: Kind) -> Result<f64, UnitError> {
     match kind {
         Kind::Energy => Ok(v * 1e3),
         Kind::Concentration => Ok(v / 1e3),
         Kind::IonicStrength => Ok(v),
-        Kind::Temperature => Err(format!(
-            "a temperature needs a unit: write \"{} C\" or \"{} K\"",
-            fmt_num(v),
-            fmt_num(v + 273.15)
-        )),
+        Kind::Temperature => Err(UnitError::TemperatureWithoutUnit {
+            celsius: fmt_num(v),
+            kelvin: fmt_num(v + 273.15),
+        }),
     }
 }
 
-fn unknown_unit(unit: &str, kind: Kind) -> String {
+fn unknown_unit(unit: &str, kind: Kind) -> UnitError {
     // "1,5 mM": the number stopped at the comma.
     if let Some(rest) = unit.strip_prefix(',')
         && rest.starts_with(|c: char| c.is_ascii_digit())
     {
-        return "a decimal comma is not read: write the number with a decimal point (\"1.5 mM\", not \"1,5 mM\")".to_string();
+        return UnitError::DecimalComma;
     }
-    format!("unknown unit '{}'; use {}", shorten(unit), kind.units())
+    UnitError::UnknownUnit {
+        unit: shorten(unit),
+        units: kind.units(),
+    }
 }
 
 fn fmt_num(v: f64) -> String {
@@ -226,7 +267,9 @@ mod tests {
 
     #[test]
     fn a_decimal_comma_gets_a_message_that_says_so() {
-        let e = parse("1,5 mM", Kind::Concentration).unwrap_err();
+        let e = parse("1,5 mM", Kind::Concentration)
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("decimal point") && e.contains("1.5 mM"), "{e}");
     }
 
@@ -256,16 +299,18 @@ mod tests {
         assert!((parse("30 C", Kind::Temperature).unwrap() - 303.15).abs() < 1e-12);
         assert!((parse("37°C", Kind::Temperature).unwrap() - 310.15).abs() < 1e-12);
         assert_eq!(parse("303.15 K", Kind::Temperature).unwrap(), 303.15);
-        let e = parse("30", Kind::Temperature).unwrap_err();
+        let e = parse("30", Kind::Temperature).unwrap_err().to_string();
         assert!(e.contains("\"30 C\""), "{e}");
         assert!(from_number(30.0, Kind::Temperature).is_err());
     }
 
     #[test]
     fn bad_units_and_numbers_are_explained() {
-        let e = parse("5 mmol", Kind::Concentration).unwrap_err();
+        let e = parse("5 mmol", Kind::Concentration)
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("unknown unit 'mmol'") && e.contains("uM"), "{e}");
-        let e = parse("lots", Kind::Concentration).unwrap_err();
+        let e = parse("lots", Kind::Concentration).unwrap_err().to_string();
         assert!(e.contains("does not start with a number"), "{e}");
         assert!(parse("inf mM", Kind::Concentration).is_err());
     }

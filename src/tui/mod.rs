@@ -47,8 +47,8 @@ pub enum TuiError {
         "the explorer needs a terminal, but standard {0} is not one (piped or redirected); use `dgpath report FILE` for text output"
     )]
     NotTerminal(&'static str),
-    /// The terminal failed.
-    #[error("terminal error: {0}")]
+    /// The terminal failed (the I/O error follows as the source).
+    #[error("terminal error")]
     Io(#[from] std::io::Error),
 }
 

@@ -193,24 +193,50 @@ impl Model {
         if m0 == 0 {
             return Ok(out);
         }
+        let (system, u) = self.reduced_system(link, sat, dense);
+        let z = match system {
+            System::Dense(a) => solve(a, m0, u),
+            System::Band(rows) => band_solve(rows, u)?,
+        }
+        .ok_or(Failure::Singular)?;
+        for (i, c) in out.iter_mut().enumerate() {
+            let mut acc = 0.0;
+            for &(v, nu) in &self.terms[i] {
+                if let Some(k) = link.indep[v] {
+                    acc += z[k] * nu;
+                }
+            }
+            *c -= self.times[i] * acc;
+        }
+        let sum: f64 = out.iter().sum();
+        if out.iter().all(|x| x.is_finite()) && (sum - 1.0).abs() < 1e-6 {
+            Ok(out)
+        } else {
+            Err(Failure::Singular)
+        }
+    }
+
+    /// The matrix (N_R T ε L̃)ᵀ, dense or as (column, value) rows for the
+    /// banded solver, and u = (ε L̃)ᵀ e_r; each step's row of ε L̃ is
+    /// accumulated in a scratch row.
+    fn reduced_system(
+        &self,
+        link: &Link,
+        sat: Option<&[(f64, f64)]>,
+        dense: bool,
+    ) -> (System, Vec<f64>) {
+        let m0 = link.m0;
         let s = |k: usize| sat.map_or((0.0, 0.0), |v| v[k]);
-        // Rows of (N_R T ε L̃)ᵀ as (column, value) lists, and u = (ε L̃)ᵀ e_r;
-        // each step's row of ε L̃ is accumulated in a scratch row.
-        let mut at: Vec<Vec<(usize, f64)>> = if dense {
-            Vec::new()
+        let mut system = if dense {
+            System::Dense(vec![0.0; m0 * m0])
         } else {
-            vec![Vec::new(); m0]
-        };
-        let mut dense_at = if dense {
-            vec![0.0; m0 * m0]
-        } else {
-            Vec::new()
+            System::Band(vec![Vec::new(); m0])
         };
         let mut u = vec![0.0; m0];
         let mut scratch = vec![0.0; m0];
         let mut mark = vec![false; m0];
         let mut touched: Vec<usize> = Vec::new();
-        for j in 0..n {
+        for j in 0..self.terms.len() {
             touched.clear();
             for &(v, nu) in &self.terms[j] {
                 let e = self.elasticity(j, nu, s(j));
@@ -231,10 +257,9 @@ impl Model {
             for &(v, nu) in &self.terms[j] {
                 if let Some(k) = link.indep[v] {
                     for &l in &touched {
-                        if dense {
-                            dense_at[l * m0 + k] += nu * t * scratch[l];
-                        } else {
-                            at[l].push((k, nu * t * scratch[l]));
+                        match &mut system {
+                            System::Dense(a) => a[l * m0 + k] += nu * t * scratch[l],
+                            System::Band(rows) => rows[l].push((k, nu * t * scratch[l])),
                         }
                     }
                 }
@@ -244,26 +269,13 @@ impl Model {
                 mark[l] = false;
             }
         }
-        let z = if dense {
-            solve(dense_at, m0, u)
-        } else {
-            band_solve(at, u)?
-        }
-        .ok_or(Failure::Singular)?;
-        for (i, c) in out.iter_mut().enumerate() {
-            let mut acc = 0.0;
-            for &(v, nu) in &self.terms[i] {
-                if let Some(k) = link.indep[v] {
-                    acc += z[k] * nu;
-                }
-            }
-            *c -= self.times[i] * acc;
-        }
-        let sum: f64 = out.iter().sum();
-        if out.iter().all(|x| x.is_finite()) && (sum - 1.0).abs() < 1e-6 {
-            Ok(out)
-        } else {
-            Err(Failure::Singular)
-        }
+        (system, u)
     }
+}
+
+/// The reduced system of the matrix method: dense (row-major, m0 × m0) or
+/// rows of (column, value) pairs for the banded solver.
+enum System {
+    Dense(Vec<f64>),
+    Band(Vec<Vec<(usize, f64)>>),
 }

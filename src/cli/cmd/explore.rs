@@ -2,7 +2,7 @@
 
 use crate::cli::args::Common;
 use crate::cli::request::explorer_samples;
-use anyhow::{Result, anyhow};
+use anyhow::Result;
 use dgpath::analysis::Prepared;
 use dgpath::scenario::State;
 use dgpath::tui::{self, Source};
@@ -23,7 +23,6 @@ pub fn explore(
     };
     let app = tui::App::new(prep, state, source, opts)
         .and_then(|a| a.with_samples(samples))
-        .map(|a| a.with_draws(c.draws()))
-        .map_err(|e| anyhow!("{e}"))?;
-    tui::run(app).map_err(|e| anyhow!("{e}"))
+        .map(|a| a.with_draws(c.draws()))?;
+    Ok(tui::run(app)?)
 }

@@ -5,7 +5,7 @@ use super::report::summarise;
 use crate::cli::args::Common;
 use crate::cli::output::emit;
 use crate::cli::request::state_from;
-use anyhow::{Context, Result, anyhow, bail};
+use anyhow::{Context, Result, bail};
 use dgpath::analysis::batch::Summary;
 use dgpath::analysis::{self, Prepared};
 use std::path::Path;
@@ -25,7 +25,7 @@ pub fn run_plot(prep: &Prepared, common: &Common, output: &Path) -> Result<()> {
         ),
     };
     let state = state_from(prep, common)?;
-    let a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    let a = analysis::analyze(prep, &state)?;
     let sum = match &common.samples {
         Some(path) => Some(summarise(prep, &state, path)?),
         None => None,

@@ -4,7 +4,7 @@
 use crate::cli::args::{Common, Format, View};
 use crate::cli::output::{colour_ok, emit, is_broken_pipe};
 use crate::cli::request::state_from;
-use anyhow::{Context, Result, anyhow};
+use anyhow::{Context, Result};
 use dgpath::analysis::batch::{self, BatchError, Summary};
 use dgpath::analysis::{self, Prepared};
 use dgpath::model::samples::SampleReader;
@@ -16,7 +16,7 @@ use std::path::Path;
 /// Runs the report command on a prepared pathway.
 pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View) -> Result<()> {
     let state = state_from(prep, common)?;
-    let mut a = analysis::analyze(prep, &state).map_err(|e| anyhow!("{e}"))?;
+    let mut a = analysis::analyze(prep, &state)?;
     analysis::mca::add_ranges(&mut a, common.draws());
     for w in report::warnings::warnings(prep, &state) {
         eprintln!("warning: {w}");

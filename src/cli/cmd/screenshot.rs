@@ -28,10 +28,10 @@ pub fn screenshot(
     };
     let mut app = tui::App::new(prep, state, source, opts)
         .and_then(|a| a.with_samples(samples))
-        .map(|a| a.with_draws(c.draws()))
-        .map_err(|e| anyhow!("{e}"))?;
-    let (txt, svg) =
-        tui::export::screenshot(&mut app, keys, w, h).map_err(|e| anyhow!("--keys: {e}"))?;
+        .map(|a| a.with_draws(c.draws()))?;
+    let (txt, svg) = tui::export::screenshot(&mut app, keys, w, h)
+        .map_err(anyhow::Error::msg)
+        .context("--keys")?;
     let with = |ext: &str| {
         let mut p = output.as_os_str().to_owned();
         p.push(ext);

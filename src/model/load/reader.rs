@@ -243,15 +243,15 @@ impl Cx<'_> {
         what: &str,
     ) -> Option<f64> {
         let r = if let Some(s) = v.as_str() {
-            units::parse(s, kind)
+            units::parse(s, kind).map_err(|e| e.to_string())
         } else if let Some(x) = v.as_float().or_else(|| v.as_integer().map(|i| i as f64)) {
-            units::from_number(x, kind)
+            units::from_number(x, kind).map_err(|e| e.to_string())
         } else {
             Err(format!("expected a value such as {}", kind.example()))
         };
         match r.and_then(|x| {
             if x.is_finite() {
-                check::plausible(x, kind)
+                check::plausible(x, kind).map_err(|e| e.to_string())
             } else {
                 Ok(x)
             }

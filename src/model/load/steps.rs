@@ -68,29 +68,14 @@ impl Cx<'_> {
         }
     }
 
+    /// One `[[steps]]` table as written, its values checked but its ids not
+    /// yet resolved; None without an id.
     pub(super) fn raw_step(&mut self, item: &Item) -> Option<RawStep> {
         let span = item.at();
         let t = item.as_table_like()?;
         let line = self.line(&span);
-        let id = match self.string(t, "id", "step") {
-            Some(id) => id,
-            None => {
-                if t.get("id").is_none() {
-                    self.err(
-                        span.clone(),
-                        "a [[steps]] entry has no id; add id = \"s1\"".into(),
-                    );
-                }
-                return None;
-            }
-        };
+        let id = self.step_id(t, &span)?;
         let what = format!("step '{id}'");
-        if !reaction::valid_id(&id) {
-            self.err(
-                Self::value_span(t, "id"),
-                format!("step id '{id}' is not valid; {}", reaction::ID_RULE),
-            );
-        }
         self.known_keys(t, STEP, &what);
         let reaction = match self.string(t, "reaction", &what) {
             Some(r) => Some((r, Self::value_span(t, "reaction"))),
@@ -104,43 +89,7 @@ impl Cx<'_> {
                 None
             }
         };
-        let dg0 = if open(t, "dg0") {
-            self.err(Self::value_span(t, "dg0"), format!("{what}: dg0 is still \"?\" (left open by dgpath import); write the step's standard energy as it runs here, e.g. dg0 = \"-16.7 kJ/mol\""));
-            None
-        } else {
-            self.quantity(t, "dg0", Kind::Energy, &what)
-        };
-        let keq = self.number(t, "keq", &what);
-        let standard = match (t.get("dg0").is_some(), t.get("keq").is_some()) {
-            (true, true) => {
-                self.err(
-                    Self::key_span(t, "keq"),
-                    format!("{what} gives both dg0 and keq; keep exactly one of them"),
-                );
-                None
-            }
-            (false, false) => {
-                self.err(
-                    span.clone(),
-                    format!(
-                        "{what} has neither dg0 nor keq; add dg0 = \"-16.7 kJ/mol\" (or keq = 850)"
-                    ),
-                );
-                None
-            }
-            (true, false) => dg0.map(Standard::Dg0),
-            (false, true) => match keq {
-                Some(k) if k > 0.0 => Some(Standard::Keq(k)),
-                Some(_) => {
-                    self.err(
-                        Self::value_span(t, "keq"),
-                        format!("{what}: keq must be above zero; write e.g. keq = 850"),
-                    );
-                    None
-                }
-                None => None,
-            },
-        };
+        let standard = self.standard(t, &span, &what);
         let dg0_sd = self.quantity(t, "dg0_sd", Kind::Energy, &what);
         if let Some(sd) = dg0_sd
             && sd < 0.0
@@ -177,5 +126,67 @@ impl Cx<'_> {
             bypass_of: link(self, "bypass_of"),
             id,
         })
+    }
+
+    /// The step's id (a problem when it is missing or not a valid id).
+    fn step_id(&mut self, t: &Table, span: &Span) -> Option<String> {
+        let Some(id) = self.string(t, "id", "step") else {
+            if t.get("id").is_none() {
+                self.err(
+                    span.clone(),
+                    "a [[steps]] entry has no id; add id = \"s1\"".into(),
+                );
+            }
+            return None;
+        };
+        if !reaction::valid_id(&id) {
+            self.err(
+                Self::value_span(t, "id"),
+                format!("step id '{id}' is not valid; {}", reaction::ID_RULE),
+            );
+        }
+        Some(id)
+    }
+
+    /// The standard energy as given: exactly one of `dg0` and `keq`, `dg0`
+    /// not left open, `keq` above zero.
+    fn standard(&mut self, t: &Table, span: &Span, what: &str) -> Option<Standard> {
+        let dg0 = if open(t, "dg0") {
+            self.err(Self::value_span(t, "dg0"), format!("{what}: dg0 is still \"?\" (left open by dgpath import); write the step's standard energy as it runs here, e.g. dg0 = \"-16.7 kJ/mol\""));
+            None
+        } else {
+            self.quantity(t, "dg0", Kind::Energy, what)
+        };
+        let keq = self.number(t, "keq", what);
+        match (t.get("dg0").is_some(), t.get("keq").is_some()) {
+            (true, true) => {
+                self.err(
+                    Self::key_span(t, "keq"),
+                    format!("{what} gives both dg0 and keq; keep exactly one of them"),
+                );
+                None
+            }
+            (false, false) => {
+                self.err(
+                    span.clone(),
+                    format!(
+                        "{what} has neither dg0 nor keq; add dg0 = \"-16.7 kJ/mol\" (or keq = 850)"
+                    ),
+                );
+                None
+            }
+            (true, false) => dg0.map(Standard::Dg0),
+            (false, true) => match keq {
+                Some(k) if k > 0.0 => Some(Standard::Keq(k)),
+                Some(_) => {
+                    self.err(
+                        Self::value_span(t, "keq"),
+                        format!("{what}: keq must be above zero; write e.g. keq = 850"),
+                    );
+                    None
+                }
+                None => None,
+            },
+        }
     }
 }

@@ -134,150 +134,185 @@ fn mark_sd(cells: &mut [char], at: f64, sd: f64, lo: f64, hi: f64, g: &Glyphs, l
     }
 }
 
-/// The ladder's lines for an area `width` × `height` (header included).
-pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'static>> {
-    let g = if app.opts.ascii { &ASCII } else { &UNICODE };
-    let a = &app.analysis;
-    let p = app.pathway();
-    let u = app.opts.unit;
-    let n = a.steps.len();
-    if n == 0 || width < 20 || height < 2 {
-        return vec![Line::from("(no route steps)")];
-    }
-    let idw = a
-        .steps
-        .iter()
-        .map(|s| p.steps[s.step].id.chars().count())
-        .max()
-        .unwrap_or(3)
-        .clamp(3, 10);
-    let valw = 7;
-    // bracket + id + space, then two tracks each followed by its value.
-    let fixed = 1 + idw + 1 + (1 + valw) * 2 + 2;
-    // Two bar tracks when each gets at least 12 cells; else one track and
-    // the dG'° levels as numbers beside it.
-    let two = width.saturating_sub(fixed) / 2 >= 12;
-    let tw = if two {
-        width.saturating_sub(fixed) / 2
-    } else {
-        width.saturating_sub(fixed).max(4)
-    };
-    let std_w = if two { tw } else { 0 };
-    let mut lo: f64 = 0.0;
-    let mut hi: f64 = 0.0;
-    for s in &a.steps {
-        lo = lo.min(s.cumulative).min(s.cumulative_dg0);
-        hi = hi.max(s.cumulative).max(s.cumulative_dg0);
-    }
-    let walk_end = app.walk;
-    let header = Line::from(vec![
-        Span::styled(
-            format!(
-                "{:<w$}",
-                // The rungs are the running total; the left end is the highest.
-                {
-                    let long = format!(
-                        "cumulative dG' {}: {:.0} left, {:.0} right",
-                        u.label(),
-                        u.of(hi),
-                        u.of(lo)
-                    );
-                    if long.chars().count() <= 1 + idw + 1 + tw + 1 + valw {
-                        long
-                    } else {
-                        format!("cumul. dG': {:.0} left, {:.0} right", u.of(hi), u.of(lo))
-                    }
-                },
-                w = 1 + idw + 1 + tw + 1 + valw
-            ),
-            t.bold(),
-        ),
-        Span::raw("  "),
-        Span::styled(
-            fit(
-                match (two, app.opts.ascii) {
-                    (true, false) => "dG'° at the conditions",
-                    (true, true) => "dG'o at the conditions",
-                    (false, false) => "dG'°",
-                    (false, true) => "dG'o",
-                },
-                std_w + valw,
-                app.opts.ascii,
-            ),
-            t.dim(),
-        ),
-    ]);
-    let mut out = vec![header];
-    let rows = height - 1;
-    let sel = app.step_sel.min(n - 1);
-    let first = if n <= rows {
-        0
-    } else {
-        sel.saturating_sub(rows / 2).min(n - rows)
-    };
-    // On a tall pane, a connector row between rungs shows where the next drop starts.
-    let spaced = rows + 1 >= 2 * n;
-    for k in first..(first + rows).min(n) {
-        if spaced && k > first && walk_end.is_none_or(|w| k <= w) {
-            let prev = &a.steps[k - 1];
-            let join = |e: f64| -> String {
-                let c = col(e, lo, hi, tw);
-                (0..tw).map(|x| if x == c { g.join } else { ' ' }).collect()
-            };
-            let inside = a
-                .groups
-                .iter()
-                .any(|gr| gr.members.contains(&(k - 1)) && gr.members.contains(&k));
-            out.push(Line::from(vec![
-                Span::styled(if inside { g.mid } else { ' ' }.to_string(), t.dim()),
-                Span::raw(" ".repeat(1 + idw)),
-                Span::styled(join(prev.cumulative), t.dim()),
-                Span::raw(" ".repeat(valw + 2)),
-                Span::styled(
-                    if two {
-                        join(prev.cumulative_dg0)
-                    } else {
-                        String::new()
-                    },
-                    t.dim(),
-                ),
-            ]));
+/// Column widths and the energy scale shared by every line of the ladder.
+struct Ladder<'g> {
+    /// Glyphs, Unicode or ASCII.
+    g: &'g Glyphs,
+    /// Width of the step id column.
+    idw: usize,
+    /// Width of each value column.
+    valw: usize,
+    /// Width of each bar track.
+    tw: usize,
+    /// Two tracks (dG' and dG'°) side by side, else the dG'° levels as numbers only.
+    two: bool,
+    /// Lowest and highest running total (J/mol), the ends of the scale.
+    lo: f64,
+    hi: f64,
+}
+
+impl Ladder<'_> {
+    /// The widths and scale for an area `width` wide; None when there is
+    /// nothing to draw or no room.
+    fn new(app: &App, width: usize, height: usize) -> Option<Ladder<'static>> {
+        let g = if app.opts.ascii { &ASCII } else { &UNICODE };
+        let a = &app.analysis;
+        let p = app.pathway();
+        if a.steps.is_empty() || width < 20 || height < 2 {
+            return None;
         }
-        let s = &a.steps[k];
-        let id = &p.steps[s.step].id;
-        let bracket = a
+        let idw = a
+            .steps
+            .iter()
+            .map(|s| p.steps[s.step].id.chars().count())
+            .max()
+            .unwrap_or(3)
+            .clamp(3, 10);
+        let valw = 7;
+        // bracket + id + space, then two tracks each followed by its value.
+        let fixed = 1 + idw + 1 + (1 + valw) * 2 + 2;
+        // Two bar tracks when each gets at least 12 cells; else one track and
+        // the dG'° levels as numbers beside it.
+        let two = width.saturating_sub(fixed) / 2 >= 12;
+        let tw = if two {
+            width.saturating_sub(fixed) / 2
+        } else {
+            width.saturating_sub(fixed).max(4)
+        };
+        let mut lo: f64 = 0.0;
+        let mut hi: f64 = 0.0;
+        for s in &a.steps {
+            lo = lo.min(s.cumulative).min(s.cumulative_dg0);
+            hi = hi.max(s.cumulative).max(s.cumulative_dg0);
+        }
+        Some(Ladder {
+            g,
+            idw,
+            valw,
+            tw,
+            two,
+            lo,
+            hi,
+        })
+    }
+
+    /// The header: the running total's ends, then the standard ladder's title.
+    fn header(&self, app: &App, t: &Theme) -> Line<'static> {
+        let u = app.opts.unit;
+        let (idw, tw, valw) = (self.idw, self.tw, self.valw);
+        let std_w = if self.two { tw } else { 0 };
+        // The rungs are the running total; the left end is the highest.
+        let long = format!(
+            "cumulative dG' {}: {:.0} left, {:.0} right",
+            u.label(),
+            u.of(self.hi),
+            u.of(self.lo)
+        );
+        let total = if long.chars().count() <= 1 + idw + 1 + tw + 1 + valw {
+            long
+        } else {
+            format!(
+                "cumul. dG': {:.0} left, {:.0} right",
+                u.of(self.hi),
+                u.of(self.lo)
+            )
+        };
+        let standard = match (self.two, app.opts.ascii) {
+            (true, false) => "dG'° at the conditions",
+            (true, true) => "dG'o at the conditions",
+            (false, false) => "dG'°",
+            (false, true) => "dG'o",
+        };
+        Line::from(vec![
+            Span::styled(
+                format!("{total:<w$}", w = 1 + idw + 1 + tw + 1 + valw),
+                t.bold(),
+            ),
+            Span::raw("  "),
+            Span::styled(fit(standard, std_w + valw, app.opts.ascii), t.dim()),
+        ])
+    }
+
+    /// The connector row above rung `k`: where the previous drop ended, on
+    /// both tracks, with the group bracket carried through.
+    fn connector(&self, app: &App, k: usize, t: &Theme) -> Line<'static> {
+        let a = &app.analysis;
+        let prev = &a.steps[k - 1];
+        let join = |e: f64| -> String {
+            let c = col(e, self.lo, self.hi, self.tw);
+            (0..self.tw)
+                .map(|x| if x == c { self.g.join } else { ' ' })
+                .collect()
+        };
+        let inside = a
+            .groups
+            .iter()
+            .any(|gr| gr.members.contains(&(k - 1)) && gr.members.contains(&k));
+        Line::from(vec![
+            Span::styled(if inside { self.g.mid } else { ' ' }.to_string(), t.dim()),
+            Span::raw(" ".repeat(1 + self.idw)),
+            Span::styled(join(prev.cumulative), t.dim()),
+            Span::raw(" ".repeat(self.valw + 2)),
+            Span::styled(
+                if self.two {
+                    join(prev.cumulative_dg0)
+                } else {
+                    String::new()
+                },
+                t.dim(),
+            ),
+        ])
+    }
+
+    /// The group bracket beside rung `k` (blank outside coupled groups).
+    fn bracket(&self, app: &App, k: usize) -> char {
+        app.analysis
             .groups
             .iter()
             .find_map(|gr| {
                 let pos = gr.members.iter().position(|&m| m == k)?;
                 Some(if pos == 0 {
-                    g.open
+                    self.g.open
                 } else if pos + 1 == gr.members.len() {
-                    g.close
+                    self.g.close
                 } else {
-                    g.mid
+                    self.g.mid
                 })
             })
-            .unwrap_or(' ');
-        let selected = k == app.step_sel;
-        let mut id_style = if selected {
+            .unwrap_or(' ')
+    }
+
+    /// Rung `k`: bracket and id, then (unless the walk has not reached it)
+    /// the bar to scale with its sd, the running total, and the standard ladder.
+    fn rung(&self, app: &App, k: usize, t: &Theme) -> Line<'static> {
+        let a = &app.analysis;
+        let s = &a.steps[k];
+        let id = &app.pathway().steps[s.step].id;
+        let hidden = app.walk.is_some_and(|w| k > w);
+        let id_style = if hidden {
+            t.dim()
+        } else if k == app.step_sel {
             t.selected()
         } else {
             Style::default()
         };
-        let hidden = walk_end.is_some_and(|w| k > w);
-        if hidden {
-            id_style = t.dim();
-        }
+        let idw = self.idw;
         let mut spans = vec![
-            Span::styled(bracket.to_string(), t.dim()),
+            Span::styled(self.bracket(app, k).to_string(), t.dim()),
             Span::styled(format!("{:<idw$}", fit(id, idw, app.opts.ascii)), id_style),
             Span::raw(" "),
         ];
-        if hidden {
-            out.push(Line::from(spans));
-            continue;
+        if !hidden {
+            self.push_levels(app, k, t, &mut spans);
         }
+        Line::from(spans)
+    }
+
+    /// The drawn part of rung `k`: the bar, the running total and the
+    /// standard ladder's bar and level.
+    fn push_levels(&self, app: &App, k: usize, t: &Theme, spans: &mut Vec<Span<'static>>) {
+        let (a, g, u, valw) = (&app.analysis, self.g, app.opts.unit, self.valw);
+        let s = &a.steps[k];
         let (from, from0) = if k == 0 {
             (0.0, 0.0)
         } else {
@@ -295,28 +330,11 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
         if largest {
             bar_style = bar_style.add_modifier(Modifier::BOLD);
         }
-        let drawn = track(from, s.cumulative, lo, hi, tw, bar, g.rung);
+        let drawn = track(from, s.cumulative, self.lo, self.hi, self.tw, bar, g.rung);
         match s.dg_sd.filter(|sd| *sd > 0.0) {
             Some(sd) => {
-                let mut cells: Vec<char> = drawn.chars().collect();
                 let label = format!("{}{:.1}", g.pm, u.of(sd));
-                mark_sd(&mut cells, s.cumulative, sd, lo, hi, g, &label);
-                // Split so the bar keeps its class colour and the sd reads as a note.
-                let plain: Vec<char> = drawn.chars().collect();
-                let mut cur = String::new();
-                let mut cur_sd = false;
-                for (x, ch) in cells.iter().enumerate() {
-                    let is_sd = plain[x] != *ch;
-                    if is_sd != cur_sd && !cur.is_empty() {
-                        let st = if cur_sd { t.bold() } else { bar_style };
-                        spans.push(Span::styled(std::mem::take(&mut cur), st));
-                    }
-                    cur_sd = is_sd;
-                    cur.push(*ch);
-                }
-                if !cur.is_empty() {
-                    spans.push(Span::styled(cur, if cur_sd { t.bold() } else { bar_style }));
-                }
+                spans.extend(self.sd_spans(&drawn, s.cumulative, sd, &label, bar_style, t));
             }
             None => spans.push(Span::styled(drawn, bar_style)),
         }
@@ -326,9 +344,17 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
             if largest { t.bold() } else { Style::default() },
         ));
         spans.push(Span::styled(format!("{mark} "), t.bold()));
-        if two {
+        if self.two {
             spans.push(Span::styled(
-                track(from0, s.cumulative_dg0, lo, hi, tw, g.std_bar, g.rung0),
+                track(
+                    from0,
+                    s.cumulative_dg0,
+                    self.lo,
+                    self.hi,
+                    self.tw,
+                    g.std_bar,
+                    g.rung0,
+                ),
                 t.dim(),
             ));
         }
@@ -336,7 +362,62 @@ pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'sta
             format!("{:>valw$.1}", tenth(u.of(s.cumulative_dg0))),
             t.dim(),
         ));
-        out.push(Line::from(spans));
+    }
+
+    /// The bar `drawn` with the sd around `at` marked on it, split into
+    /// spans so the bar keeps its class colour and the sd reads as a note.
+    fn sd_spans(
+        &self,
+        drawn: &str,
+        at: f64,
+        sd: f64,
+        label: &str,
+        bar_style: Style,
+        t: &Theme,
+    ) -> Vec<Span<'static>> {
+        let mut spans = Vec::new();
+        let mut cells: Vec<char> = drawn.chars().collect();
+        mark_sd(&mut cells, at, sd, self.lo, self.hi, self.g, label);
+        let plain: Vec<char> = drawn.chars().collect();
+        let mut cur = String::new();
+        let mut cur_sd = false;
+        for (x, ch) in cells.iter().enumerate() {
+            let is_sd = plain[x] != *ch;
+            if is_sd != cur_sd && !cur.is_empty() {
+                let st = if cur_sd { t.bold() } else { bar_style };
+                spans.push(Span::styled(std::mem::take(&mut cur), st));
+            }
+            cur_sd = is_sd;
+            cur.push(*ch);
+        }
+        if !cur.is_empty() {
+            spans.push(Span::styled(cur, if cur_sd { t.bold() } else { bar_style }));
+        }
+        spans
+    }
+}
+
+/// The ladder's lines for an area `width` × `height` (header included).
+pub fn lines(app: &App, width: usize, height: usize, t: &Theme) -> Vec<Line<'static>> {
+    let Some(f) = Ladder::new(app, width, height) else {
+        return vec![Line::from("(no route steps)")];
+    };
+    let n = app.analysis.steps.len();
+    let mut out = vec![f.header(app, t)];
+    let rows = height - 1;
+    let sel = app.step_sel.min(n - 1);
+    let first = if n <= rows {
+        0
+    } else {
+        sel.saturating_sub(rows / 2).min(n - rows)
+    };
+    // On a tall pane, a connector row between rungs shows where the next drop starts.
+    let spaced = rows + 1 >= 2 * n;
+    for k in first..(first + rows).min(n) {
+        if spaced && k > first && app.walk.is_none_or(|w| k <= w) {
+            out.push(f.connector(app, k, t));
+        }
+        out.push(f.rung(app, k, t));
     }
     out
 }

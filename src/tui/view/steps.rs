@@ -4,7 +4,7 @@
 use super::text::fit;
 use super::text::{class_text, num3, pad, rpad, tenth, window};
 use super::theme::{MARKER_COLUMN, Theme, against_mark, block_with, bottleneck_mark};
-use crate::model::units;
+use crate::model::{Pathway, Step, units};
 use crate::present;
 use crate::tui::app::LiveMdf;
 use crate::tui::app::{App, Pane};
@@ -197,6 +197,41 @@ fn row_look(app: &App, t: &Theme, k: usize) -> (Style, &'static str) {
     (style, lead)
 }
 
+/// The marker column: the bottleneck flag, then the backward-running flag.
+fn marker_text(bottleneck: bool, against: bool, ascii: bool) -> String {
+    match (bottleneck, against) {
+        (true, true) => format!("{}{}", bottleneck_mark(ascii), against_mark(ascii)),
+        (true, false) => bottleneck_mark(ascii).to_string(),
+        (false, true) => against_mark(ascii).to_string(),
+        (false, false) => String::new(),
+    }
+}
+
+/// The enzyme column: the name, with "(side)" for a side step or the step a
+/// bypass stands in for.
+fn enzyme_text(p: &Pathway, st: &Step, side: bool, replaces: Option<usize>) -> String {
+    match (side, replaces) {
+        (true, _) => format!("{} (side)", st.enzyme.as_deref().unwrap_or("")),
+        (_, Some(f)) => format!(
+            "{} (for {})",
+            st.enzyme.as_deref().unwrap_or(""),
+            p.steps[f].id
+        ),
+        _ => st.enzyme.clone().unwrap_or_default(),
+    }
+}
+
+/// The control column `ctw` wide: the coefficient as a number (5), a bar
+/// (2) or nothing; "-" for a route step without one when there is room.
+fn control_text(side: bool, coefficient: Option<f64>, ctw: usize, ascii: bool) -> String {
+    match (side, coefficient) {
+        (false, Some(c)) if ctw == 5 => format!("{c:.2}"),
+        (false, Some(c)) if ctw == 2 => control_bar(c, ascii).to_string(),
+        (false, None) if ctw == 5 => "-".into(),
+        _ => String::new(),
+    }
+}
+
 /// One row of the step list.
 fn row(app: &App, t: &Theme, k: usize, cols: &Cols) -> Option<Line<'static>> {
     let Cols {
@@ -217,27 +252,14 @@ fn row(app: &App, t: &Theme, k: usize, cols: &Cols) -> Option<Line<'static>> {
     let (row_style, lead) = row_look(app, t, k);
     let mut spans = vec![Span::styled(lead, row_style)];
     spans.push(Span::styled(pad(&st.id, idw, ascii), row_style));
-    let marker = match (!side && app.is_bottleneck(k), s.against) {
-        (true, true) => format!("{}{}", bottleneck_mark(ascii), against_mark(ascii)),
-        (true, false) => bottleneck_mark(ascii).to_string(),
-        (false, true) => against_mark(ascii).to_string(),
-        (false, false) => String::new(),
-    };
+    let marker = marker_text(!side && app.is_bottleneck(k), s.against, ascii);
     spans.push(Span::styled(" ", row_style));
     spans.push(Span::styled(
         format!("{marker:MARKER_COLUMN$}"),
         row_style.patch(t.warn()),
     ));
     if cols.show_enz {
-        let enz = match (side, s.replaces) {
-            (true, _) => format!("{} (side)", st.enzyme.as_deref().unwrap_or("")),
-            (_, Some(f)) => format!(
-                "{} (for {})",
-                st.enzyme.as_deref().unwrap_or(""),
-                p.steps[f].id
-            ),
-            _ => st.enzyme.clone().unwrap_or_default(),
-        };
+        let enz = enzyme_text(p, st, side, s.replaces);
         spans.push(Span::styled(pad(&enz, enzw, ascii) + " ", row_style));
     }
     if cols.extra {
@@ -278,12 +300,7 @@ fn row(app: &App, t: &Theme, k: usize, cols: &Cols) -> Option<Line<'static>> {
         format!("{}{mark}", rpad(&share, shw - 1, ascii)),
         row_style,
     ));
-    let ctrl = match (side, a.control_estimate.coefficient(k)) {
-        (false, Some(c)) if ctw == 5 => format!("{c:.2}"),
-        (false, Some(c)) if ctw == 2 => control_bar(c, ascii).to_string(),
-        (false, None) if ctw == 5 => "-".into(),
-        _ => String::new(),
-    };
+    let ctrl = control_text(side, a.control_estimate.coefficient(k), ctw, ascii);
     spans.push(Span::styled(format!("{ctrl:>ctw$}"), row_style));
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
         let full = present::verdict_symbol(v.kind, ascii);
