@@ -295,3 +295,71 @@ fn mistakes_in_the_table_name_row_and_column() {
         stderr(&o)
     );
 }
+
+#[test]
+fn mdf_per_sample_streams_rows_in_table_order_and_refuses_a_bad_table_before_any_output() {
+    let dir = tempfile::tempdir().unwrap();
+    let demo = std::fs::read_to_string(root().join(DEMO)).unwrap();
+    let mut lines: Vec<String> = demo.lines().map(String::from).collect();
+    let header = lines.remove(0);
+    // More rows than one parallel chunk (512), so order across chunks counts.
+    let mut text = format!("{header}\n");
+    for i in 0..1100 {
+        let row = &lines[i % lines.len()];
+        let (_, values) = row.split_once(',').unwrap();
+        text.push_str(&format!("r{i:04},{values}\n"));
+    }
+    let good = dir.path().join("many.csv");
+    std::fs::write(&good, &text).unwrap();
+    let out = dgpath(&[
+        "mdf",
+        "pathways/fermenter.toml",
+        "--samples",
+        good.to_str().unwrap(),
+        "--format",
+        "csv",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let names: Vec<&str> = csv
+        .lines()
+        .skip(1)
+        .map(|l| l.split(',').next().unwrap())
+        .collect();
+    let want: Vec<String> = (0..1100).map(|i| format!("r{i:04}")).collect();
+    assert_eq!(names, want);
+    // Rows with the same values (the table repeats its time course) get
+    // the same optimum, whichever chunk and worker solved them.
+    let per_name: std::collections::HashMap<&str, &str> = csv
+        .lines()
+        .skip(1)
+        .map(|l| l.split_once(',').unwrap())
+        .collect();
+    let n = lines.len();
+    let last = (1099 / n) * n;
+    assert!(last >= 512, "the repeat lies in a later chunk");
+    assert_eq!(per_name["r0000"], per_name[format!("r{last:04}").as_str()]);
+    // A bad cell far down: an error naming it, and nothing on stdout.
+    let bad = dir.path().join("bad.csv");
+    std::fs::write(&bad, text.replacen("r1099,", "r1099,x", 1)).unwrap();
+    let out = dgpath(&[
+        "mdf",
+        "pathways/fermenter.toml",
+        "--samples",
+        bad.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(
+        out.stdout.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&out.stdout)
+    );
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.csv"), "{err}");
+}

@@ -6,7 +6,7 @@
 use super::json::{ConditionsJson, Ordered, num};
 use super::table::TextOptions;
 use crate::analysis::mdf::{Bound, Mdf, Part};
-use crate::analysis::{Direction, Prepared, Route};
+use crate::analysis::{Direction, Prepared};
 use crate::model::units;
 use crate::present::{Align, EnergyUnit, aligned_lines, clean, energy3, fig3, headline};
 use crate::scenario::State;
@@ -380,112 +380,4 @@ fn compound_rows(prep: &Prepared, m: &Mdf, ascii: bool) -> Vec<Vec<String>> {
         ]);
     }
     rows
-}
-
-/// The ids of an optimum's bottleneck steps, in route order.
-fn bottleneck_ids(prep: &Prepared, route: &Route, m: &Mdf) -> Vec<String> {
-    m.bottlenecks
-        .iter()
-        .map(|&k| prep.pathway.steps[route.steps[k].step].id.clone())
-        .collect()
-}
-
-/// One sample's optimum.
-#[derive(Debug, Serialize)]
-pub struct SampleMdfJson {
-    /// Sample name.
-    pub sample: String,
-    /// Its MDF.
-    pub mdf: Option<f64>,
-    /// Its bottleneck steps.
-    pub bottlenecks: Vec<String>,
-}
-
-/// `mdf --samples --format json`.
-#[derive(Debug, Serialize)]
-pub struct SamplesMdfJson {
-    /// Pathway name.
-    pub pathway: String,
-    /// forward or reverse.
-    pub direction: &'static str,
-    /// kJ/mol or kcal/mol.
-    pub energy_unit: &'static str,
-    /// One optimum per sample.
-    pub samples: Vec<SampleMdfJson>,
-}
-
-/// `mdf --samples --format json`: one optimum (MDF and bottlenecks) per sample.
-pub fn samples_json(
-    prep: &Prepared,
-    route: &Route,
-    rows: &[(String, Mdf)],
-    u: EnergyUnit,
-) -> SamplesMdfJson {
-    SamplesMdfJson {
-        pathway: prep.pathway.name.clone(),
-        direction: route.direction.as_str(),
-        energy_unit: u.label(),
-        samples: rows
-            .iter()
-            .map(|(name, m)| SampleMdfJson {
-                sample: name.clone(),
-                mdf: num(u.of(m.value)),
-                bottlenecks: bottleneck_ids(prep, route, m),
-            })
-            .collect(),
-    }
-}
-
-/// `mdf --samples --format csv`: one row per sample (MDF, bottlenecks joined by spaces).
-pub fn samples_csv(
-    prep: &Prepared,
-    route: &Route,
-    rows: &[(String, Mdf)],
-    u: EnergyUnit,
-) -> String {
-    let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record([
-        "sample".to_string(),
-        format!("mdf [{}]", u.label()),
-        "bottlenecks".into(),
-    ]);
-    for (name, m) in rows {
-        let _ = w.write_record([
-            name.clone(),
-            crate::present::full(clean(u.of(m.value))),
-            bottleneck_ids(prep, route, m).join(" "),
-        ]);
-    }
-    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
-}
-
-/// `mdf --samples`: one line per sample with its MDF and bottlenecks.
-pub fn samples_table(
-    prep: &Prepared,
-    route: &Route,
-    rows: &[(String, Mdf)],
-    u: EnergyUnit,
-) -> String {
-    let w = rows
-        .iter()
-        .map(|r| r.0.chars().count())
-        .max()
-        .unwrap_or(6)
-        .max(6);
-    let mut s = format!(
-        "{} — max-min driving force per sample ({} route)\n\n{:<w$}  {:>12}  bottlenecks\n",
-        prep.pathway.name,
-        route.direction.as_str(),
-        "sample",
-        format!("MDF [{}]", u.label()),
-    );
-    for (name, m) in rows {
-        s.push_str(&format!(
-            "{name:<w$}  {:>12.2}  {}\n",
-            clean(u.of(m.value)),
-            bottleneck_ids(prep, route, m).join(", ")
-        ));
-    }
-    s.push_str("\nOnly held compounds (carriers, unless freed, and those marked fixed) and the conditions differ between samples in this optimisation; the others are chosen within their bounds.\n");
-    s
 }

@@ -12,6 +12,7 @@ pub mod json;
 pub mod markdown;
 pub mod mdf;
 pub mod mdf_flat;
+pub mod mdf_samples;
 pub mod samples;
 pub mod table;
 pub mod warnings;

@@ -25,6 +25,9 @@ pub fn warnings(prep: &Prepared, state: &State) -> Result<Vec<String>, MdfError>
     Ok(setup(prep, state, &Options::default())?.warnings)
 }
 
+/// Most distinct optima a `Batch` keeps.
+pub const BATCH_KEPT: usize = 1024;
+
 /// Solves many scenarios of one pathway (the samples of a table) without
 /// ranges, solving each distinct programme once: between samples usually
 /// only the free compounds' concentrations change, and they do not enter the
@@ -63,6 +66,13 @@ impl Batch {
         if !self.solved.contains_key(&key) {
             let found = optimum(lp, &prep.pathway.file)?;
             self.solves += 1;
+            // Bounded, so that a long table of all-different samples keeps
+            // memory flat: the optima kept are forgotten all at once when
+            // full (tables usually repeat a few held values, which come back
+            // at the cost of one solve each).
+            if self.solved.len() >= BATCH_KEPT {
+                self.solved.clear();
+            }
             self.solved.insert(key.clone(), found);
         }
         let (b, x, z) = &self.solved[&key];

@@ -455,3 +455,31 @@ fn a_batch_solves_each_distinct_programme_once_and_matches_solve() {
         "one programme for the free edits, one for the held"
     );
 }
+
+#[test]
+fn a_batch_keeps_at_most_batch_kept_optima_and_still_matches_solve() {
+    let prep = prepared(crate::DEMO);
+    let base = State::from_pathway(&prep.pathway);
+    let atp = prep.pathway.compound("atp").expect("atp");
+    let mut batch = Batch::default();
+    let opts = Options::default();
+    let held = |k: usize| {
+        let mut s = base.clone();
+        s.conc[atp] *= 1.0 + k as f64 * 1e-4;
+        s
+    };
+    // One more distinct held value than are kept: the store empties once.
+    for k in 0..=BATCH_KEPT {
+        batch.solve(&prep, &held(k), &opts).expect("solves");
+    }
+    assert_eq!(batch.solves, BATCH_KEPT + 1);
+    assert_eq!(
+        batch.solved.len(),
+        1,
+        "emptied when full, then the last kept"
+    );
+    // The first value was forgotten: solved again, to the same optimum.
+    let again = batch.solve(&prep, &held(0), &opts).expect("solves");
+    assert_eq!(batch.solves, BATCH_KEPT + 2);
+    assert_eq!(again, solve(&prep, &held(0)).expect("solves"));
+}

@@ -2,17 +2,25 @@
 //! `--samples TABLE`, one optimisation per sample.
 
 use crate::cli::args::{Common, Format};
-use crate::cli::output::{colour_ok, emit};
+use crate::cli::cmd::report::check_table;
+use crate::cli::output::{colour_ok, emit, is_broken_pipe};
 use crate::cli::request::state_from;
-use anyhow::{Result, anyhow};
+use anyhow::{Context, Result};
 use dgpath::analysis::{self, Prepared};
 use dgpath::model::samples::SampleReader;
+use dgpath::report::mdf_samples::{Layout, Writer};
 use dgpath::report::{self, TextOptions};
+use rayon::prelude::*;
+use std::io::Write;
+
+/// Samples read and solved together before their rows are written.
+const CHUNK: usize = 512;
 use dgpath::scenario::State;
 use std::path::Path;
 
 /// `mdf FILE --samples TABLE`: one optimisation per sample (only held
-/// compounds and the conditions change between samples), without ranges.
+/// compounds and the conditions change between samples), without ranges,
+/// each written as it is solved (the aligned table at the end).
 fn run_mdf_samples(
     prep: &Prepared,
     common: &Common,
@@ -26,33 +34,60 @@ fn run_mdf_samples(
     };
     let base = state_from(prep, common)?;
     let p = &prep.pathway;
-    let u = common.unit();
-    let route = prep.route(base.direction).map_err(|e| anyhow!("{e}"))?;
-    let mut rows: Vec<(String, analysis::mdf::Mdf)> = Vec::new();
-    // Samples that differ only in free compounds share one programme.
-    let mut batch = analysis::mdf::Batch::default();
-    for sample in SampleReader::open(path, p, &base.conc)? {
-        let sample = sample?;
-        let state = State {
-            conc: sample.conc,
-            ..base.clone()
-        };
-        let m = batch
-            .solve(prep, &state, &opts)
-            .map_err(|e| anyhow!("sample '{}': {e}", sample.name))?;
-        rows.push((sample.name, m));
-    }
-    let text = match format {
-        Format::Json => {
-            let doc = report::mdf::samples_json(prep, route, &rows, u);
-            let mut s = serde_json::to_string_pretty(&doc)?;
-            s.push('\n');
-            s
-        }
-        Format::Csv => report::mdf::samples_csv(prep, route, &rows, u),
-        Format::Table | Format::Md => report::mdf::samples_table(prep, route, &rows, u),
+    let route = prep.route(base.direction).map_err(Clone::clone)?;
+    let layout = match format {
+        Format::Json => Layout::Json,
+        Format::Csv => Layout::Csv,
+        Format::Table | Format::Md => Layout::Table,
     };
-    emit(&text)
+    let mut writer = Writer::new(prep, route, common.unit(), layout);
+    // The whole table is read once before anything is written, so its
+    // mistakes come before any output (as in `report --samples`).
+    check_table(prep, &base, path)?;
+    let rows = SampleReader::open(path, p, &base.conc)?;
+    let mut out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+    let mut put = |text: &str| -> Result<bool> {
+        match out.write_all(text.as_bytes()) {
+            Ok(()) => Ok(true),
+            Err(e) if is_broken_pipe(&e) => Ok(false),
+            Err(e) => Err(e).context("writing to stdout"),
+        }
+    };
+    if !put(&writer.head())? {
+        return Ok(());
+    }
+    // Solved in parallel a chunk at a time and written in table order. In
+    // each worker, samples that differ only in free compounds share one
+    // programme.
+    let mut chunk = Vec::with_capacity(CHUNK);
+    let mut rows = rows.peekable();
+    while rows.peek().is_some() {
+        chunk.clear();
+        for sample in rows.by_ref().take(CHUNK) {
+            chunk.push(sample?);
+        }
+        let solved: Vec<_> = chunk
+            .par_iter()
+            .map_init(analysis::mdf::Batch::default, |batch, sample| {
+                let state = State {
+                    conc: sample.conc.clone(),
+                    ..base.clone()
+                };
+                batch.solve(prep, &state, &opts)
+            })
+            .collect();
+        for (sample, m) in chunk.iter().zip(solved) {
+            let m = m.with_context(|| format!("sample '{}'", sample.name))?;
+            if !put(&writer.row(&sample.name, &m))? {
+                return Ok(());
+            }
+        }
+    }
+    put(&writer.tail())?;
+    match out.flush() {
+        Err(e) if is_broken_pipe(&e) => Ok(()),
+        r => r.context("writing to stdout"),
+    }
 }
 
 /// Runs the driving-force optimisation (with concentration ranges) and prints it.
@@ -70,7 +105,7 @@ pub fn run_mdf(
         free_currencies,
         ranges: true,
     };
-    let m = analysis::mdf::solve_with(prep, &state, &opts).map_err(|e| anyhow!("{e}"))?;
+    let m = analysis::mdf::solve_with(prep, &state, &opts)?;
     for w in report::warnings::file_warnings(prep)
         .iter()
         .chain(&m.warnings)

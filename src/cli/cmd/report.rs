@@ -50,7 +50,7 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View)
 }
 
 /// Reads the whole table once without analysing, so mistakes are reported before any output.
-fn check_table(prep: &Prepared, state: &State, path: &Path) -> Result<()> {
+pub(crate) fn check_table(prep: &Prepared, state: &State, path: &Path) -> Result<()> {
     for r in SampleReader::open(path, &prep.pathway, &state.conc)? {
         r?;
     }
