@@ -21,20 +21,9 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
         if s.class != Class::Far {
             continue;
         }
-        let st = &p.steps[s.step];
         let dg = s.dg;
         let mut reasons = Vec::new();
-        let products: Vec<usize> = st
-            .stoich
-            .iter()
-            .filter(|&&(c, nu)| nu * s.sign > 0.0 && a.roles[c] != Role::Currency)
-            .map(|&(c, _)| c)
-            .collect();
-        let branching: Vec<&str> = products
-            .iter()
-            .filter(|&&c| a.branch[c])
-            .map(|&c| p.compounds[c].id.as_str())
-            .collect();
+        let branching = branching_products(p, a, k);
         let kind = if k + 1 == n {
             reasons.push(Reason::LastStep { dg });
             VerdictKind::NotHere
@@ -57,17 +46,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             });
             // Branch points between the prime step and this one (the range only
             // grows from one candidate to the next, so it is scanned once).
-            for m in scanned.max(pk)..k {
-                let sm = &a.steps[m];
-                for &(c, nu) in &p.steps[sm.step].stoich {
-                    if nu * sm.sign > 0.0
-                        && a.branch[c]
-                        && !between.contains(&p.compounds[c].id.as_str())
-                    {
-                        between.push(&p.compounds[c].id);
-                    }
-                }
-            }
+            add_branch_points(p, a, scanned.max(pk)..k, &mut between);
             scanned = k;
             if !between.is_empty() {
                 reasons.push(Reason::BranchBetween {
@@ -77,27 +56,7 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
             }
             VerdictKind::Candidate
         };
-        if !s.class_sure {
-            let other = if s.class_range.0 != Class::Far {
-                s.class_range.0
-            } else {
-                s.class_range.1
-            };
-            reasons.push(Reason::Unsure {
-                half_width: s.dg_sd.unwrap_or(0.0) * super::result::Z95,
-                other,
-            });
-        }
-        if let Some(g) = a.groups.iter().find(|g| g.members.contains(&k)) {
-            reasons.push(Reason::Coupled {
-                steps: g
-                    .members
-                    .iter()
-                    .map(|&m| p.steps[a.steps[m].step].id.clone())
-                    .collect(),
-                group_dg: g.dg,
-            });
-        }
+        reasons.extend(caveats(p, a, k));
         out.push(Verdict {
             position: k,
             kind,
@@ -105,4 +64,65 @@ pub fn verdicts(p: &Pathway, a: &Analysis) -> Vec<Verdict> {
         });
     }
     out
+}
+
+/// Ids of the branch points among the products of route step `k` as it
+/// runs (carriers left out).
+fn branching_products<'p>(p: &'p Pathway, a: &Analysis, k: usize) -> Vec<&'p str> {
+    let s = &a.steps[k];
+    p.steps[s.step]
+        .stoich
+        .iter()
+        .filter(|&&(c, nu)| nu * s.sign > 0.0 && a.roles[c] != Role::Currency)
+        .map(|&(c, _)| c)
+        .filter(|&c| a.branch[c])
+        .map(|c| p.compounds[c].id.as_str())
+        .collect()
+}
+
+/// Adds to `between` (once each) the branch points that the route steps at
+/// `positions` make.
+fn add_branch_points<'p>(
+    p: &'p Pathway,
+    a: &Analysis,
+    positions: std::ops::Range<usize>,
+    between: &mut Vec<&'p str>,
+) {
+    for m in positions {
+        let sm = &a.steps[m];
+        for &(c, nu) in &p.steps[sm.step].stoich {
+            if nu * sm.sign > 0.0 && a.branch[c] && !between.contains(&p.compounds[c].id.as_str()) {
+                between.push(&p.compounds[c].id);
+            }
+        }
+    }
+}
+
+/// Reasons that qualify any verdict on step `k`: its class is unsure, or it
+/// belongs to a coupled group.
+fn caveats(p: &Pathway, a: &Analysis, k: usize) -> Vec<Reason> {
+    let s = &a.steps[k];
+    let mut reasons = Vec::new();
+    if !s.class_sure {
+        let other = if s.class_range.0 != Class::Far {
+            s.class_range.0
+        } else {
+            s.class_range.1
+        };
+        reasons.push(Reason::Unsure {
+            half_width: s.dg_sd.unwrap_or(0.0) * super::result::Z95,
+            other,
+        });
+    }
+    if let Some(g) = a.groups.iter().find(|g| g.members.contains(&k)) {
+        reasons.push(Reason::Coupled {
+            steps: g
+                .members
+                .iter()
+                .map(|&m| p.steps[a.steps[m].step].id.clone())
+                .collect(),
+            group_dg: g.dg,
+        });
+    }
+    reasons
 }

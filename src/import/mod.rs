@@ -151,57 +151,8 @@ pub fn resolve_route(model: &Model, file: &str, ids: &[String]) -> Result<Vec<us
 pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, ImportError> {
     let route = resolve_route(model, file, &opts.route)?;
     let kinds: Vec<Kind> = model.species.iter().map(classify).collect();
-    for &r in &route {
-        let rx = &model.reactions[r];
-        let side = |sign: f64| {
-            rx.stoich
-                .iter()
-                .any(|&(s, v)| v * sign > 0.0 && kinds[s] != Kind::Proton)
-        };
-        if !side(1.0) || !side(-1.0) {
-            return Err(ImportError::new(
-                file,
-                None,
-                format!(
-                    "route step '{}' ({}) has nothing on one side once H+ is left out (an exchange, sink or demand reaction, or a proton transport); start and end the route at reactions that convert compounds",
-                    rx.id,
-                    model.equation(rx)
-                ),
-            ));
-        }
-    }
-    let find_step = |id: &String| -> Result<usize, ImportError> {
-        match model.reaction_by_id(id) {
-            Some(r) if route.contains(&r) => Ok(r),
-            _ => Err(ImportError::new(
-                file,
-                None,
-                format!(
-                    "--flip/--keep names '{id}', which is not on the route; name route steps only"
-                ),
-            )),
-        }
-    };
-    let flip = opts
-        .flip
-        .iter()
-        .map(find_step)
-        .collect::<Result<Vec<_>, _>>()?;
-    let keep = opts
-        .keep
-        .iter()
-        .map(find_step)
-        .collect::<Result<Vec<_>, _>>()?;
-    if let Some(r) = flip.iter().find(|r| keep.contains(r)) {
-        return Err(ImportError::new(
-            file,
-            None,
-            format!(
-                "'{}' is given to both --flip and --keep; choose one",
-                model.reactions[*r].id
-            ),
-        ));
-    }
+    check_two_sided(model, file, &route, &kinds)?;
+    let (flip, keep) = flip_and_keep(model, file, &route, opts)?;
     let flipped = orient::orient(model, file, &route, &kinds, &flip, &keep)?;
     let net = network::analyse(model, &route, &flipped, &kinds, opts.branches_from);
     if let Some(t) = &opts.dg0 {
@@ -235,6 +186,78 @@ pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, Imp
         temperature: &temperature,
         ph,
     }))
+}
+
+/// Refuses a route step with nothing on one side once H+ is left out.
+fn check_two_sided(
+    model: &Model,
+    file: &str,
+    route: &[usize],
+    kinds: &[Kind],
+) -> Result<(), ImportError> {
+    for &r in route {
+        let rx = &model.reactions[r];
+        let side = |sign: f64| {
+            rx.stoich
+                .iter()
+                .any(|&(s, v)| v * sign > 0.0 && kinds[s] != Kind::Proton)
+        };
+        if !side(1.0) || !side(-1.0) {
+            return Err(ImportError::new(
+                file,
+                None,
+                format!(
+                    "route step '{}' ({}) has nothing on one side once H+ is left out (an exchange, sink or demand reaction, or a proton transport); start and end the route at reactions that convert compounds",
+                    rx.id,
+                    model.equation(rx)
+                ),
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// The route steps of `--flip` and `--keep` (reaction indices); each must be
+/// on the route and in only one of the two.
+fn flip_and_keep(
+    model: &Model,
+    file: &str,
+    route: &[usize],
+    opts: &Options,
+) -> Result<(Vec<usize>, Vec<usize>), ImportError> {
+    let find_step = |id: &String| -> Result<usize, ImportError> {
+        match model.reaction_by_id(id) {
+            Some(r) if route.contains(&r) => Ok(r),
+            _ => Err(ImportError::new(
+                file,
+                None,
+                format!(
+                    "--flip/--keep names '{id}', which is not on the route; name route steps only"
+                ),
+            )),
+        }
+    };
+    let flip = opts
+        .flip
+        .iter()
+        .map(find_step)
+        .collect::<Result<Vec<_>, _>>()?;
+    let keep = opts
+        .keep
+        .iter()
+        .map(find_step)
+        .collect::<Result<Vec<_>, _>>()?;
+    if let Some(r) = flip.iter().find(|r| keep.contains(r)) {
+        return Err(ImportError::new(
+            file,
+            None,
+            format!(
+                "'{}' is given to both --flip and --keep; choose one",
+                model.reactions[*r].id
+            ),
+        ));
+    }
+    Ok((flip, keep))
 }
 
 /// What an import wrote and what is left to do, for the person who ran it.

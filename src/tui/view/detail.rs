@@ -193,13 +193,47 @@ fn flux_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
     out
 }
 
+/// The flux control estimate of the selected route step: the estimate with
+/// its range, how it comes about here, and the disagreement sentence.
+fn estimate_lines(app: &App, t: &Theme) -> Vec<Line<'static>> {
+    let a = &app.analysis;
+    let ascii = app.opts.ascii;
+    let fix = |l: String| {
+        if ascii {
+            l.replace('–', "-").replace('≥', ">=").replace('…', "...")
+        } else {
+            l
+        }
+    };
+    let mut out = Vec::new();
+    for (i, l) in mca::explain(app.pathway(), a, app.step_sel)
+        .into_iter()
+        .enumerate()
+    {
+        let l = fix(l);
+        out.push(if i == 0 {
+            Line::styled(l, t.bold())
+        } else {
+            Line::from(format!("  {l}"))
+        });
+    }
+    // With an estimate, its notes are the disagreement sentence.
+    let notes = match a.control_estimate.coefficients {
+        Some(_) => a.control_estimate.notes.as_slice(),
+        None => &[],
+    };
+    for n in notes {
+        out.push(Line::styled(format!("  {}", fix(n.clone())), t.warn()));
+    }
+    out
+}
+
 /// The verdict with its reasons, the flux control estimate, bypass and coupling.
 fn verdict_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
     let p = app.pathway();
     let a = &app.analysis;
     let u = app.opts.unit;
     let ul = u.label();
-    let ascii = app.opts.ascii;
     let mut out = Vec::new();
     if let Some(v) = s.verdict.and_then(|i| a.control.get(i)) {
         out.push(Line::styled(
@@ -216,30 +250,7 @@ fn verdict_lines(app: &App, t: &Theme, s: &StepResult) -> Vec<Line<'static>> {
         ));
     }
     if app.step_sel < a.steps.len() {
-        let fix = |l: String| {
-            if ascii {
-                l.replace('–', "-").replace('≥', ">=").replace('…', "...")
-            } else {
-                l
-            }
-        };
-        // The estimate with its range, then how it comes about here.
-        for (i, l) in mca::explain(p, a, app.step_sel).into_iter().enumerate() {
-            let l = fix(l);
-            out.push(if i == 0 {
-                Line::styled(l, t.bold())
-            } else {
-                Line::from(format!("  {l}"))
-            });
-        }
-        // With an estimate, its notes are the disagreement sentence.
-        let notes = match a.control_estimate.coefficients {
-            Some(_) => a.control_estimate.notes.as_slice(),
-            None => &[],
-        };
-        for n in notes {
-            out.push(Line::styled(format!("  {}", fix(n.clone())), t.warn()));
-        }
+        out.extend(estimate_lines(app, t));
     }
     if let Some(nb) = a
         .needs_bypass
