@@ -1,12 +1,13 @@
-//! The flux control estimate, run by hand (`cargo bench --bench control`):
-//! how much the 5–95 % range moves between seeds at several numbers of
-//! draws (the default must keep it under 0.01), the time of one range, and
-//! the time of the estimate on long chains and on a route with splits.
+//! The flux control estimate, run by hand (`cargo bench --bench control`;
+//! divan): the estimate and one 5–95 % range (at several numbers of draws)
+//! on the demo at its optimum and on a bundled file, and the estimate and
+//! its range on long chains and on a route with splits. Before the timings
+//! it prints how much a range end moves between 20 seeds at each number of
+//! draws (the default must keep it under 0.01): a statistic, not a time.
 
 use dgpath::analysis::{self, mca};
 use dgpath::model;
 use dgpath::scenario::State;
-use std::time::Instant;
 
 /// The demo at its driving-force optimum (every step runs forward there) and a bundled file as written.
 fn cases() -> Vec<(String, mca::Model)> {
@@ -21,7 +22,11 @@ fn cases() -> Vec<(String, mca::Model)> {
         "demo at its optimum".to_string(),
         a.control_estimate.model.expect("an estimate"),
     ));
-    let text = std::fs::read_to_string("pathways/succinate.toml").expect("succinate");
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/pathways/succinate.toml"
+    ))
+    .expect("succinate");
     let p = analysis::prepare(model::load_str(&text, "succinate.toml").expect("loads"))
         .expect("prepares");
     let a = analysis::analyze(&p, &State::from_pathway(&p.pathway)).expect("analyses");
@@ -82,9 +87,15 @@ fn split_route(k: usize) -> mca::Model {
 }
 
 fn main() {
+    seed_spread();
+    divan::main();
+}
+
+/// The largest spread of a range end over 20 seeds, per number of draws.
+fn seed_spread() {
     for (name, m) in cases() {
         println!("{name}: {} steps, chain: {}", m.len(), m.is_chain());
-        for draws in [1000, 4000, 24000] {
+        for draws in DRAWS {
             let seeds = 20u64;
             let runs: Vec<Vec<(f64, f64)>> = (0..seeds)
                 .map(|s| m.ranges(draws, 1000 + s).expect("range"))
@@ -101,54 +112,50 @@ fn main() {
                     worst = worst.max(spread);
                 }
             }
-            let t0 = Instant::now();
-            for _ in 0..5 {
-                std::hint::black_box(m.ranges(draws, mca::SEED));
-            }
             println!(
-                "  {draws:>5} draws: largest spread of a range end over {seeds} seeds {worst:.4}; one range {:.2} ms",
-                t0.elapsed().as_secs_f64() * 1e3 / 5.0
+                "  {draws:>5} draws: largest spread of a range end over {seeds} seeds {worst:.4}"
             );
         }
-        let t0 = Instant::now();
-        for _ in 0..1000 {
-            std::hint::black_box(m.coefficients(None).ok());
-        }
-        println!(
-            "  estimate alone: {:.2} µs",
-            t0.elapsed().as_secs_f64() * 1e3
-        );
     }
-    for k in [100, 2_000, 13_000] {
-        let m = split_route(k);
-        let t0 = Instant::now();
-        let ok = m.coefficients(None).is_ok();
-        println!(
-            "{}-step route with {} splits (banded above {} intermediates): estimate {:.3} ms (solved: {ok})",
-            m.len(),
-            k,
-            mca::DENSE_MAX,
-            t0.elapsed().as_secs_f64() * 1e3
-        );
-    }
-    for n in [2_000, 40_000] {
-        let m = chain(n);
-        let t0 = Instant::now();
-        for _ in 0..10 {
-            std::hint::black_box(m.coefficients(None).ok());
-        }
-        println!(
-            "{n}-step chain: estimate {:.3} ms",
-            t0.elapsed().as_secs_f64() * 1e2
-        );
-        let t0 = Instant::now();
-        std::hint::black_box(
-            m.ranges(mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n), mca::SEED),
-        );
-        println!(
-            "  range with {} draws: {:.1} ms",
-            mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n),
-            t0.elapsed().as_secs_f64() * 1e3
-        );
-    }
+}
+
+const DRAWS: [usize; 3] = [1000, 4000, 24000];
+
+fn case(name: &str) -> mca::Model {
+    cases()
+        .into_iter()
+        .find(|(n, _)| n == name)
+        .map(|(_, m)| m)
+        .expect("a case")
+}
+
+#[divan::bench(args = ["demo at its optimum", "succinate"])]
+fn estimate(bencher: divan::Bencher, name: &str) {
+    let m = case(name);
+    bencher.bench_local(|| m.coefficients(None).ok());
+}
+
+#[divan::bench(consts = DRAWS, args = ["demo at its optimum", "succinate"], sample_count = 10)]
+fn range<const D: usize>(bencher: divan::Bencher, name: &str) {
+    let m = case(name);
+    bencher.bench_local(|| m.ranges(D, mca::SEED));
+}
+
+#[divan::bench(args = [100, 2_000, 13_000], sample_count = 5)]
+fn estimate_route_with_splits(bencher: divan::Bencher, splits: usize) {
+    let m = split_route(splits);
+    bencher.bench_local(|| m.coefficients(None).ok());
+}
+
+#[divan::bench(args = [2_000, 40_000], sample_count = 10)]
+fn estimate_chain(bencher: divan::Bencher, n: usize) {
+    let m = chain(n);
+    bencher.bench_local(|| m.coefficients(None).ok());
+}
+
+#[divan::bench(args = [2_000, 40_000], sample_count = 5)]
+fn range_chain(bencher: divan::Bencher, n: usize) {
+    let m = chain(n);
+    let draws = mca::DEFAULT_DRAWS.min(mca::RANGE_MAX_VALUES / n);
+    bencher.bench_local(|| m.ranges(draws, mca::SEED));
 }

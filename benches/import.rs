@@ -1,35 +1,46 @@
-//! Benchmark for `dgpath import` (run by hand: `cargo bench --bench import`).
+//! `dgpath import`, run by hand (`cargo bench --bench import`; divan).
 //! Writes an invented genome-scale-sized SBML model: the hand-written test
 //! network (tests/sbml/chain_l3v1.xml) plus generated species and reactions
 //! up to about 2,600 reactions and 1,800 species, each with notes and an
 //! annotation block as real models carry them (about 10 MB). Then times
-//! reading (parse), importing the glycolytic route with its tables, and
-//! loading the written file back. Target: the whole import well under a second.
+//! reading (parse), importing the glycolytic route with its tables, loading
+//! the written file back, and all three. Target: the whole import well under
+//! a second.
 //!
-//! Options: `--reactions N` (default 2,600), `--species N` (default 1,800),
-//! `--keep FILE.xml` (keep the model, e.g. to time the binary itself:
+//! Settings by environment: `DGPATH_BENCH_REACTIONS` (default 2,600),
+//! `DGPATH_BENCH_SPECIES` (default 1,800), `DGPATH_BENCH_KEEP=FILE.xml` (keep
+//! the model, e.g. to time the binary itself:
 //! `dgpath import FILE.xml --route "GLCt HEX PGI PFK FBA TPI GAPD PGK PGM ENO PYK" -o out.toml`).
 
 use dgpath::import::{self, Options, tables};
 use std::fmt::Write as _;
-use std::time::Instant;
 
 const ROUTE: &str = "GLCt HEX PGI PFK FBA TPI GAPD PGK PGM ENO PYK";
 
 fn main() {
-    let args: Vec<String> = std::env::args().collect();
-    let opt = |name: &str| {
-        args.iter()
-            .position(|a| a == name)
-            .and_then(|i| args.get(i + 1))
-            .cloned()
-    };
-    let n_reactions: usize = opt("--reactions")
+    divan::main();
+}
+
+/// The written model and the import's tables (made once).
+struct Setup {
+    path: std::path::PathBuf,
+    dg0: String,
+    conc: String,
+    _dir: tempfile::TempDir,
+}
+
+static SETUP: std::sync::LazyLock<Setup> = std::sync::LazyLock::new(setup);
+
+fn env_or(name: &str, default: usize) -> usize {
+    std::env::var(name)
+        .ok()
         .and_then(|v| v.parse().ok())
-        .unwrap_or(2_600);
-    let n_species: usize = opt("--species")
-        .and_then(|v| v.parse().ok())
-        .unwrap_or(1_800);
+        .unwrap_or(default)
+}
+
+fn setup() -> Setup {
+    let n_reactions = env_or("DGPATH_BENCH_REACTIONS", 2_600);
+    let n_species = env_or("DGPATH_BENCH_SPECIES", 1_800);
     let root = env!("CARGO_MANIFEST_DIR");
     let base = std::fs::read_to_string(format!("{root}/tests/sbml/chain_l3v1.xml")).unwrap();
     let core_species = base.matches("<species ").count();
@@ -113,61 +124,63 @@ fn main() {
             1,
         );
     let dir = tempfile::tempdir().unwrap();
-    let path = opt("--keep")
+    let path = std::env::var_os("DGPATH_BENCH_KEEP")
         .map(std::path::PathBuf::from)
         .unwrap_or_else(|| dir.path().join("big.xml"));
     std::fs::write(&path, &text).unwrap();
     let dg0 = std::fs::read_to_string(format!("{root}/tests/sbml/chain_dg0.csv")).unwrap();
     let conc = std::fs::read_to_string(format!("{root}/tests/sbml/chain_conc.csv")).unwrap();
-
-    let mut best = [f64::INFINITY; 4];
-    let mut first = None;
-    let mut last = None;
-    for _ in 0..5 {
-        let t0 = Instant::now();
-        let model = import::read_model(&path).unwrap();
-        let t1 = Instant::now();
-        let opts = Options {
-            route: ROUTE.split_whitespace().map(str::to_string).collect(),
-            dg0: Some(tables::read_dg0(&dg0, "chain_dg0.csv").unwrap()),
-            conc: Some(tables::read_conc(&conc, "chain_conc.csv").unwrap()),
-            ..Options::default()
-        };
-        let out = import::import(&model, "big.xml", &opts).unwrap();
-        let t2 = Instant::now();
-        let back = dgpath::model::load_str(&out.text, "out.toml");
-        let t3 = Instant::now();
-        let ms = |a: Instant, b: Instant| (b - a).as_secs_f64() * 1e3;
-        first.get_or_insert(ms(t0, t3));
-        for (b, v) in best
-            .iter_mut()
-            .zip([ms(t0, t1), ms(t1, t2), ms(t2, t3), ms(t0, t3)])
-        {
-            *b = b.min(v);
-        }
-        last = Some((
-            model.reactions.len(),
-            model.species.len(),
-            out,
-            back.is_ok(),
-        ));
+    let model = import::read_model(&path).unwrap();
+    let out = import::import(&model, "big.xml", &options(&dg0, &conc)).unwrap();
+    println!(
+        "model: {} reactions, {} species, {:.1} MB; route of {} steps, {} branch points",
+        model.reactions.len(),
+        model.species.len(),
+        text.len() as f64 / 1e6,
+        ROUTE.split_whitespace().count(),
+        out.text.matches("branch = true").count()
+    );
+    Setup {
+        path,
+        dg0,
+        conc,
+        _dir: dir,
     }
-    let (nr, ns, out, loads) = last.unwrap();
-    let branches = out.text.matches("branch = true").count();
-    println!(
-        "model: {nr} reactions, {ns} species, {:.1} MB",
-        text.len() as f64 / 1e6
-    );
-    println!(
-        "best of 5: read+parse {:.1} ms, import {:.1} ms, load back {:.1} ms, total {:.1} ms",
-        best[0], best[1], best[2], best[3]
-    );
-    println!(
-        "first run (cold allocator and page cache as the binary sees them): {:.1} ms",
-        first.unwrap_or(f64::NAN)
-    );
-    println!(
-        "route of {} steps; {branches} branch points; file loads back: {loads}",
-        ROUTE.split_whitespace().count()
-    );
+}
+
+fn options(dg0: &str, conc: &str) -> Options {
+    Options {
+        route: ROUTE.split_whitespace().map(str::to_string).collect(),
+        dg0: Some(tables::read_dg0(dg0, "chain_dg0.csv").unwrap()),
+        conc: Some(tables::read_conc(conc, "chain_conc.csv").unwrap()),
+        ..Options::default()
+    }
+}
+
+#[divan::bench(sample_count = 10)]
+fn read_and_parse() -> usize {
+    import::read_model(&SETUP.path).unwrap().reactions.len()
+}
+
+#[divan::bench(sample_count = 10)]
+fn import_route(bencher: divan::Bencher) {
+    let s = &*SETUP;
+    let model = import::read_model(&s.path).unwrap();
+    bencher.bench_local(|| import::import(&model, "big.xml", &options(&s.dg0, &s.conc)).unwrap());
+}
+
+#[divan::bench(sample_count = 10)]
+fn load_back(bencher: divan::Bencher) {
+    let s = &*SETUP;
+    let model = import::read_model(&s.path).unwrap();
+    let out = import::import(&model, "big.xml", &options(&s.dg0, &s.conc)).unwrap();
+    bencher.bench_local(|| dgpath::model::load_str(&out.text, "out.toml").unwrap());
+}
+
+#[divan::bench(sample_count = 10)]
+fn whole_import() -> bool {
+    let s = &*SETUP;
+    let model = import::read_model(&s.path).unwrap();
+    let out = import::import(&model, "big.xml", &options(&s.dg0, &s.conc)).unwrap();
+    dgpath::model::load_str(&out.text, "out.toml").is_ok()
 }

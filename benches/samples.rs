@@ -1,29 +1,37 @@
-//! Benchmark for many samples (run by hand: `cargo bench --bench samples`).
-//! Writes an invented table of N samples (default 10,000) for the fermenter
-//! demo — the demo time course with random ±30 % noise on every cell — then
-//! times reading + parallel analysis + summary, and the same with per-sample
-//! CSV rows rendered and discarded. Target: 10,000 samples in ≤ 1 s on
-//! 2 cores, peak memory ≤ 100 MB (measure with `/usr/bin/time -v`).
-//!
-//! Options: `--samples N`, `--keep FILE.csv` (keep the table, e.g. to time the
-//! binary itself: `dgpath report pathways/fermenter.toml --samples FILE.csv`).
+//! Many samples, run by hand (`cargo bench --bench samples`; divan). Writes
+//! an invented table of N samples (default 10,000; `DGPATH_BENCH_SAMPLES=N`)
+//! for the fermenter demo — the demo time course with random ±30 % noise on
+//! every cell — then times reading + parallel analysis + summary, the same
+//! with per-sample CSV rows rendered and discarded, reading alone, and one
+//! driving-force optimisation per sample. Target: 10,000 samples in ≤ 1 s on
+//! 2 cores. Memory is a whole-process figure: keep the table
+//! (`DGPATH_BENCH_KEEP=FILE.csv`) and time the binary itself, e.g.
+//! `dgpath mdf pathways/fermenter.toml --samples FILE.csv --format json`.
 
 use dgpath::analysis::{self, batch};
 use dgpath::model::samples::SampleReader;
 use dgpath::report::{EnergyUnit, samples as render};
 use dgpath::scenario::State;
 use std::io::Write;
-use std::time::{Duration, Instant};
 
 fn main() {
-    let args: Vec<String> = std::env::args().collect();
-    let opt = |name: &str| {
-        args.iter()
-            .position(|a| a == name)
-            .and_then(|i| args.get(i + 1))
-            .cloned()
-    };
-    let n: usize = opt("--samples")
+    divan::main();
+}
+
+/// The pathway, its state and the written table (made once).
+struct Setup {
+    prep: analysis::Prepared,
+    base: State,
+    path: std::path::PathBuf,
+    n: usize,
+    _dir: tempfile::TempDir,
+}
+
+static SETUP: std::sync::LazyLock<Setup> = std::sync::LazyLock::new(setup);
+
+fn setup() -> Setup {
+    let n: usize = std::env::var("DGPATH_BENCH_SAMPLES")
+        .ok()
         .and_then(|v| v.parse().ok())
         .unwrap_or(10_000);
     let root = env!("CARGO_MANIFEST_DIR");
@@ -40,7 +48,7 @@ fn main() {
         .collect();
 
     let dir = tempfile::tempdir().unwrap();
-    let path = opt("--keep")
+    let path = std::env::var_os("DGPATH_BENCH_KEEP")
         .map(std::path::PathBuf::from)
         .unwrap_or_else(|| dir.path().join("many.csv"));
     {
@@ -60,51 +68,75 @@ fn main() {
             writeln!(f).unwrap();
         }
     }
-    let threads = rayon::current_num_threads();
     println!(
-        "{n} samples × {} route steps, {threads} rayon threads",
-        prep.forward.steps.len()
+        "{n} samples × {} route steps, {} rayon threads",
+        prep.forward.steps.len(),
+        rayon::current_num_threads()
     );
+    Setup {
+        prep,
+        base,
+        path,
+        n,
+        _dir: dir,
+    }
+}
 
-    let time = |label: &str, f: &dyn Fn() -> usize| {
-        let mut t: Vec<Duration> = (0..5)
-            .map(|_| {
-                let s = Instant::now();
-                let k = f();
-                assert_eq!(k, n);
-                s.elapsed()
-            })
-            .collect();
-        t.sort();
-        println!(
-            "{label:<40} min {:>8.1} ms   median {:>8.1} ms",
-            t[0].as_secs_f64() * 1e3,
-            t[2].as_secs_f64() * 1e3
-        );
-    };
-    time("read + analyse + summary", &|| {
-        let r = SampleReader::open(&path, &prep.pathway, &base.conc).unwrap();
-        batch::run(&prep, &base, r, |_, _| String::new(), |_| Ok(()))
-            .unwrap()
-            .samples
-    });
-    time("read + analyse + summary + CSV rows", &|| {
-        let r = SampleReader::open(&path, &prep.pathway, &base.conc).unwrap();
-        let mut sink = std::io::sink();
-        batch::run(
-            &prep,
-            &base,
-            r,
-            |name, a| render::csv_rows(&prep, name, a, EnergyUnit::KJ),
-            |t| sink.write_all(t.as_bytes()),
-        )
+#[divan::bench(sample_count = 5)]
+fn read_analyse_summary() -> usize {
+    let s = &*SETUP;
+    let r = SampleReader::open(&s.path, &s.prep.pathway, &s.base.conc).unwrap();
+    let k = batch::run(&s.prep, &s.base, r, |_, _| String::new(), |_| Ok(()))
         .unwrap()
-        .samples
-    });
-    time("read only", &|| {
-        SampleReader::open(&path, &prep.pathway, &base.conc)
-            .unwrap()
-            .filter(|r| r.is_ok())
-            .count()
-    });
+        .samples;
+    assert_eq!(k, s.n);
+    k
+}
+
+#[divan::bench(sample_count = 5)]
+fn read_analyse_summary_csv_rows() -> usize {
+    let s = &*SETUP;
+    let r = SampleReader::open(&s.path, &s.prep.pathway, &s.base.conc).unwrap();
+    let mut sink = std::io::sink();
+    let k = batch::run(
+        &s.prep,
+        &s.base,
+        r,
+        |name, a| render::csv_rows(&s.prep, name, a, EnergyUnit::KJ),
+        |t| sink.write_all(t.as_bytes()),
+    )
+    .unwrap()
+    .samples;
+    assert_eq!(k, s.n);
+    k
+}
+
+#[divan::bench(sample_count = 5)]
+fn read_only() -> usize {
+    let s = &*SETUP;
+    SampleReader::open(&s.path, &s.prep.pathway, &s.base.conc)
+        .unwrap()
+        .filter(|r| r.is_ok())
+        .count()
+}
+
+/// One optimisation per sample, in table order, as `mdf --samples` does
+/// (without the output); held carriers differ between rows, so most rows
+/// are distinct programmes.
+#[divan::bench(sample_count = 3)]
+fn optimum_per_sample() -> usize {
+    let s = &*SETUP;
+    let mut batch = analysis::mdf::Batch::default();
+    let opts = analysis::mdf::Options::default();
+    let mut k = 0;
+    for row in SampleReader::open(&s.path, &s.prep.pathway, &s.base.conc).unwrap() {
+        let row = row.unwrap();
+        let st = State {
+            conc: row.conc,
+            ..s.base.clone()
+        };
+        batch.solve(&s.prep, &st, &opts).unwrap();
+        k += 1;
+    }
+    k
 }

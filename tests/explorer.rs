@@ -901,3 +901,44 @@ fn a_long_route_marks_its_optimum_out_of_date_until_the_background_answer_arrive
         dgpath::scenario::optimum::LiveMdf::solve(&app.prep, app.state())
     );
 }
+
+/// Counts what is written to a terminal (shared, so it can be read while
+/// the backend owns it).
+#[derive(Clone, Default)]
+struct Count(std::rc::Rc<std::cell::Cell<usize>>);
+
+impl std::io::Write for Count {
+    fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
+        self.0.set(self.0.get() + b.len());
+        Ok(b.len())
+    }
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+#[test]
+fn one_key_writes_under_two_kilobytes_to_the_terminal() {
+    use ratatui::backend::CrosstermBackend;
+    use ratatui::layout::Rect;
+    use ratatui::{Terminal, TerminalOptions, Viewport};
+    let mut a = demo();
+    keys(&mut a, "Tab");
+    let count = Count::default();
+    let mut term = Terminal::with_options(
+        CrosstermBackend::new(count.clone()),
+        TerminalOptions {
+            viewport: Viewport::Fixed(Rect::new(0, 0, 120, 36)),
+        },
+    )
+    .unwrap();
+    term.draw(|f| view::draw(f, &a)).unwrap();
+    let first = count.0.get();
+    keys(&mut a, "+");
+    term.draw(|f| view::draw(f, &a)).unwrap();
+    let second = count.0.get() - first;
+    // The project's budget for one key over a slow remote link: 2 KB, where
+    // the whole first frame is several times that (only changed cells are sent).
+    assert!(second > 0 && second <= 2048, "{second} bytes for one '+'");
+    assert!(first > 4 * second, "first frame {first}, one key {second}");
+}
