@@ -338,3 +338,39 @@ fn a_terminal_below_the_minimum_says_so_and_a_larger_one_draws_again() {
     assert_eq!(t.wait_exit(), 0);
     t.settle(|_| true);
 }
+
+#[test]
+fn a_long_route_gets_its_optimum_from_the_background_in_a_real_terminal() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = tempfile::tempdir().unwrap();
+    // 2,000 steps: optimised on the solver thread, not inside the key.
+    std::fs::write(dir.path().join("long.toml"), dgpath::synthetic::route(2000)).unwrap();
+    let t = Tmux::new(dir.path(), "long");
+    t.start(
+        dir.path(),
+        &format!(
+            "env NO_COLOR=1 TERM=xterm-256color {} explore long.toml",
+            env!("CARGO_BIN_EXE_dgpath")
+        ),
+    );
+    // The first optimum arrives through the event loop (nothing waits for it).
+    let s = t.wait("the first optimum", |s| {
+        s.contains("Steps (2000 route)") && s.contains("MDF +")
+    });
+    assert!(!s.contains("solving"), "{s}");
+    // An edit of the held carrier: the screen follows, and the optimum of
+    // the new state replaces the out-of-date one.
+    t.keys(&["Tab", "+", "+", "+"]);
+    let s = t.wait("the edit and its optimum", |s| {
+        s.contains("(* unsaved)") && s.contains("MDF +") && !s.contains("solving")
+    });
+    assert!(s.contains("atp"), "{s}");
+    t.keys(&["q"]);
+    t.wait("the unsaved question", |s| s.contains("press q again"));
+    t.keys(&["q"]);
+    let code = t.wait_exit();
+    assert!(code == 0, "exit status {code}:\n{}", t.screen());
+    t.settle(|_| true);
+}
