@@ -22,3 +22,17 @@ pub fn emit(text: &str) -> Result<()> {
 pub fn is_broken_pipe(e: &std::io::Error) -> bool {
     e.kind() == std::io::ErrorKind::BrokenPipe
 }
+
+/// Writes `value` as pretty JSON and a line end straight to stdout (no
+/// copy of the whole document in memory); a closed pipe ends quietly.
+pub fn emit_json<T: serde::Serialize>(value: &T) -> Result<()> {
+    let mut out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+    let written = serde_json::to_writer_pretty(&mut out, value)
+        .map_err(std::io::Error::from)
+        .and_then(|_| out.write_all(b"\n"))
+        .and_then(|_| out.flush());
+    match written {
+        Err(e) if is_broken_pipe(&e) => Ok(()),
+        r => r.context("writing to stdout"),
+    }
+}

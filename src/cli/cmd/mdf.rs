@@ -3,7 +3,7 @@
 
 use crate::cli::args::{Common, Format};
 use crate::cli::cmd::report::check_table;
-use crate::cli::output::{colour_ok, emit, is_broken_pipe};
+use crate::cli::output::{colour_ok, emit, emit_json, is_broken_pipe};
 use crate::cli::request::state_from;
 use anyhow::{Context, Result};
 use dgpath::analysis::{self, Prepared};
@@ -114,11 +114,7 @@ pub fn run_mdf(
     }
     let u = common.unit();
     let text = match format {
-        Format::Json => {
-            let mut s = serde_json::to_string_pretty(&report::mdf::mdf_json(prep, &state, &m, u))?;
-            s.push('\n');
-            s
-        }
+        Format::Json => return emit_json(&report::mdf::mdf_json(prep, &state, &m, u)),
         Format::Table => report::mdf::mdf_table(
             prep,
             &state,

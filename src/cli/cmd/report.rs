@@ -2,7 +2,7 @@
 //! `--samples TABLE`, one analysis per sample streamed to stdout.
 
 use crate::cli::args::{Common, Format, View};
-use crate::cli::output::{colour_ok, emit, is_broken_pipe};
+use crate::cli::output::{colour_ok, emit, emit_json, is_broken_pipe};
 use crate::cli::request::state_from;
 use anyhow::{Context, Result};
 use dgpath::analysis::batch::{self, BatchError, Summary};
@@ -23,12 +23,7 @@ pub fn run_report(prep: &Prepared, common: &Common, format: Format, view: &View)
     }
     let u = common.unit();
     let text = match format {
-        Format::Json => {
-            let mut s =
-                serde_json::to_string_pretty(&report::json::report_json(prep, &state, &a, u))?;
-            s.push('\n');
-            s
-        }
+        Format::Json => return emit_json(&report::json::report_json(prep, &state, &a, u)),
         Format::Csv => report::csv(prep, &a, u),
         Format::Md => {
             let cols = view.columns(&report::columns::ALL);
