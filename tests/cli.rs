@@ -12,10 +12,10 @@
 //!   share 10.708010/14.416020 = 0.742785 and 0.257215; group s1+s2 dG' −14.416020;
 //!   net a −1, c +1; largest drop s1; control: s1 prime (not last, b is no branch point).
 
-use crate::support::{close, path, run, texts};
+use crate::support::{close, dgpath, path, run, texts};
 use serde_json::Value;
 use std::io::Read;
-use std::process::{Command, Stdio};
+use std::process::Stdio;
 
 fn chain() -> String {
     path("data/chain.toml").to_str().unwrap().to_string()
@@ -414,9 +414,8 @@ fn usage_errors_exit_2() {
 fn closed_pipe_ends_quietly() {
     // Like `dgpath report FILE | head -1`: the reader goes away after the first line.
     let g = path("data/glycolysis.toml");
-    let mut child = Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    let mut child = dgpath()
         .args(["report", g.to_str().unwrap()])
-        .env("NO_COLOR", "1")
         .stdout(Stdio::piped())
         .stderr(Stdio::piped())
         .spawn()

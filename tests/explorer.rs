@@ -390,9 +390,8 @@ fn without_colour_no_cell_carries_a_colour() {
 
 #[test]
 fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
-    let bin = env!("CARGO_BIN_EXE_dgpath");
     let root = env!("CARGO_MANIFEST_DIR");
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args(["explore", "pathways/fermenter.toml"])
         .current_dir(root)
         .output()
@@ -404,10 +403,7 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
         "{err}"
     );
     assert!(out.stdout.is_empty(), "no screen drawn into a pipe");
-    let out = std::process::Command::new(bin)
-        .current_dir(root)
-        .output()
-        .unwrap();
+    let out = crate::support::dgpath().current_dir(root).output().unwrap();
     assert!(out.status.success());
     let text = String::from_utf8_lossy(&out.stdout);
     assert!(text.contains("% ◀largest"), "{text}");
@@ -415,12 +411,11 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
 
 #[test]
 fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
-    let bin = env!("CARGO_BIN_EXE_dgpath");
     let root = env!("CARGO_MANIFEST_DIR");
     let dir = tempfile::tempdir().unwrap();
     let bad = dir.path().join("bad.csv");
     std::fs::write(&bad, "sample,glc [mM]\nh00,40\nh01,forty\n").unwrap();
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args(["explore", "pathways/fermenter.toml", "--samples"])
         .arg(&bad)
         .current_dir(root)
@@ -434,7 +429,7 @@ fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
         "the table is read first: {err}"
     );
     // A good table gets as far as the terminal check.
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args([
             "explore",
             "pathways/fermenter.toml",
@@ -734,7 +729,7 @@ fn screenshots_are_up_to_date() {
         let mut args2 = args.clone();
         let tmp_out = dir.path().join(Path::new(&name).file_name().unwrap());
         args2[out_i] = tmp_out.display().to_string();
-        let st = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+        let st = std::process::Command::new(crate::support::BIN)
             .arg("screenshot")
             .args(&args2)
             .current_dir(root)

@@ -2,7 +2,7 @@
 //! carriers held in the optimisation (`held`, `--free-currencies`) and the
 //! ranges within which the route can run (`feasible_ranges_m`).
 
-use crate::support::{close, path, run, texts};
+use crate::support::{Pw, close, path, run, texts};
 use serde_json::Value;
 
 const DEMO: &str = "pathways/fermenter.toml";
@@ -149,23 +149,10 @@ fn carriers_are_held_and_listed() {
 
 /// The worked chain of science.md §5: dG'° = [−5, +10, −20, −5] kJ/mol, 1 µM–10 mM, 25 °C.
 fn worked_chain(dir: &std::path::Path, dg0: [f64; 4]) -> String {
-    let mut t = String::from(
-        "format = 1\n[pathway]\nname = \"chain\"\n[conditions]\ntemperature = \"25 C\"\n\
-         [analysis]\nbounds = [\"1 uM\", \"10 mM\"]\n[compounds]\n",
-    );
-    for i in 0..5 {
-        t.push_str(&format!("s{i} = {{ conc = \"0.1 mM\" }}\n"));
-    }
-    for (i, g) in dg0.iter().enumerate() {
-        t.push_str(&format!(
-            "[[steps]]\nid = \"r{}\"\nreaction = \"s{i} -> s{}\"\ndg0 = \"{g} kJ/mol\"\n",
-            i + 1,
-            i + 1
-        ));
-    }
-    let file = dir.join("chain.toml");
-    std::fs::write(&file, t).unwrap();
-    file.to_str().unwrap().to_string()
+    Pw::new("chain")
+        .bounds("1 uM", "10 mM")
+        .chain(&dg0, "0.1 mM")
+        .write(dir, "chain.toml")
 }
 
 #[test]
