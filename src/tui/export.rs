@@ -140,6 +140,24 @@ fn esc(s: &str) -> String {
         .replace('>', "&gt;")
 }
 
+/// SVG attributes for a text run's modifiers (bold, italic, underlined, dim).
+fn text_attrs(m: Modifier) -> String {
+    let mut attrs = String::new();
+    if m.contains(Modifier::BOLD) {
+        attrs.push_str(r#" font-weight="bold""#);
+    }
+    if m.contains(Modifier::ITALIC) {
+        attrs.push_str(r#" font-style="italic""#);
+    }
+    if m.contains(Modifier::UNDERLINED) {
+        attrs.push_str(r#" text-decoration="underline""#);
+    }
+    if m.contains(Modifier::DIM) {
+        attrs.push_str(r#" opacity="0.6""#);
+    }
+    attrs
+}
+
 /// The buffer as an SVG picture.
 pub fn to_svg(buf: &Buffer) -> String {
     let font = 14.0_f64;
@@ -192,20 +210,7 @@ pub fn to_svg(buf: &Buffer) -> String {
             }
             let text: String = cells[x..e].iter().map(|c| c.3).collect();
             if !text.trim().is_empty() {
-                let m = cells[x].2;
-                let mut attrs = String::new();
-                if m.contains(Modifier::BOLD) {
-                    attrs.push_str(r#" font-weight="bold""#);
-                }
-                if m.contains(Modifier::ITALIC) {
-                    attrs.push_str(r#" font-style="italic""#);
-                }
-                if m.contains(Modifier::UNDERLINED) {
-                    attrs.push_str(r#" text-decoration="underline""#);
-                }
-                if m.contains(Modifier::DIM) {
-                    attrs.push_str(r#" opacity="0.6""#);
-                }
+                let attrs = text_attrs(cells[x].2);
                 let _ = writeln!(
                     s,
                     r#"<text x="{:.1}" y="{:.1}" fill="{}" xml:space="preserve" textLength="{:.1}" lengthAdjust="spacingAndGlyphs"{attrs}>{}</text>"#,
