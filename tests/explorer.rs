@@ -843,8 +843,12 @@ fn the_compound_detail_gives_the_range_where_the_route_can_run() {
 fn an_edit_the_analysis_refuses_is_never_applied_and_keeps_the_redo_history() {
     // 3e304 protons are harmless at the reference pH (no shift) but make
     // dG'° overflow two pH units away, which the analysis refuses.
-    let text = "format = 1\n[pathway]\nname = \"overflow\"\n[conditions]\ntemperature = \"30 C\"\n[compounds]\na = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\n[[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\nprotons = 3e304\n";
-    let mut app = app_from(text, Source::demo());
+    let text = crate::support::Pw::new("overflow")
+        .temperature("30 C")
+        .compounds(&["a", "b"], "1 mM")
+        .step_with("s1", "a -> b", "-5 kJ/mol", &["protons = 3e304"])
+        .text();
+    let mut app = app_from(&text, Source::demo());
     keys(&mut app, "Tab +");
     let edited = app.state().clone();
     keys(&mut app, "u");

@@ -210,16 +210,12 @@ fn the_demo_optimum_with_carriers_held_and_freed_is_optimal() {
 #[test]
 fn the_total_sd_says_when_it_is_partial() {
     let dir = tempfile::tempdir().unwrap();
-    let file = dir.path().join("partial.toml");
-    std::fs::write(
-        &file,
-        "format = 1\n[pathway]\nname = \"p\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
-         a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\n\
-         [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = -5\ndg0_sd = 1.5\n\
-         [[steps]]\nid = \"s2\"\nreaction = \"b -> c\"\ndg0 = -5\n",
-    )
-    .unwrap();
-    let f = file.to_str().unwrap();
+    let file = Pw::new("p")
+        .compounds(&["a", "b", "c"], "1 mM")
+        .step_with("s1", "a -> b", "-5", &["dg0_sd = 1.5"])
+        .step("s2", "b -> c", "-5")
+        .write(dir.path(), "partial.toml");
+    let f = file.as_str();
     let (table, _) = texts(&run(&["report", f]));
     assert!(
         table.contains("± 1.50; 1 of 2 steps give no dg0_sd"),
