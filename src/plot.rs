@@ -378,27 +378,7 @@ fn spread_panel<DB: DrawingBackend>(
         .light_line_style(TRANSPARENT)
         .draw()
         .map_err(draw_err)?;
-    chart
-        .draw_series(DashedLineSeries::new(
-            [(0.0, pr.far), (n as f64, pr.far)],
-            8,
-            5,
-            FAR.stroke_width(1),
-        ))
-        .map_err(draw_err)?;
-    chart
-        .draw_series([Text::new(
-            format!("far threshold {:.0} {}", pr.far, pr.unit),
-            (0.05, pr.far),
-            font(11).pos(Pos::new(HPos::Left, VPos::Bottom)),
-        )])
-        .map_err(draw_err)?;
-    chart
-        .draw_series(LineSeries::new(
-            [(0.0, 0.0), (n as f64, 0.0)],
-            RGBColor(170, 170, 170).stroke_width(1),
-        ))
-        .map_err(draw_err)?;
+    draw_spread_guides(&mut chart, pr, n)?;
     draw_spreads(&mut chart, sum, u)?;
     let root_y = chart.backend_coord(&(0.0, y.0)).1 - area.get_base_pixel().1;
     for (k, s) in sum.steps.iter().enumerate().step_by(every) {
@@ -424,6 +404,36 @@ fn spread_panel<DB: DrawingBackend>(
             .map_err(draw_err)?;
         }
     }
+    Ok(())
+}
+
+/// The across-samples panel's guides: the far threshold (dashed, labelled) and zero.
+fn draw_spread_guides<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    pr: &Profile,
+    n: usize,
+) -> Result<(), PlotError> {
+    chart
+        .draw_series(DashedLineSeries::new(
+            [(0.0, pr.far), (n as f64, pr.far)],
+            8,
+            5,
+            FAR.stroke_width(1),
+        ))
+        .map_err(draw_err)?;
+    chart
+        .draw_series([Text::new(
+            format!("far threshold {:.0} {}", pr.far, pr.unit),
+            (0.05, pr.far),
+            font(11).pos(Pos::new(HPos::Left, VPos::Bottom)),
+        )])
+        .map_err(draw_err)?;
+    chart
+        .draw_series(LineSeries::new(
+            [(0.0, 0.0), (n as f64, 0.0)],
+            RGBColor(170, 170, 170).stroke_width(1),
+        ))
+        .map_err(draw_err)?;
     Ok(())
 }
 

@@ -12,10 +12,10 @@
 //!   share 10.708010/14.416020 = 0.742785 and 0.257215; group s1+s2 dG' −14.416020;
 //!   net a −1, c +1; largest drop s1; control: s1 prime (not last, b is no branch point).
 
-use crate::support::{close, path, run, texts};
+use crate::support::{Pw, close, dgpath, path, run, texts};
 use serde_json::Value;
 use std::io::Read;
-use std::process::{Command, Stdio};
+use std::process::Stdio;
 
 fn chain() -> String {
     path("data/chain.toml").to_str().unwrap().to_string()
@@ -414,9 +414,8 @@ fn usage_errors_exit_2() {
 fn closed_pipe_ends_quietly() {
     // Like `dgpath report FILE | head -1`: the reader goes away after the first line.
     let g = path("data/glycolysis.toml");
-    let mut child = Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    let mut child = dgpath()
         .args(["report", g.to_str().unwrap()])
-        .env("NO_COLOR", "1")
         .stdout(Stdio::piped())
         .stderr(Stdio::piped())
         .spawn()
@@ -440,15 +439,12 @@ fn ionic_strength_option() {
     // A neutral compound becomes an ATP⁴⁻-like species (z² − N_H = 4): at I = 0.25 M, 25 °C
     // dG'° moves by −3.239 kJ/mol (science.md §4 [C, from Alberty 2003 S]).
     let dir = tempfile::tempdir().unwrap();
-    let file = dir.path().join("ionic.toml");
-    std::fs::write(
-        &file,
-        "format = 1\n[pathway]\nname = \"i\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
-         a = { conc = \"1 mM\", charge = 0, hydrogens = 0 }\nb = { conc = \"1 mM\", charge = -4, hydrogens = 12 }\n\
-         [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\n",
-    )
-    .unwrap();
-    let fs = file.to_str().unwrap();
+    let file = Pw::new("i")
+        .compound_with("a", "1 mM", "charge = 0, hydrogens = 0")
+        .compound_with("b", "1 mM", "charge = -4, hydrogens = 12")
+        .step("s1", "a -> b", "-5 kJ/mol")
+        .write(dir.path(), "ionic.toml");
+    let fs = file.as_str();
     let d = json(&[
         "report",
         fs,

@@ -5,7 +5,7 @@
 //! small kinetic models written here, the saturation range, and no estimate
 //! when a step cannot run forward.
 
-use crate::support::{analyze, close, prepare_str, step};
+use crate::support::{Pw, analyze, close, prepare_str, step};
 use dgpath::analysis::{Analysis, mca};
 use dgpath::thermo;
 use proptest::prelude::*;
@@ -17,20 +17,18 @@ fn rt25() -> f64 {
 
 /// A pathway file at 25 °C: compounds (id, conc in M, role) and steps (id, reaction, dg0 in J/mol).
 fn file(compounds: &[(String, f64, Option<&str>)], steps: &[(String, String, f64)]) -> String {
-    let mut s = String::from(
-        "format = 1\n[pathway]\nname = \"estimate test (invented)\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n",
-    );
-    for (id, c, role) in compounds {
-        let role = role.map_or(String::new(), |r| format!(", role = \"{r}\""));
-        s.push_str(&format!("{id} = {{ conc = \"{c:e} M\"{role} }}\n"));
-    }
-    for (id, rx, dg0) in steps {
-        s.push_str(&format!(
-            "[[steps]]\nid = \"{id}\"\nreaction = \"{rx}\"\ndg0 = \"{} kJ/mol\"\n",
-            dg0 / 1e3
-        ));
-    }
-    s
+    let p = compounds
+        .iter()
+        .fold(Pw::new("estimate test (invented)"), |p, (id, c, role)| {
+            let role = role.map_or(String::new(), |r| format!("role = \"{r}\""));
+            p.compound_with(id, &format!("{c:e} M"), &role)
+        });
+    steps
+        .iter()
+        .fold(p, |p, (id, rx, dg0)| {
+            p.step(id, rx, &format!("{} kJ/mol", dg0 / 1e3))
+        })
+        .text()
 }
 
 fn coefficients(a: &Analysis) -> Vec<f64> {

@@ -390,9 +390,8 @@ fn without_colour_no_cell_carries_a_colour() {
 
 #[test]
 fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
-    let bin = env!("CARGO_BIN_EXE_dgpath");
     let root = env!("CARGO_MANIFEST_DIR");
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args(["explore", "pathways/fermenter.toml"])
         .current_dir(root)
         .output()
@@ -404,10 +403,7 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
         "{err}"
     );
     assert!(out.stdout.is_empty(), "no screen drawn into a pipe");
-    let out = std::process::Command::new(bin)
-        .current_dir(root)
-        .output()
-        .unwrap();
+    let out = crate::support::dgpath().current_dir(root).output().unwrap();
     assert!(out.status.success());
     let text = String::from_utf8_lossy(&out.stdout);
     assert!(text.contains("% ◀largest"), "{text}");
@@ -415,12 +411,11 @@ fn a_piped_explorer_explains_and_bare_dgpath_prints_the_report() {
 
 #[test]
 fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
-    let bin = env!("CARGO_BIN_EXE_dgpath");
     let root = env!("CARGO_MANIFEST_DIR");
     let dir = tempfile::tempdir().unwrap();
     let bad = dir.path().join("bad.csv");
     std::fs::write(&bad, "sample,glc [mM]\nh00,40\nh01,forty\n").unwrap();
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args(["explore", "pathways/fermenter.toml", "--samples"])
         .arg(&bad)
         .current_dir(root)
@@ -434,7 +429,7 @@ fn explore_reads_the_samples_first_and_a_bad_table_exits_before_the_screen() {
         "the table is read first: {err}"
     );
     // A good table gets as far as the terminal check.
-    let out = std::process::Command::new(bin)
+    let out = crate::support::dgpath()
         .args([
             "explore",
             "pathways/fermenter.toml",
@@ -734,7 +729,7 @@ fn screenshots_are_up_to_date() {
         let mut args2 = args.clone();
         let tmp_out = dir.path().join(Path::new(&name).file_name().unwrap());
         args2[out_i] = tmp_out.display().to_string();
-        let st = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+        let st = std::process::Command::new(crate::support::BIN)
             .arg("screenshot")
             .args(&args2)
             .current_dir(root)
@@ -848,8 +843,12 @@ fn the_compound_detail_gives_the_range_where_the_route_can_run() {
 fn an_edit_the_analysis_refuses_is_never_applied_and_keeps_the_redo_history() {
     // 3e304 protons are harmless at the reference pH (no shift) but make
     // dG'° overflow two pH units away, which the analysis refuses.
-    let text = "format = 1\n[pathway]\nname = \"overflow\"\n[conditions]\ntemperature = \"30 C\"\n[compounds]\na = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\n[[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\nprotons = 3e304\n";
-    let mut app = app_from(text, Source::demo());
+    let text = crate::support::Pw::new("overflow")
+        .temperature("30 C")
+        .compounds(&["a", "b"], "1 mM")
+        .step_with("s1", "a -> b", "-5 kJ/mol", &["protons = 3e304"])
+        .text();
+    let mut app = app_from(&text, Source::demo());
     keys(&mut app, "Tab +");
     let edited = app.state().clone();
     keys(&mut app, "u");

@@ -192,7 +192,7 @@ fn explorer_in_tmux_edits_saves_and_quits_cleanly() {
         dir.path(),
         &format!(
             "env NO_COLOR=1 TERM=xterm-256color {} explore link.toml",
-            env!("CARGO_BIN_EXE_dgpath")
+            crate::support::BIN
         ),
     );
     let s = t.wait("the first frame", |s| {
@@ -317,7 +317,7 @@ fn a_terminal_below_the_minimum_says_so_and_a_larger_one_draws_again() {
         dir.path(),
         &format!(
             "env NO_COLOR=1 TERM=xterm-256color {} explore fermenter.toml",
-            env!("CARGO_BIN_EXE_dgpath")
+            crate::support::BIN
         ),
     );
     t.wait("the first frame", |s| {

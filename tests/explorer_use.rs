@@ -419,7 +419,7 @@ fn one_key_table_makes_the_handling_the_overlay_and_the_hint_line() {
 #[test]
 fn screenshot_refuses_an_unknown_key_name_and_lists_the_valid_ones() {
     let dir = tempfile::tempdir().unwrap();
-    let out = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    let out = crate::support::dgpath()
         .args(["screenshot", "pathways/fermenter.toml", "-o"])
         .arg(dir.path().join("shot"))
         .args(["--keys", "Tab Frobnicate"])
@@ -434,7 +434,7 @@ fn screenshot_refuses_an_unknown_key_name_and_lists_the_valid_ones() {
     );
     assert!(!dir.path().join("shot.txt").exists(), "nothing written");
     // Quoted text is typed.
-    let ok = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    let ok = crate::support::dgpath()
         .args(["screenshot", "pathways/fermenter.toml", "-o"])
         .arg(dir.path().join("shot"))
         .args(["--keys", "Tab Down Down Enter '2.5 mM'"])

@@ -2,7 +2,7 @@
 //! carriers held in the optimisation (`held`, `--free-currencies`) and the
 //! ranges within which the route can run (`feasible_ranges_m`).
 
-use crate::support::{close, path, run, texts};
+use crate::support::{Pw, close, path, run, texts};
 use serde_json::Value;
 
 const DEMO: &str = "pathways/fermenter.toml";
@@ -149,23 +149,10 @@ fn carriers_are_held_and_listed() {
 
 /// The worked chain of science.md §5: dG'° = [−5, +10, −20, −5] kJ/mol, 1 µM–10 mM, 25 °C.
 fn worked_chain(dir: &std::path::Path, dg0: [f64; 4]) -> String {
-    let mut t = String::from(
-        "format = 1\n[pathway]\nname = \"chain\"\n[conditions]\ntemperature = \"25 C\"\n\
-         [analysis]\nbounds = [\"1 uM\", \"10 mM\"]\n[compounds]\n",
-    );
-    for i in 0..5 {
-        t.push_str(&format!("s{i} = {{ conc = \"0.1 mM\" }}\n"));
-    }
-    for (i, g) in dg0.iter().enumerate() {
-        t.push_str(&format!(
-            "[[steps]]\nid = \"r{}\"\nreaction = \"s{i} -> s{}\"\ndg0 = \"{g} kJ/mol\"\n",
-            i + 1,
-            i + 1
-        ));
-    }
-    let file = dir.join("chain.toml");
-    std::fs::write(&file, t).unwrap();
-    file.to_str().unwrap().to_string()
+    Pw::new("chain")
+        .bounds("1 uM", "10 mM")
+        .chain(&dg0, "0.1 mM")
+        .write(dir, "chain.toml")
 }
 
 #[test]
@@ -223,16 +210,12 @@ fn the_demo_optimum_with_carriers_held_and_freed_is_optimal() {
 #[test]
 fn the_total_sd_says_when_it_is_partial() {
     let dir = tempfile::tempdir().unwrap();
-    let file = dir.path().join("partial.toml");
-    std::fs::write(
-        &file,
-        "format = 1\n[pathway]\nname = \"p\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n\
-         a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\n\
-         [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = -5\ndg0_sd = 1.5\n\
-         [[steps]]\nid = \"s2\"\nreaction = \"b -> c\"\ndg0 = -5\n",
-    )
-    .unwrap();
-    let f = file.to_str().unwrap();
+    let file = Pw::new("p")
+        .compounds(&["a", "b", "c"], "1 mM")
+        .step_with("s1", "a -> b", "-5", &["dg0_sd = 1.5"])
+        .step("s2", "b -> c", "-5")
+        .write(dir.path(), "partial.toml");
+    let f = file.as_str();
     let (table, _) = texts(&run(&["report", f]));
     assert!(
         table.contains("± 1.50; 1 of 2 steps give no dg0_sd"),

@@ -3,21 +3,11 @@
 //! thresholds, verdict rules and units in files. Expected values are worked
 //! out by hand in the comments (RT = 2.478957 kJ/mol at 25 °C, science.md §1 [C]).
 
-use crate::support::{analyze, analyze_with, close, prepare_file, prepare_str, step};
+use crate::support::{Pw, analyze, analyze_with, close, prepare_file, prepare_str, step};
 use dgpath::analysis::{Class, Direction, Role, VerdictKind};
 use dgpath::thermo;
 
 const RT25: f64 = 8.314462618 * 298.15; // J/mol
-
-fn file(compounds: &str, steps: &str) -> String {
-    format!(
-        "format = 1\n[pathway]\nname = \"t\"\n[conditions]\ntemperature = \"25 C\"\n[compounds]\n{compounds}\n{steps}"
-    )
-}
-
-fn st(id: &str, reaction: &str, dg0: &str, extra: &str) -> String {
-    format!("[[steps]]\nid = \"{id}\"\nreaction = \"{reaction}\"\ndg0 = \"{dg0}\"\n{extra}\n")
-}
 
 #[test]
 fn roles_on_the_glycolysis_routes() {
@@ -44,20 +34,16 @@ fn roles_on_the_glycolysis_routes() {
 
 #[test]
 fn side_steps_make_branch_points_and_stay_out_of_the_totals() {
-    let text = file(
-        "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\nd = { conc = \"1 mM\" }\n\
-         atp = { conc = \"1 mM\", role = \"currency\" }\nadp = { conc = \"1 mM\", role = \"currency\" }",
-        &[
-            st("s1", "a -> b", "-20 kJ/mol", ""),
-            st("s2", "b -> c", "-20 kJ/mol", ""),
-            st("s3", "c -> a", "-1 kJ/mol", ""),
-            st("side1", "b + atp -> d + adp", "-3 kJ/mol", "side = true"),
-        ]
-        .concat(),
-    );
-    // s3 closes nothing: it is on the route (file order), so 'a' is an intermediate too.
-    let text = text.replace("c -> a", "c -> d");
-    let prep = prepare_str(&text, "side.toml");
+    // s3 closes nothing: it is on the route (file order).
+    let prep = Pw::new("t")
+        .compounds(&["a", "b", "c", "d"], "1 mM")
+        .currency("atp", "1 mM")
+        .currency("adp", "1 mM")
+        .step("s1", "a -> b", "-20 kJ/mol")
+        .step("s2", "b -> c", "-20 kJ/mol")
+        .step("s3", "c -> d", "-1 kJ/mol")
+        .side("side1", "b + atp -> d + adp", "-3 kJ/mol")
+        .prepare("side.toml");
     let a = analyze(&prep);
     let br = |id: &str| a.branch[prep.pathway.compound(id).unwrap()];
     assert!(
@@ -131,14 +117,12 @@ fn cumulative_is_the_running_sum_of_weighted_dg() {
 #[test]
 fn turns_follow_the_mass_balance_and_stated_times() {
     // a -> 2 b, b -> c: the second step turns twice per pass.
-    let c = "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }";
-    let prep = prepare_str(
-        &file(
-            c,
-            &[st("s1", "a -> 2 b", "-1", ""), st("s2", "b -> c", "-1", "")].concat(),
-        ),
-        "t.toml",
-    );
+    let abc = Pw::new("t").compounds(&["a", "b", "c"], "1 mM");
+    let prep = abc
+        .clone()
+        .step("s1", "a -> 2 b", "-1")
+        .step("s2", "b -> c", "-1")
+        .prepare("t.toml");
     let a = analyze(&prep);
     assert_eq!(
         a.steps.iter().map(|s| s.times).collect::<Vec<_>>(),
@@ -148,17 +132,10 @@ fn turns_follow_the_mass_balance_and_stated_times() {
     // ln(1e-3) = −6.907755, RT × that = −17.124029 kJ/mol.
     close(a.total_dg / 1e3, -3.0 - 17.124029, 1e-5);
     // Stating times = 4 on s2 makes s1 turn twice.
-    let prep = prepare_str(
-        &file(
-            c,
-            &[
-                st("s1", "a -> 2 b", "-1", ""),
-                st("s2", "b -> c", "-1", "times = 4"),
-            ]
-            .concat(),
-        ),
-        "t.toml",
-    );
+    let prep = abc
+        .step("s1", "a -> 2 b", "-1")
+        .step_with("s2", "b -> c", "-1", &["times = 4"])
+        .prepare("t.toml");
     let a = analyze(&prep);
     assert_eq!(
         a.steps.iter().map(|s| s.times).collect::<Vec<_>>(),
@@ -170,14 +147,11 @@ fn turns_follow_the_mass_balance_and_stated_times() {
 fn reverse_turns_keep_the_first_steps_turns() {
     // Forward a -> 2 b (1 turn), b -> c (2 turns). Reverse: c -> b (2 turns), 2 b -> a (1 turn):
     // the reversed first step keeps its 1 turn (pathway-format.md, reverse route).
-    let c = "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }";
-    let prep = prepare_str(
-        &file(
-            c,
-            &[st("s1", "a -> 2 b", "-1", ""), st("s2", "b -> c", "-1", "")].concat(),
-        ),
-        "t.toml",
-    );
+    let two = Pw::new("t")
+        .compounds(&["a", "b", "c"], "1 mM")
+        .step("s1", "a -> 2 b", "-1")
+        .step("s2", "b -> c", "-1");
+    let prep = two.prepare("t.toml");
     let a = analyze_with(&prep, |s| s.direction = Direction::Reverse);
     let got: Vec<(&str, f64)> = a
         .steps
@@ -186,20 +160,16 @@ fn reverse_turns_keep_the_first_steps_turns() {
         .collect();
     assert_eq!(got, [("s2", 2.0), ("s1", 1.0)]);
     // A bypass of s1 stands in for it and keeps s1's 1 turn.
-    let prep = prepare_str(
-        &file(
-            &format!(
-                "{c}\natp = {{ conc = \"1 mM\", role = \"currency\" }}\nadp = {{ conc = \"1 mM\", role = \"currency\" }}"
-            ),
-            &[
-                st("s1", "a -> 2 b", "-1", ""),
-                st("s2", "b -> c", "-1", ""),
-                st("back1", "2 b + atp -> a + adp", "-9", "bypass_of = \"s1\""),
-            ]
-            .concat(),
-        ),
-        "t.toml",
-    );
+    let prep = two
+        .currency("atp", "1 mM")
+        .currency("adp", "1 mM")
+        .step_with(
+            "back1",
+            "2 b + atp -> a + adp",
+            "-9",
+            &["bypass_of = \"s1\""],
+        )
+        .prepare("t.toml");
     let a = analyze_with(&prep, |s| s.direction = Direction::Reverse);
     let got: Vec<(&str, f64, f64)> = a
         .steps
@@ -221,20 +191,15 @@ fn reverse_turns_keep_the_first_steps_turns() {
 
 #[test]
 fn coupled_groups_sum_per_turn_dg() {
-    let c = "a = { conc = \"1 mM\" }\nb = { conc = \"10 mM\" }\nc = { conc = \"1 mM\" }\nd = { conc = \"1 mM\" }";
     // s2 uphill alone (+8 + RT ln(1/10) = +2.291990 kJ/mol), coupled to s3 (−12): group −9.708010.
-    let prep = prepare_str(
-        &file(
-            c,
-            &[
-                st("s1", "a -> b", "-20", ""),
-                st("s2", "b -> c", "8", "couple = \"s3\""),
-                st("s3", "c -> d", "-12", ""),
-            ]
-            .concat(),
-        ),
-        "t.toml",
-    );
+    let prep = Pw::new("t")
+        .compound("a", "1 mM")
+        .compound("b", "10 mM")
+        .compounds(&["c", "d"], "1 mM")
+        .step("s1", "a -> b", "-20")
+        .step_with("s2", "b -> c", "8", &["couple = \"s3\""])
+        .step("s3", "c -> d", "-12")
+        .prepare("t.toml");
     let a = analyze(&prep);
     assert_eq!(a.groups.len(), 1);
     assert_eq!(a.groups[0].members, [1, 2]);
@@ -281,15 +246,12 @@ fn class_boundaries() {
     assert_eq!(Class::of(near + 1.0, far, nf, RT25), Class::Uphill);
     assert_eq!(Class::of(-near - 1.0, far, nf, RT25), Class::Moderate);
     // Thresholds from [analysis]: far −15 kJ/mol, near within a factor of 100 (11.416020 kJ/mol).
-    let text = file(
-        "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }",
-        &st("s1", "a -> b", "-11", ""),
-    )
-    .replace(
-        "[compounds]",
-        "[analysis]\nfar = \"-15 kJ/mol\"\nnear_factor = 100\n[compounds]",
-    );
-    let prep = prepare_str(&text, "t.toml");
+    let prep = Pw::new("t")
+        .analysis("far = \"-15 kJ/mol\"")
+        .analysis("near_factor = 100")
+        .compounds(&["a", "b"], "1 mM")
+        .step("s1", "a -> b", "-11")
+        .prepare("t.toml");
     assert_eq!(analyze(&prep).steps[0].class, Class::Near);
     let a = analyze_with(&prep, |s| s.conc[1] = 0.1e-3); // −11 − 5.708 = −16.708: far
     assert_eq!(a.steps[0].class, Class::Far);
@@ -297,21 +259,15 @@ fn class_boundaries() {
 
 #[test]
 fn later_far_step_is_a_candidate_and_names_the_branch_point_between() {
-    let c = "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\", branch = true }\n\
-             d = { conc = \"1 mM\" }\ne = { conc = \"1 mM\" }";
-    let prep = prepare_str(
-        &file(
-            c,
-            &[
-                st("s1", "a -> b", "-20", ""),
-                st("s2", "b -> c", "-1", ""),
-                st("s3", "c -> d", "-20", ""),
-                st("s4", "d -> e", "-20", ""),
-            ]
-            .concat(),
-        ),
-        "t.toml",
-    );
+    let prep = Pw::new("t")
+        .compounds(&["a", "b"], "1 mM")
+        .compound_with("c", "1 mM", "branch = true")
+        .compounds(&["d", "e"], "1 mM")
+        .step("s1", "a -> b", "-20")
+        .step("s2", "b -> c", "-1")
+        .step("s3", "c -> d", "-20")
+        .step("s4", "d -> e", "-20")
+        .prepare("t.toml");
     let a = analyze(&prep);
     let got: Vec<(&str, VerdictKind)> = a
         .control
@@ -346,15 +302,15 @@ fn later_far_step_is_a_candidate_and_names_the_branch_point_between() {
 #[test]
 fn units_in_a_file() {
     // 1 kcal = 4.184 kJ (thermochemical calorie, by definition); scientific notation; µ and u.
-    let text = file(
-        "a = { conc = \"5e3uM\" }\nb = { conc = \"0.005 M\" }\nc = { conc = \"5000000 nM\" }\nd = { conc = 5 }",
-        &[
-            st("s1", "a -> b", "-4 kcal/mol", ""),
-            st("s2", "b => c", "-4000J/mol", ""),
-            st("s3", "c <-> d", "-4", ""),
-        ]
-        .concat(),
-    );
+    let text = Pw::new("t")
+        .compound("a", "5e3uM")
+        .compound("b", "0.005 M")
+        .compound("c", "5000000 nM")
+        .compound_line("d = { conc = 5 }")
+        .step("s1", "a -> b", "-4 kcal/mol")
+        .step("s2", "b => c", "-4000J/mol")
+        .step("s3", "c <-> d", "-4")
+        .text();
     let prep = prepare_str(&text, "u.toml");
     for c in &prep.pathway.compounds {
         close(c.conc.unwrap(), 5e-3, 1e-15);
@@ -371,19 +327,12 @@ fn units_in_a_file() {
 
 #[test]
 fn a_coupling_back_to_an_earlier_step_is_refused() {
-    let c = "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }";
-    let p = dgpath::model::load_str(
-        &file(
-            c,
-            &[
-                st("s1", "a -> b", "-1", ""),
-                st("s2", "b -> c", "-1", "couple = \"s1\""),
-            ]
-            .concat(),
-        ),
-        "t.toml",
-    )
-    .unwrap();
+    let text = Pw::new("t")
+        .compounds(&["a", "b", "c"], "1 mM")
+        .step("s1", "a -> b", "-1")
+        .step_with("s2", "b -> c", "-1", &["couple = \"s1\""])
+        .text();
+    let p = dgpath::model::load_str(&text, "t.toml").unwrap();
     let e = dgpath::analysis::prepare(p).unwrap_err();
     let m = e.to_string();
     assert!(
@@ -418,36 +367,15 @@ fn state_from_pathway_uses_the_files_values() {
 /// applies to a far step whose product it is.
 #[test]
 fn a_solvent_used_by_a_side_step_is_a_branch_point_as_the_format_says() {
-    let text = r#"format = 1
-[pathway]
-name = "water branch (test)"
-[conditions]
-temperature = "25 C"
-[compounds]
-a = { conc = "10 mM" }
-b = { conc = "1 uM" }
-c = { conc = "1 uM" }
-d = { conc = "1 uM" }
-w = { role = "solvent" }
-[[steps]]
-id = "s1"
-reaction = "a -> b + w"
-dg0 = "-20 kJ/mol"
-[[steps]]
-id = "s2"
-reaction = "b -> c"
-dg0 = "-20 kJ/mol"
-[[steps]]
-id = "s3"
-reaction = "c -> d"
-dg0 = "-20 kJ/mol"
-[[steps]]
-id = "leak"
-reaction = "d + w -> a"
-dg0 = "-5 kJ/mol"
-side = true
-"#;
-    let prep = prepare_str(text, "w.toml");
+    let prep = Pw::new("water branch (test)")
+        .compound("a", "10 mM")
+        .compounds(&["b", "c", "d"], "1 uM")
+        .solvent("w")
+        .step("s1", "a -> b + w", "-20 kJ/mol")
+        .step("s2", "b -> c", "-20 kJ/mol")
+        .step("s3", "c -> d", "-20 kJ/mol")
+        .side("leak", "d + w -> a", "-5 kJ/mol")
+        .prepare("w.toml");
     let a = analyze(&prep);
     let w = prep.pathway.compound("w").unwrap();
     assert!(a.branch[w], "water is used by the side step");
@@ -463,26 +391,12 @@ side = true
 
 #[test]
 fn a_step_left_out_of_an_explicit_route_is_named_in_the_notes() {
-    let text = r#"format = 1
-[pathway]
-name = "route subset (test)"
-route = ["s1"]
-[conditions]
-temperature = "25 C"
-[compounds]
-a = { conc = "1 mM" }
-b = { conc = "1 mM" }
-c = { conc = "1 mM" }
-[[steps]]
-id = "s1"
-reaction = "a -> b"
-dg0 = -3
-[[steps]]
-id = "s2"
-reaction = "b -> c"
-dg0 = -3
-"#;
-    let prep = prepare_str(text, "r.toml");
+    let prep = Pw::new("route subset (test)")
+        .route(&["s1"])
+        .compounds(&["a", "b", "c"], "1 mM")
+        .step("s1", "a -> b", "-3")
+        .step("s2", "b -> c", "-3")
+        .prepare("r.toml");
     let a = analyze(&prep);
     assert_eq!(a.steps.len(), 1);
     assert!(

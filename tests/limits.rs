@@ -3,12 +3,13 @@
 //! message that names the file and says what is wrong, and exit code 1, for
 //! both `dgpath check` and `dgpath report`.
 
+use crate::support::{BIN, dgpath};
 use std::path::Path;
 use std::process::Command;
 
 /// Runs `dgpath <cmd> <file>` and returns (exit code, stderr).
 fn run(cmd: &str, file: &Path) -> (Option<i32>, String) {
-    run_with(Command::new(env!("CARGO_BIN_EXE_dgpath")), cmd, file)
+    run_with(dgpath(), cmd, file)
 }
 
 /// Runs `<program> <cmd> <file>` and returns (exit code, stderr).
@@ -27,7 +28,7 @@ fn run_with(mut program: Command, cmd: &str, file: &Path) -> (Option<i32>, Strin
 
 /// Both commands refuse `file` with exit 1 and a message containing `phrase`.
 fn refused(file: &Path, phrase: &str) {
-    refused_by(|| Command::new(env!("CARGO_BIN_EXE_dgpath")), file, phrase);
+    refused_by(dgpath, file, phrase);
 }
 
 /// As `refused`, with the binary started by `program`.
@@ -129,7 +130,7 @@ fn unreadable_file_is_refused() {
     // the open test folder so that nobody can reach it wherever the checkout is.
     std::fs::set_permissions(dir.path(), std::fs::Permissions::from_mode(0o755)).unwrap();
     let bin = dir.path().join("dgpath");
-    std::fs::copy(env!("CARGO_BIN_EXE_dgpath"), &bin).unwrap();
+    std::fs::copy(BIN, &bin).unwrap();
     std::fs::set_permissions(&bin, std::fs::Permissions::from_mode(0o755)).unwrap();
     let as_nobody = || {
         let mut c = Command::new("setpriv");

@@ -1,28 +1,14 @@
 //! `dgpath mdf` through the binary: the JSON contract of cli.md, the worked
 //! chain of the science reference, the shared options, and bad input.
 
+use crate::support::run_code as run;
 use serde_json::Value;
 use std::path::PathBuf;
-use std::process::Command;
 
 fn data(name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
         .join("tests/data")
         .join(name)
-}
-
-/// Runs dgpath; returns (exit code, stdout, stderr).
-fn run(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_dgpath"))
-        .args(args)
-        .env("NO_COLOR", "1")
-        .output()
-        .expect("dgpath runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
 }
 
 fn mdf_json(file: &str, extra: &[&str]) -> Value {

@@ -1,22 +1,8 @@
 //! `dgpath plot`: the SVG parses back with the expected labels, the PNG
 //! decodes with text drawn, and the example plot in pathways/ is current.
 
+use crate::support::{root, run_in_root as dgpath};
 use resvg::{tiny_skia, usvg};
-use std::path::PathBuf;
-use std::process::{Command, Output};
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn dgpath(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_dgpath"))
-        .args(args)
-        .current_dir(root())
-        .env("NO_COLOR", "1")
-        .output()
-        .expect("the dgpath binary runs")
-}
 
 const PW: &str = "pathways/fermenter.toml";
 const DEMO: &str = "pathways/fermenter-samples.csv";

@@ -3,34 +3,21 @@
 //! transform, all or nothing, the 1 mM standard state and the warning above
 //! I = 0.3 M.
 
-use crate::support::{analyze, analyze_with, close, prepare_str, step};
+use crate::support::{Pw, analyze, analyze_with, close, prepare_str, step};
 use dgpath::thermo::{self, Reactant, transformed_formation};
 
 const T25: f64 = 298.15;
-
-/// A pathway text with these compounds and steps at 25 °C, pH 7, I = 0 (file
-/// conditions; reference conditions are the defaults unless `conditions` adds some).
-fn file(conditions: &str, compounds: &str, steps: &str) -> String {
-    format!(
-        "format = 1\n[pathway]\nname = \"t\"\n[conditions]\ntemperature = \"25 C\"\n{conditions}\n\
-         [compounds]\n{compounds}\n{steps}"
-    )
-}
 
 #[test]
 fn single_pka_through_a_file() {
     // science.md §4 check [C, from the formula]: A -> B, B with one pKa 6.8 (z −1, nH 0),
     // A one species (z 0, nH 0): pH 7 -> 6 at 25 °C, I = 0 shifts dG'° by −3.718 kJ/mol
     // (the old linear model gives 0 or −5.71).
-    let prep = prepare_str(
-        &file(
-            "",
-            "a = { conc = \"1 mM\", charge = 0, hydrogens = 0 }\n\
-             b = { conc = \"1 mM\", charge = -1, hydrogens = 0, pka = [6.8] }",
-            "[[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\n",
-        ),
-        "pka.toml",
-    );
+    let prep = Pw::new("t")
+        .compound_with("a", "1 mM", "charge = 0, hydrogens = 0")
+        .compound_with("b", "1 mM", "charge = -1, hydrogens = 0, pka = [6.8]")
+        .step("s1", "a -> b", "-5 kJ/mol")
+        .prepare("pka.toml");
     let a = analyze_with(&prep, |s| s.conditions.ph = 6.0);
     close(a.steps[0].dg0 / 1e3, -5.0 - 3.718, 5e-4);
     assert!(a.steps[0].species);
@@ -100,22 +87,40 @@ fn atp_hydrolysis_from_species_energies() {
     close(at(8.0), -41.074, 1e-3);
 }
 
-const HYDROLYSIS: &str = "atp = { conc = \"1 mM\", charge = -4, hydrogens = 12, pka = [7.60, 4.68] }\n\
-     adp = { conc = \"1 mM\", charge = -3, hydrogens = 12, pka = [7.18, 4.36] }\n\
-     pi = { conc = \"1 M\", charge = -2, hydrogens = 1, pka = [7.22] }\n\
-     h2o = { role = \"solvent\" }";
+/// The reactants of ATP hydrolysis with their species data (as `ATP`, `ADP`, `PI`).
+fn hydrolysis(p: Pw) -> Pw {
+    p.compound_with(
+        "atp",
+        "1 mM",
+        "charge = -4, hydrogens = 12, pka = [7.60, 4.68]",
+    )
+    .compound_with(
+        "adp",
+        "1 mM",
+        "charge = -3, hydrogens = 12, pka = [7.18, 4.36]",
+    )
+    .compound_with("pi", "1 M", "charge = -2, hydrogens = 1, pka = [7.22]")
+    .solvent("h2o")
+}
 
 #[test]
 fn atp_hydrolysis_moved_to_ph_8_through_a_file() {
     // science.md §4 [C]: the species give −36.041 at pH 7, I = 0.25 M, 25 °C and −41.074 at pH 8;
     // stated at the first as the reference, the step moves to the second. Equal concentrations
     // of ATP and ADP and 1 M phosphate make dG' = dG'°. protons = 1 agrees with −Σν nH.
-    let text = file(
-        "reference_ionic_strength = \"0.25 M\"\nionic_strength = \"0.25 M\"\nph = 8",
-        HYDROLYSIS,
-        "[[steps]]\nid = \"hyd\"\nreaction = \"atp + h2o -> adp + pi\"\ndg0 = \"-36.0409 kJ/mol\"\nprotons = 1\n",
-    );
-    let prep = prepare_str(&text, "hyd.toml");
+    let prep = hydrolysis(
+        Pw::new("t")
+            .condition("reference_ionic_strength = \"0.25 M\"")
+            .condition("ionic_strength = \"0.25 M\"")
+            .condition("ph = 8"),
+    )
+    .step_with(
+        "hyd",
+        "atp + h2o -> adp + pi",
+        "-36.0409 kJ/mol",
+        &["protons = 1"],
+    )
+    .prepare("hyd.toml");
     let a = analyze(&prep);
     close(a.steps[0].dg0 / 1e3, -41.074, 1e-3);
     close(a.steps[0].dg / 1e3, -41.074, 1e-3);
@@ -127,14 +132,13 @@ fn atp_hydrolysis_moved_to_ph_8_through_a_file() {
 fn hydration_without_charge_change_has_no_ionic_strength_dependence() {
     // science.md §4 check [C]: e(z −3, nH 5) -> f(z −3, nH 3) + H2O has no dependence on I at all,
     // because water (z 0, nH 2) is in the transform.
-    let text = file(
-        "ionic_strength = \"0.25 M\"",
-        "e = { conc = \"1 mM\", charge = -3, hydrogens = 5 }\n\
-         f = { conc = \"1 mM\", charge = -3, hydrogens = 3 }\n\
-         w = { role = \"solvent\" }",
-        "[[steps]]\nid = \"s1\"\nreaction = \"e -> f + w\"\ndg0 = \"3.4 kJ/mol\"\n",
-    );
-    let prep = prepare_str(&text, "hydration.toml");
+    let prep = Pw::new("t")
+        .condition("ionic_strength = \"0.25 M\"")
+        .compound_with("e", "1 mM", "charge = -3, hydrogens = 5")
+        .compound_with("f", "1 mM", "charge = -3, hydrogens = 3")
+        .solvent("w")
+        .step("s1", "e -> f + w", "3.4 kJ/mol")
+        .prepare("hydration.toml");
     for i in [0.05, 0.15, 0.25] {
         let a = analyze_with(&prep, |s| s.conditions.ionic_strength = i);
         close(a.steps[0].dg0 / 1e3, 3.4, 1e-9);
@@ -157,14 +161,14 @@ fn fumarase_in_the_succinate_demo() {
 fn all_or_nothing() {
     // b lacks charge and hydrogens: the step is moved by protons for pH and gets no
     // ionic-strength correction, although a and c have data; a note names b.
-    let text = file(
-        "ionic_strength = \"0.25 M\"\nph = 7.5",
-        "a = { conc = \"1 mM\", charge = -4, hydrogens = 12 }\n\
-         b = { conc = \"1 mM\" }\n\
-         c = { conc = \"1 mM\", charge = -2, hydrogens = 10 }",
-        "[[steps]]\nid = \"s1\"\nreaction = \"a + b -> c\"\ndg0 = \"-5 kJ/mol\"\nprotons = 1\n",
-    );
-    let prep = prepare_str(&text, "partial.toml");
+    let prep = Pw::new("t")
+        .condition("ionic_strength = \"0.25 M\"")
+        .condition("ph = 7.5")
+        .compound_with("a", "1 mM", "charge = -4, hydrogens = 12")
+        .compound("b", "1 mM")
+        .compound_with("c", "1 mM", "charge = -2, hydrogens = 10")
+        .step_with("s1", "a + b -> c", "-5 kJ/mol", &["protons = 1"])
+        .prepare("partial.toml");
     let a = analyze(&prep);
     // −protons × RT ln10 × ΔpH = −0.5 × 5.708010 [C, science.md §1].
     close(a.steps[0].dg0 / 1e3, -5.0 - 0.5 * 5.708010, 1e-6);
@@ -182,11 +186,16 @@ fn all_or_nothing() {
 fn standard_state_of_1_mm() {
     // a + b -> c stated at a 1 mM standard state: dG'° = dG'm − RT ln(1e-3) Σν, Σν = −1,
     // so dG'° = dG'm + RT ln(1e-3) = −5 − 17.124 kJ/mol at 25 °C [C, pathway-format.md].
-    let text = file(
-        "",
-        "a = { conc = \"1 mM\" }\nb = { conc = \"1 mM\" }\nc = { conc = \"1 mM\" }\nw = { role = \"solvent\" }",
-        "[[steps]]\nid = \"s1\"\nreaction = \"a + b -> c + w\"\ndg0 = \"-5 kJ/mol\"\nstandard = \"1 mM\"\n",
-    );
+    let text = Pw::new("t")
+        .compounds(&["a", "b", "c"], "1 mM")
+        .solvent("w")
+        .step_with(
+            "s1",
+            "a + b -> c + w",
+            "-5 kJ/mol",
+            &["standard = \"1 mM\""],
+        )
+        .text();
     let prep = prepare_str(&text, "mm.toml");
     let a = analyze(&prep);
     let want = -5.0 + thermo::rt(T25) * 1e-3f64.ln() / 1e3;
@@ -205,12 +214,11 @@ fn standard_state_of_1_mm() {
 #[test]
 fn ionic_strength_above_0_3_m_is_flagged_and_low_values_are_not() {
     // science.md §4: the extended Debye–Hückel term holds up to about I = 0.3 M.
-    let text = file(
-        "",
-        "a = { conc = \"1 mM\", charge = 0, hydrogens = 0 }\nb = { conc = \"1 mM\", charge = -4, hydrogens = 12 }",
-        "[[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\n",
-    );
-    let prep = prepare_str(&text, "i.toml");
+    let prep = Pw::new("t")
+        .compound_with("a", "1 mM", "charge = 0, hydrogens = 0")
+        .compound_with("b", "1 mM", "charge = -4, hydrogens = 12")
+        .step("s1", "a -> b", "-5 kJ/mol")
+        .prepare("i.toml");
     let high = analyze_with(&prep, |s| s.conditions.ionic_strength = 0.4);
     assert!(
         high.notes.iter().any(|n| n.contains("above 0.3 M")),

@@ -3,7 +3,9 @@
 //! from shared/design/science.md ([S] published and checked, [M] from memory
 //! of the named source, [C] computed from the formulas, [CP] common practice).
 
-use crate::support::{self, analyze, analyze_with, close, net, prepare_file, prepare_str, step};
+use crate::support::{
+    self, Pw, analyze, analyze_with, close, net, prepare_file, prepare_str, step,
+};
 use dgpath::analysis::{Class, Direction, VerdictKind};
 use dgpath::thermo;
 
@@ -163,12 +165,12 @@ fn atp4_ionic_strength_term_at_quarter_molar() {
 fn ionic_strength_correction_through_a_file() {
     // A step that makes one ATP⁴⁻-like species from a neutral one shifts dG'° by
     // 1 × (−3.239) kJ/mol at I = 0.25 M, 25 °C (science.md §4 [C]).
-    let text = "format = 1\n[pathway]\nname = \"i\"\n[conditions]\ntemperature = \"25 C\"\n\
-                ionic_strength = \"0.25 M\"\n[compounds]\n\
-                a = { conc = \"1 mM\", charge = 0, hydrogens = 0 }\n\
-                b = { conc = \"1 mM\", charge = -4, hydrogens = 12 }\n\
-                [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"-5 kJ/mol\"\n";
-    let prep = prepare_str(text, "ionic.toml");
+    let prep = Pw::new("i")
+        .condition("ionic_strength = \"0.25 M\"")
+        .compound_with("a", "1 mM", "charge = 0, hydrogens = 0")
+        .compound_with("b", "1 mM", "charge = -4, hydrogens = 12")
+        .step("s1", "a -> b", "-5 kJ/mol")
+        .prepare("ionic.toml");
     let a = analyze(&prep);
     close(a.steps[0].dg0 / 1e3, -5.0 - 3.239, 5e-4);
     // Above 0.3 M the correction is flagged (science.md §4).
@@ -204,14 +206,10 @@ fn rt_alpha_fit_matches_alberty_table() {
 
 /// A single step a -> b with equal concentrations, so dG' = dG'°, at 25 °C.
 fn one_step(dg0_kj: f64) -> dgpath::analysis::Prepared {
-    prepare_str(
-        &format!(
-            "format = 1\n[pathway]\nname = \"one\"\n[conditions]\ntemperature = \"25 C\"\n\
-             [compounds]\na = {{ conc = \"1 mM\" }}\nb = {{ conc = \"1 mM\" }}\n\
-             [[steps]]\nid = \"s1\"\nreaction = \"a -> b\"\ndg0 = \"{dg0_kj} kJ/mol\"\n"
-        ),
-        "one.toml",
-    )
+    Pw::new("one")
+        .compounds(&["a", "b"], "1 mM")
+        .step("s1", "a -> b", &format!("{dg0_kj} kJ/mol"))
+        .prepare("one.toml")
 }
 
 #[test]

@@ -64,7 +64,7 @@ fn overflowing_protons_give_an_error_not_nan() {
         "{e}"
     );
     // Through the binary: exit 1 with the message, no inf in sight.
-    let out = std::process::Command::new(env!("CARGO_BIN_EXE_dgpath"))
+    let out = crate::support::dgpath()
         .args(["report", "--format", "json"])
         .arg(fixture("overflowing-protons.toml"))
         .output()

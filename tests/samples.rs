@@ -1,29 +1,8 @@
 //! `report --samples`: the summary, the per-sample CSV and JSON, and the
 //! messages for a wrong samples table, all through the `dgpath` binary.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn dgpath(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_dgpath"))
-        .args(args)
-        .current_dir(root())
-        .env("NO_COLOR", "1")
-        .output()
-        .expect("the dgpath binary runs")
-}
-
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
+use crate::support::{root, run_in_root as dgpath, stderr, stdout};
+use std::path::Path;
 
 const PW: &str = "pathways/fermenter.toml";
 const DEMO: &str = "pathways/fermenter-samples.csv";

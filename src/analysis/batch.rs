@@ -8,6 +8,7 @@
 //! (10,000 samples × 12 steps is under 1 MB) so that quantiles are exact.
 
 use super::{Analysis, Class, Prepared, VerdictKind, analyze};
+use crate::model::Problem;
 use crate::model::samples::{Sample, SampleError};
 use crate::scenario::State;
 use rayon::prelude::*;
@@ -21,9 +22,9 @@ pub enum BatchError {
     /// A row of the samples table is wrong.
     #[error(transparent)]
     Samples(#[from] SampleError),
-    /// The route cannot be analysed (e.g. no reverse route).
+    /// The route or a sample cannot be analysed (e.g. no reverse route).
     #[error("{0}")]
-    Analysis(String),
+    Analysis(Problem),
     /// Writing a sample's output failed.
     #[error("writing output: {0}")]
     Write(#[from] std::io::Error),
@@ -297,7 +298,7 @@ where
 {
     let route = prep
         .route(base.direction)
-        .map_err(|e| BatchError::Analysis(e.to_string()))?;
+        .map_err(|e| BatchError::Analysis(e.clone()))?;
     let mut acc = Accumulator::new(route.steps.len());
     let mut it = samples.into_iter();
     let mut chunk: Vec<Sample> = Vec::with_capacity(CHUNK);
@@ -312,7 +313,7 @@ where
         if chunk.is_empty() {
             break;
         }
-        let results: Vec<Result<(String, Analysis, String), String>> = chunk
+        let results: Vec<Result<(String, Analysis, String), Problem>> = chunk
             .par_drain(..)
             .map(|s| {
                 let state = State {
@@ -320,7 +321,7 @@ where
                     conc: s.conc,
                     direction: base.direction,
                 };
-                let a = analyze(prep, &state).map_err(|e| e.to_string())?;
+                let a = analyze(prep, &state)?;
                 let text = render(&s.name, &a);
                 Ok((s.name, a, text))
             })

@@ -30,14 +30,14 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
     // The same checker as the file and the explorer (model::check).
     if let Some(t) = &c.temperature {
         s.conditions.temperature =
-            check::checked_quantity(t, units::Kind::Temperature).context("--temperature")?;
+            check::quantity(t, units::Kind::Temperature).context("--temperature")?;
     }
     if let Some(ph) = c.ph {
         s.conditions.ph = check::ph(ph).context("--ph")?;
     }
     if let Some(i) = &c.ionic_strength {
         s.conditions.ionic_strength =
-            check::checked_quantity(i, units::Kind::IonicStrength).context("--ionic-strength")?;
+            check::quantity(i, units::Kind::IonicStrength).context("--ionic-strength")?;
     }
     for item in &c.set {
         let (id, val) = item
@@ -58,7 +58,7 @@ pub fn state_from(prep: &Prepared, c: &Common) -> Result<State> {
                 });
             anyhow!("--set '{item}': no compound '{id}' in {}{hint}", p.file)
         })?;
-        let v = check::checked_concentration(val).with_context(|| format!("--set '{item}'"))?;
+        let v = check::concentration(val).with_context(|| format!("--set '{item}'"))?;
         if p.compounds[ci].is_solvent() {
             bail!(
                 "--set '{item}': '{id}' is a solvent (activity 1); its concentration does not enter Q"

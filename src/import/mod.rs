@@ -163,7 +163,7 @@ pub fn import(model: &Model, file: &str, opts: &Options) -> Result<Imported, Imp
     }
     let temperature = opts.temperature.clone().unwrap_or_else(|| "25 C".into());
     if let Err(m) =
-        crate::model::check::checked_quantity(&temperature, crate::model::units::Kind::Temperature)
+        crate::model::check::quantity(&temperature, crate::model::units::Kind::Temperature)
     {
         return Err(ImportError::new(
             file,

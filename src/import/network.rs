@@ -39,15 +39,20 @@ pub fn is_exchange(model: &Model, r: usize) -> bool {
         || st.iter().any(|&(s, _)| model.species[s].boundary)
 }
 
-/// Finds bypasses and branch points; `flipped` is per route position.
-pub fn analyse(
-    model: &Model,
-    route: &[usize],
-    flipped: &[bool],
-    kinds: &[Kind],
-    from: BranchesFrom,
-) -> Network {
-    // Per route position, the non-carrier compounds it uses and makes (as run).
+/// The route's non-carrier compounds.
+struct RouteUse {
+    /// Per species: used or made by the route.
+    on: Vec<bool>,
+    /// Those species in order of first use.
+    order: Vec<usize>,
+    /// Per route position, the compounds it uses (as run).
+    uses: Vec<Vec<usize>>,
+    /// Per route position, the compounds it makes (as run).
+    makes: Vec<Vec<usize>>,
+}
+
+/// Per route position, the non-carrier compounds it uses and makes (as run).
+fn route_use(model: &Model, route: &[usize], flipped: &[bool], kinds: &[Kind]) -> RouteUse {
     let mut on = vec![false; model.species.len()];
     let mut order = Vec::new();
     let mut uses: Vec<Vec<usize>> = Vec::with_capacity(route.len());
@@ -68,6 +73,28 @@ pub fn analyse(
         uses.push(u);
         makes.push(m);
     }
+    RouteUse {
+        on,
+        order,
+        uses,
+        makes,
+    }
+}
+
+/// Finds bypasses and branch points; `flipped` is per route position.
+pub fn analyse(
+    model: &Model,
+    route: &[usize],
+    flipped: &[bool],
+    kinds: &[Kind],
+    from: BranchesFrom,
+) -> Network {
+    let RouteUse {
+        on,
+        order,
+        uses,
+        makes,
+    } = route_use(model, route, flipped, kinds);
     let on_route = |r: usize| route.contains(&r);
     let mut bypasses = Vec::new();
     for (ri, r) in model.reactions.iter().enumerate() {

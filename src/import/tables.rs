@@ -82,8 +82,19 @@ pub struct ConcTable {
     pub rows: Vec<ConcRow>,
 }
 
+/// A column header whose unit is not written as `name [unit]`.
+#[derive(Debug, thiserror::Error)]
+enum HeaderError {
+    /// A `[` without its `]` (the header).
+    #[error("column '{0}' opens '[' but does not close it; write e.g. 'dg0 [kJ/mol]'")]
+    Unclosed(String),
+    /// Text after the `]` (the header).
+    #[error("column '{0}' has text after the unit; write e.g. 'dg0 [kJ/mol]'")]
+    AfterUnit(String),
+}
+
 /// `dg0 [kJ/mol]` -> ("dg0", Some("kJ/mol")).
-fn split_header(h: &str) -> Result<(String, Option<String>), String> {
+fn split_header(h: &str) -> Result<(String, Option<String>), HeaderError> {
     let h = h.trim();
     match h.find('[') {
         None => Ok((h.to_string(), None)),
@@ -91,14 +102,10 @@ fn split_header(h: &str) -> Result<(String, Option<String>), String> {
             let name = h[..i].trim().to_string();
             let rest = &h[i + 1..];
             let Some(j) = rest.find(']') else {
-                return Err(format!(
-                    "column '{h}' opens '[' but does not close it; write e.g. 'dg0 [kJ/mol]'"
-                ));
+                return Err(HeaderError::Unclosed(h.to_string()));
             };
             if !rest[j + 1..].trim().is_empty() {
-                return Err(format!(
-                    "column '{h}' has text after the unit; write e.g. 'dg0 [kJ/mol]'"
-                ));
+                return Err(HeaderError::AfterUnit(h.to_string()));
             }
             Ok((name, Some(rest[..j].trim().to_string())))
         }
@@ -127,7 +134,8 @@ fn columns(
     let mut sd_at = None;
     for (i, h) in headers.iter().enumerate() {
         let h = h.trim_start_matches('\u{feff}');
-        let (name, unit) = split_header(h).map_err(|m| ImportError::new(file, Some(1), m))?;
+        let (name, unit) =
+            split_header(h).map_err(|e| ImportError::new(file, Some(1), e.to_string()))?;
         match name.as_str() {
             n if n == key => key_at = Some(i),
             n if n == value => value_at = Some((i, unit)),
@@ -188,7 +196,7 @@ fn cell(
             ),
         ));
     };
-    let si = check::checked_quantity(&format!("{number} {unit}"), kind)
+    let si = check::quantity(&format!("{number} {unit}"), kind)
         .map_err(|m| ImportError::new(file, Some(line), format!("column '{column}': {m}")))?;
     if kind == Kind::Concentration && si <= 0.0 {
         return Err(ImportError::new(

@@ -236,6 +236,36 @@ impl Writer<'_> {
             out,
             "#   protons: the model's H+ (net H+ released as the step runs)"
         );
+        self.header_tables();
+        let (inp, out) = (self.inp, &mut self.out);
+        let _ = writeln!(
+            out,
+            "#   role: water is the solvent; carriers (ATP/ADP/AMP, GTP/GDP, UTP/UDP, CTP/CDP, NAD(P)+/NAD(P)H,"
+        );
+        let _ = writeln!(
+            out,
+            "#         FAD/FADH2, quinones/quinols, Pi, PPi, CoA) are currency, by common practice"
+        );
+        let from = match inp.opts.branches_from {
+            BranchesFrom::Network => {
+                "other reactions make or use (objective, exchange,\n#           sink, demand and bypass reactions not counted)"
+            }
+            BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
+        };
+        let _ = writeln!(out, "#   branch: route compounds that {from}");
+        let _ = writeln!(
+            out,
+            "#   bypass_of: reactions that run part of the route backward (used by --reverse)"
+        );
+        let _ = writeln!(
+            out,
+            "# \"?\" is not a value: dgpath check lists each one until it is filled in."
+        );
+    }
+
+    /// The header's lines on the dg0 and conc tables (or their absence).
+    fn header_tables(&mut self) {
+        let (inp, out) = (self.inp, &mut self.out);
         match &inp.opts.dg0 {
             Some(t) => {
                 let _ = writeln!(
@@ -262,29 +292,6 @@ impl Writer<'_> {
                 );
             }
         }
-        let _ = writeln!(
-            out,
-            "#   role: water is the solvent; carriers (ATP/ADP/AMP, GTP/GDP, UTP/UDP, CTP/CDP, NAD(P)+/NAD(P)H,"
-        );
-        let _ = writeln!(
-            out,
-            "#         FAD/FADH2, quinones/quinols, Pi, PPi, CoA) are currency, by common practice"
-        );
-        let from = match inp.opts.branches_from {
-            BranchesFrom::Network => {
-                "other reactions make or use (objective, exchange,\n#           sink, demand and bypass reactions not counted)"
-            }
-            BranchesFrom::All => "any other reaction makes or uses (--branches-from all)",
-        };
-        let _ = writeln!(out, "#   branch: route compounds that {from}");
-        let _ = writeln!(
-            out,
-            "#   bypass_of: reactions that run part of the route backward (used by --reverse)"
-        );
-        let _ = writeln!(
-            out,
-            "# \"?\" is not a value: dgpath check lists each one until it is filled in."
-        );
     }
 
     fn pathway_and_conditions(&mut self) {
@@ -389,8 +396,6 @@ impl Writer<'_> {
     fn step(&mut self, st: &StepOut) {
         let (inp, m) = (self.inp, self.inp.model);
         let ids = &self.ids;
-        let out = &mut self.out;
-        let notes = &mut self.notes;
         let r = &m.reactions[st.reaction];
         let id = self.rids[st.reaction].clone();
         let sign = if st.flipped { -1.0 } else { 1.0 };
@@ -408,7 +413,41 @@ impl Writer<'_> {
             .filter(|&&(sp, _)| inp.kinds[sp] == Kind::Proton)
             .map(|&(_, v)| v * sign)
             .sum();
-        out.push_str("\n[[steps]]\n");
+        let reaction = format!("{} -> {}", side(-1.0), side(1.0));
+        self.out.push_str("\n[[steps]]\n");
+        self.step_comments(st, &id);
+        let out = &mut self.out;
+        let _ = writeln!(out, "id = {}", quote(&id));
+        if !r.name.is_empty() {
+            let _ = writeln!(out, "enzyme = {}", quote(&r.name));
+        }
+        let _ = writeln!(out, "reaction = {}", quote(&reaction));
+        self.dg0_lines(st, &id);
+        self.protons(st, &id, protons);
+        let out = &mut self.out;
+        if let Some(of) = &st.bypass_of {
+            let extra = if st.undoes_more.is_empty() {
+                String::new()
+            } else {
+                format!(
+                    "; it also undoes {}, which still run backward in the reverse route",
+                    st.undoes_more.join(", ")
+                )
+            };
+            let _ = writeln!(
+                out,
+                "bypass_of = {}   # undoes {of}: a reaction of the model that runs it backward{extra}",
+                quote(of)
+            );
+        }
+    }
+
+    /// The comments above a step (turned from the model's direction, crossing
+    /// compartments), with their notes.
+    fn step_comments(&mut self, st: &StepOut, id: &str) {
+        let m = self.inp.model;
+        let (out, notes) = (&mut self.out, &mut self.notes);
+        let r = &m.reactions[st.reaction];
         if st.flipped {
             let _ = writeln!(
                 out,
@@ -441,33 +480,6 @@ impl Writer<'_> {
                 "step '{id}' crosses compartments ({}): its dg0 must include the membrane terms",
                 list.join(", ")
             ));
-        }
-        let _ = writeln!(out, "id = {}", quote(&id));
-        if !r.name.is_empty() {
-            let _ = writeln!(out, "enzyme = {}", quote(&r.name));
-        }
-        let _ = writeln!(
-            out,
-            "reaction = {}",
-            quote(&format!("{} -> {}", side(-1.0), side(1.0)))
-        );
-        self.dg0_lines(st, &id);
-        self.protons(st, &id, protons);
-        let out = &mut self.out;
-        if let Some(of) = &st.bypass_of {
-            let extra = if st.undoes_more.is_empty() {
-                String::new()
-            } else {
-                format!(
-                    "; it also undoes {}, which still run backward in the reverse route",
-                    st.undoes_more.join(", ")
-                )
-            };
-            let _ = writeln!(
-                out,
-                "bypass_of = {}   # undoes {of}: a reaction of the model that runs it backward{extra}",
-                quote(of)
-            );
         }
     }
 

@@ -91,13 +91,13 @@ pub fn plausible(si: f64, kind: Kind) -> Result<f64, CheckError> {
 }
 
 /// Parses a quantity with its unit and checks it against its limits.
-pub fn checked_quantity(text: &str, kind: Kind) -> Result<f64, CheckError> {
+pub fn quantity(text: &str, kind: Kind) -> Result<f64, CheckError> {
     plausible(units::parse(text, kind)?, kind)
 }
 
 /// Parses a concentration that must be positive ("2.5 mM", "80 uM", "0.5").
-pub fn checked_concentration(text: &str) -> Result<f64, CheckError> {
-    let c = checked_quantity(text, Kind::Concentration)?;
+pub fn concentration(text: &str) -> Result<f64, CheckError> {
+    let c = quantity(text, Kind::Concentration)?;
     if c <= 0.0 {
         return Err(CheckError::NotPositive(super::pathway::shorten(
             text.trim(),
@@ -106,24 +106,12 @@ pub fn checked_concentration(text: &str) -> Result<f64, CheckError> {
     Ok(c)
 }
 
-/// `checked_quantity` with the message as text, as the explorer's edit line
-/// (`tui/edit.rs`) still takes it.
-pub fn quantity(text: &str, kind: Kind) -> Result<f64, String> {
-    checked_quantity(text, kind).map_err(|e| e.to_string())
-}
-
-/// `checked_concentration` with the message as text (see `quantity`).
-pub fn concentration(text: &str) -> Result<f64, String> {
-    checked_concentration(text).map_err(|e| e.to_string())
-}
-
-/// Checks a concentration already in mol/L (a stepped value in the explorer),
-/// with the message as text, as the explorer's status line takes it.
-pub fn concentration_si(c: f64) -> Result<f64, String> {
+/// Checks a concentration already in mol/L (a stepped value in the explorer).
+pub fn concentration_si(c: f64) -> Result<f64, CheckError> {
     if c > 0.0 {
-        plausible(c, Kind::Concentration).map_err(|e| e.to_string())
+        plausible(c, Kind::Concentration)
     } else {
-        Err(CheckError::StepToZero.to_string())
+        Err(CheckError::StepToZero)
     }
 }
 
@@ -141,14 +129,8 @@ pub fn ph(value: f64) -> Result<f64, CheckError> {
     }
 }
 
-/// Parses and checks a pH typed as text ("7.2"), with the message as text
-/// (see `quantity`).
-pub fn ph_text(text: &str) -> Result<f64, String> {
-    checked_ph_text(text).map_err(|e| e.to_string())
-}
-
 /// Parses and checks a pH typed as text ("7.2").
-pub fn checked_ph_text(text: &str) -> Result<f64, CheckError> {
+pub fn ph_text(text: &str) -> Result<f64, CheckError> {
     let t = text.trim();
     let v: f64 = t
         .parse()
@@ -188,30 +170,41 @@ mod tests {
 
     #[test]
     fn absurd_values_are_refused_with_the_limit_in_the_message() {
-        let e = concentration("1e308 M").unwrap_err();
+        let e = concentration("1e308 M").unwrap_err().to_string();
         assert!(e.contains("1 fM–10 M") && e.contains("1.000e308 M"), "{e}");
-        let e = quantity("-1e6 kJ/mol", Kind::Energy).unwrap_err();
+        let e = quantity("-1e6 kJ/mol", Kind::Energy)
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("3000 kJ/mol") && e.contains("-1.000e6"), "{e}");
         assert!(
             concentration("1e-30 M")
                 .unwrap_err()
+                .to_string()
                 .contains("1.000e-30 M")
         );
         assert!(
             quantity("1000 K", Kind::Temperature)
                 .unwrap_err()
+                .to_string()
                 .contains("0–100 °C")
         );
         assert!(
             quantity("2 M", Kind::IonicStrength)
                 .unwrap_err()
+                .to_string()
                 .contains("0–1 M")
         );
         assert!(ph_text("15").unwrap_err().to_string().contains("0–14"));
-        assert!(ph_text("seven").unwrap_err().contains("not a number"));
+        assert!(
+            ph_text("seven")
+                .unwrap_err()
+                .to_string()
+                .contains("not a number")
+        );
         assert!(
             concentration("0 mM")
                 .unwrap_err()
+                .to_string()
                 .contains("not above zero")
         );
     }

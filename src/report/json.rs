@@ -311,21 +311,24 @@ pub fn report_json(prep: &Prepared, state: &State, a: &Analysis, u: EnergyUnit) 
                 })
                 .collect()
         }),
-        bypasses: reverse.then(|| {
-            a.steps
-                .iter()
-                .enumerate()
-                .filter_map(|(k, s)| {
-                    s.replaces.map(|r| BypassJson {
-                        step: id(k),
-                        replaces: p.steps[r].id.clone(),
-                        counterpart: a.counterpart == Some(k),
-                    })
-                })
-                .collect()
-        }),
+        bypasses: reverse.then(|| bypasses_json(p, a)),
         notes: crate::present::notes(a, u),
     }
+}
+
+/// The reverse route's steps that stand in for forward steps.
+fn bypasses_json(p: &crate::model::Pathway, a: &Analysis) -> Vec<BypassJson> {
+    a.steps
+        .iter()
+        .enumerate()
+        .filter_map(|(k, s)| {
+            s.replaces.map(|r| BypassJson {
+                step: p.steps[s.step].id.clone(),
+                replaces: p.steps[r].id.clone(),
+                counterpart: a.counterpart == Some(k),
+            })
+        })
+        .collect()
 }
 
 /// The JSON document as a `serde_json::Value` (for callers that read fields).

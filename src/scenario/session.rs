@@ -4,10 +4,10 @@
 //! screen state; nothing here knows about keys, panes or messages.
 
 use super::optimum::{Answer, Background, FeasibleRange, LIVE_MDF_SYNC_STEPS, LiveMdf};
-use super::save::{self, DiskStamp};
+use super::save::{self, DiskStamp, SaveError};
 use super::{Direction, Scenario, State};
 use crate::analysis::{self, Analysis, Prepared};
-use crate::model::{self, Pathway};
+use crate::model::{self, LoadError, Pathway, Problem};
 use std::path::PathBuf;
 use std::sync::Arc;
 
@@ -65,15 +65,77 @@ pub struct Session {
     pub bad_stamp: Option<DiskStamp>,
 }
 
+/// Why the session refused an edit, a write or a reload; each message is
+/// worded here once, for the explorer's status line.
+#[derive(Debug, thiserror::Error)]
+pub enum SessionError {
+    /// The analysis refused the state (its message without the file name).
+    #[error("{}", .0.message)]
+    Refused(Problem),
+    /// `write` on the built-in demo.
+    #[error("the built-in demo has no file")]
+    NoFile,
+    /// Writing into the session's own file failed.
+    #[error(transparent)]
+    Save(#[from] SaveError),
+    /// Writing to a new file failed.
+    #[error("{}: {source}", path.display())]
+    SaveTo {
+        /// The file that was to be written.
+        path: PathBuf,
+        /// Why it was not.
+        #[source]
+        source: SaveError,
+    },
+    /// The file was written but does not load again.
+    #[error("written, but the file does not read back: {0}")]
+    ReadBack(#[source] LoadError),
+    /// The file changed on disk and its new text does not load.
+    #[error(
+        "file changed but does not load: {} — showing the last good state",
+        first_problem(.0)
+    )]
+    ReloadLoad(LoadError),
+    /// The file changed on disk and loads, but the state cannot be analysed.
+    #[error("file changed but cannot be analysed: {0}")]
+    ReloadAnalyse(Problem),
+}
+
+/// The first problem of a load error as text (empty when there is none).
+fn first_problem(e: &LoadError) -> String {
+    e.problems
+        .first()
+        .map(|p| p.to_string())
+        .unwrap_or_default()
+}
+
+/// A file that could not be read; shared, so a poll's answer can be passed
+/// around as a message.
+#[derive(Debug, Clone, thiserror::Error)]
+#[error("{0}")]
+pub struct ReadError(#[source] pub Arc<std::io::Error>);
+
+impl From<std::io::Error> for ReadError {
+    fn from(e: std::io::Error) -> Self {
+        ReadError(Arc::new(e))
+    }
+}
+
+impl PartialEq for ReadError {
+    fn eq(&self, other: &Self) -> bool {
+        self.0.kind() == other.0.kind() && self.0.to_string() == other.0.to_string()
+    }
+}
+
 /// What a look at the file on disk found.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Poll {
     /// Nothing new.
     Unchanged,
-    /// The file cannot be read just now; the message says why.
-    Unreadable(String),
+    /// The file cannot be read just now, and why.
+    Unreadable(ReadError),
     /// The contents changed: the new text, or why it could not be read.
-    Changed(Result<String, String>),
+    Changed(Result<String, ReadError>),
 }
 
 /// A reload that took: how many unsaved edits were kept, and the pathway before it.
@@ -132,13 +194,13 @@ impl Session {
     /// Applies an undoable edit. The edited state is analysed first: an edit
     /// the analysis refuses never enters the history (so the redo history
     /// survives it). Ok(false) when nothing changed; Err says why it was refused.
-    pub fn edit(&mut self, f: impl FnOnce(&mut State)) -> Result<bool, String> {
+    pub fn edit(&mut self, f: impl FnOnce(&mut State)) -> Result<bool, SessionError> {
         let mut next = self.state().clone();
         f(&mut next);
         if &next == self.state() {
             return Ok(false);
         }
-        let a = analysis::analyze(&self.prep, &next).map_err(|e| e.message)?;
+        let a = analysis::analyze(&self.prep, &next).map_err(SessionError::Refused)?;
         self.scenario.edit(|s| *s = next);
         self.install(a);
         Ok(true)
@@ -147,7 +209,7 @@ impl Session {
     /// Recomputes for the current state (after undo, redo or a save). A state
     /// in the history was analysed when it was made, so a failure here is
     /// unexpected; it steps back one edit and says why.
-    pub fn recompute(&mut self) -> Result<(), String> {
+    pub fn recompute(&mut self) -> Result<(), SessionError> {
         match analysis::analyze(&self.prep, self.state()) {
             Ok(a) => {
                 self.install(a);
@@ -155,7 +217,7 @@ impl Session {
             }
             Err(e) => {
                 self.scenario.undo();
-                Err(e.message)
+                Err(SessionError::Refused(e))
             }
         }
     }
@@ -299,28 +361,34 @@ impl Session {
 
     /// Writes `state` into the session's file and makes the written text the
     /// new base. Err when there is no file or the write failed.
-    pub fn write(&mut self, state: &State) -> Result<(), String> {
+    pub fn write(&mut self, state: &State) -> Result<(), SessionError> {
         let Some(path) = self.source.path.clone() else {
-            return Err("the built-in demo has no file".into());
+            return Err(SessionError::NoFile);
         };
-        let text = save::save(&path, &self.source.text, self.pathway(), state)
-            .map_err(|e| e.to_string())?;
+        let text = save::save(&path, &self.source.text, self.pathway(), state)?;
         self.take_written(path, self.source.name.clone(), text)
     }
 
     /// Writes the pathway with `state` to a new file and goes on with that file.
-    pub fn write_to(&mut self, path: PathBuf, state: &State) -> Result<(), String> {
-        let text = save::save(&path, &self.source.text, self.pathway(), state)
-            .map_err(|e| format!("{}: {e}", path.display()))?;
+    pub fn write_to(&mut self, path: PathBuf, state: &State) -> Result<(), SessionError> {
+        let text = match save::save(&path, &self.source.text, self.pathway(), state) {
+            Ok(t) => t,
+            Err(source) => return Err(SessionError::SaveTo { path, source }),
+        };
         let name = path.display().to_string();
         self.take_written(path, name, text)
     }
 
     /// The file now says what was written: read it back as the new base.
-    fn take_written(&mut self, path: PathBuf, name: String, text: String) -> Result<(), String> {
+    fn take_written(
+        &mut self,
+        path: PathBuf,
+        name: String,
+        text: String,
+    ) -> Result<(), SessionError> {
         let prep = model::load_str(&text, &name)
             .and_then(analysis::prepare)
-            .map_err(|e| format!("written, but the file does not read back: {e}"))?;
+            .map_err(SessionError::ReadBack)?;
         self.prep = Arc::new(prep);
         self.source = Source {
             path: Some(path.clone()),
@@ -344,7 +412,7 @@ impl Session {
         let now = match DiskStamp::read(&path) {
             Ok(n) => n,
             // Gone for a moment (an editor replacing it) or unreadable.
-            Err(e) => return Poll::Unreadable(e.to_string()),
+            Err(e) => return Poll::Unreadable(e.into()),
         };
         if !now.content_differs(&known) {
             // Only the time changed: remember it so the cheap check stays quiet.
@@ -355,7 +423,7 @@ impl Session {
             }
             return Poll::Unchanged;
         }
-        let text = std::fs::read_to_string(&path).map_err(|e| e.to_string());
+        let text = std::fs::read_to_string(&path).map_err(ReadError::from);
         if text.is_err() {
             self.bad_stamp = Some(now);
         }
@@ -365,7 +433,7 @@ impl Session {
     /// Takes the file's new text: unsaved edits are kept where the compounds
     /// remain, in the current state and throughout the history. Err (with
     /// the first problem) leaves the session as it was.
-    pub fn reload(&mut self, text: String) -> Result<Reloaded, String> {
+    pub fn reload(&mut self, text: String) -> Result<Reloaded, SessionError> {
         let stamp_now = self
             .source
             .path
@@ -375,14 +443,7 @@ impl Session {
             Ok(p) => p,
             Err(e) => {
                 self.bad_stamp = stamp_now.or(Some(DiskStamp::of_text(&text, None)));
-                let first = e
-                    .problems
-                    .first()
-                    .map(|p| p.to_string())
-                    .unwrap_or_default();
-                return Err(format!(
-                    "file changed but does not load: {first} — showing the last good state"
-                ));
+                return Err(SessionError::ReloadLoad(e));
             }
         };
         let old = self.prep.pathway.clone();
@@ -399,7 +460,7 @@ impl Session {
             Ok(a) => a,
             Err(e) => {
                 self.bad_stamp = stamp_now;
-                return Err(format!("file changed but cannot be analysed: {e}"));
+                return Err(SessionError::ReloadAnalyse(e));
             }
         };
         let kept = prep
@@ -508,12 +569,12 @@ mod tests {
         let (_dir, path, mut s) = on_disk();
         let f6p = s.pathway().compound("f6p").unwrap();
         let dg_before = s.analysis.steps[2].dg;
-        assert_eq!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(true));
+        assert!(matches!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(true)));
         assert_ne!(
             s.analysis.steps[2].dg, dg_before,
             "the analysis follows the edit"
         );
-        assert_eq!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(false));
+        assert!(matches!(s.edit(|st| st.conc[f6p] = 2.5e-3), Ok(false)));
         assert!(s.edit(|st| st.conc[f6p] = f64::NAN).is_err());
         assert_eq!(s.poll(), Poll::Unchanged);
         // An outside change is seen and reloaded; the edit and its undo stay.

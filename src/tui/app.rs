@@ -413,7 +413,7 @@ impl App {
 
     pub(super) fn set_conc(&mut self, i: usize, v: f64) {
         if let Err(e) = crate::model::check::concentration_si(v) {
-            self.say(e, Tone::Warn);
+            self.say(e.to_string(), Tone::Warn);
             return;
         }
         if !self.commit(|s| s.conc[i] = v) {

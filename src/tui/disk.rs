@@ -3,7 +3,7 @@
 
 use super::app::{App, Message, Mode, Target, Tone};
 use crate::scenario::save;
-use crate::scenario::session::Poll;
+use crate::scenario::session::{Poll, ReadError};
 use std::path::PathBuf;
 
 impl App {
@@ -61,7 +61,7 @@ impl App {
             return;
         }
         match self.session.write(&state) {
-            Err(e) => self.say(e, Tone::Warn),
+            Err(e) => self.say(e.to_string(), Tone::Warn),
             Ok(()) => {
                 self.after_change();
                 let what = match self.sample_name() {
@@ -123,7 +123,7 @@ impl App {
         }
     }
 
-    pub(super) fn reload(&mut self, r: Result<String, String>) {
+    pub(super) fn reload(&mut self, r: Result<String, ReadError>) {
         let text = match r {
             Ok(t) => t,
             Err(e) => {
@@ -143,7 +143,7 @@ impl App {
             .get(self.comp_sel)
             .map(|c| c.id.clone());
         match self.session.reload(text) {
-            Err(e) => self.say(e, Tone::Warn),
+            Err(e) => self.say(e.to_string(), Tone::Warn),
             Ok(r) => {
                 self.after_change();
                 self.comp_sel = keep_comp

@@ -3,30 +3,53 @@
 
 use super::app::{App, Mode, Pane, Target, Tone};
 use crate::analysis::mdf::Part;
+use crate::model::Pathway;
+use crate::model::check::{self, CheckError};
 use crate::model::units::Kind;
-use crate::model::{Pathway, check};
 use crate::scenario::optimum::{LiveMdf, round_conc_sig3};
 
 /// Why a value typed into an edit line was refused.
-fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, String> {
+#[derive(Debug, thiserror::Error)]
+enum EditError {
+    /// Enter on an empty line.
+    #[error("type a value, or Esc to cancel")]
+    Empty,
+    /// A concentration of zero or less, with the compound it was typed for.
+    #[error("{source} (for {id})")]
+    NotPositive {
+        /// The checker's refusal.
+        source: CheckError,
+        /// The compound's id.
+        id: String,
+    },
+    /// Any other refusal of the checker.
+    #[error(transparent)]
+    Check(#[from] CheckError),
+    /// A file name line read as a number (never reached: it has its own arm).
+    #[error("a file name is not a number")]
+    FileName,
+}
+
+/// Parses and checks a value typed into an edit line.
+fn parse_target(p: &Pathway, target: Target, text: &str) -> Result<f64, EditError> {
     let t = text.trim();
     if t.is_empty() {
-        return Err("type a value, or Esc to cancel".into());
+        return Err(EditError::Empty);
     }
     // The same checker as the file and the command line (model::check).
-    match target {
-        Target::Conc(i) => check::concentration(t).map_err(|e| {
-            if e.contains("not above zero") {
-                format!("{e} (for {})", p.compounds[i].id)
-            } else {
-                e
-            }
-        }),
-        Target::Temperature => check::quantity(t, Kind::Temperature),
-        Target::Ph => check::ph_text(t),
-        Target::IonicStrength => check::quantity(t, Kind::IonicStrength),
-        Target::FileName => Err("a file name is not a number".into()),
-    }
+    Ok(match target {
+        Target::Conc(i) => check::concentration(t).map_err(|e| match e {
+            CheckError::NotPositive(_) => EditError::NotPositive {
+                source: e,
+                id: p.compounds[i].id.clone(),
+            },
+            e => EditError::Check(e),
+        })?,
+        Target::Temperature => check::quantity(t, Kind::Temperature)?,
+        Target::Ph => check::ph_text(t)?,
+        Target::IonicStrength => check::quantity(t, Kind::IonicStrength)?,
+        Target::FileName => return Err(EditError::FileName),
+    })
 }
 
 impl App {
@@ -157,7 +180,7 @@ impl App {
                         self.mode = Mode::Edit {
                             target,
                             buffer,
-                            error: Some(e),
+                            error: Some(e.to_string()),
                         }
                     }
                     Ok(v) => match target {

@@ -5,7 +5,7 @@
 //! and box lines join (crispEdges, cell height about 1.17 × font size).
 
 use super::app::App;
-use super::keys::parse_keys;
+use super::keys::{KeyError, parse_keys};
 use super::view;
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;
@@ -21,7 +21,7 @@ pub fn render_buffer(app: &App, width: u16, height: u16) -> Buffer {
 }
 
 /// Replays a key script (see `parse_keys`) into the app.
-pub fn replay(app: &mut App, script: &str) -> Result<(), String> {
+pub fn replay(app: &mut App, script: &str) -> Result<(), KeyError> {
     for k in parse_keys(script)? {
         // Each key sees the screen as a person who waited for the
         // background solver would (long routes only; short ones solve in the key).
@@ -34,12 +34,28 @@ pub fn replay(app: &mut App, script: &str) -> Result<(), String> {
     Ok(())
 }
 
+/// Why a screen size was refused; the caller names the text given.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SizeError {
+    /// Not two whole numbers joined by `x`.
+    #[error("write WIDTHxHEIGHT, e.g. 120x36 (40x12 at least)")]
+    NotASize,
+    /// A size outside 40x12 to 400x200 (width, height).
+    #[error("write WIDTHxHEIGHT, e.g. 120x36 (40x12 at least)")]
+    OutOfRange(u16, u16),
+}
+
 /// Reads a screen size written as WIDTHxHEIGHT (e.g. 120x36).
-pub fn parse_size(size: &str) -> Result<(u16, u16), String> {
-    size.split_once('x')
+pub fn parse_size(size: &str) -> Result<(u16, u16), SizeError> {
+    let (w, h) = size
+        .split_once('x')
         .and_then(|(w, h)| Some((w.trim().parse::<u16>().ok()?, h.trim().parse::<u16>().ok()?)))
-        .filter(|&(w, h)| (40..=400).contains(&w) && (12..=200).contains(&h))
-        .ok_or_else(|| format!("'{size}': write WIDTHxHEIGHT, e.g. 120x36 (40x12 at least)"))
+        .ok_or(SizeError::NotASize)?;
+    if (40..=400).contains(&w) && (12..=200).contains(&h) {
+        Ok((w, h))
+    } else {
+        Err(SizeError::OutOfRange(w, h))
+    }
 }
 
 /// Replays `keys` into the app and returns the screen as (text, SVG).
@@ -48,7 +64,7 @@ pub fn screenshot(
     keys: &str,
     width: u16,
     height: u16,
-) -> Result<(String, String), String> {
+) -> Result<(String, String), KeyError> {
     replay(app, keys)?;
     app.finish_idle_work();
     let buf = render_buffer(app, width, height);
@@ -124,6 +140,24 @@ fn esc(s: &str) -> String {
         .replace('>', "&gt;")
 }
 
+/// SVG attributes for a text run's modifiers (bold, italic, underlined, dim).
+fn text_attrs(m: Modifier) -> String {
+    let mut attrs = String::new();
+    if m.contains(Modifier::BOLD) {
+        attrs.push_str(r#" font-weight="bold""#);
+    }
+    if m.contains(Modifier::ITALIC) {
+        attrs.push_str(r#" font-style="italic""#);
+    }
+    if m.contains(Modifier::UNDERLINED) {
+        attrs.push_str(r#" text-decoration="underline""#);
+    }
+    if m.contains(Modifier::DIM) {
+        attrs.push_str(r#" opacity="0.6""#);
+    }
+    attrs
+}
+
 /// The buffer as an SVG picture.
 pub fn to_svg(buf: &Buffer) -> String {
     let font = 14.0_f64;
@@ -176,20 +210,7 @@ pub fn to_svg(buf: &Buffer) -> String {
             }
             let text: String = cells[x..e].iter().map(|c| c.3).collect();
             if !text.trim().is_empty() {
-                let m = cells[x].2;
-                let mut attrs = String::new();
-                if m.contains(Modifier::BOLD) {
-                    attrs.push_str(r#" font-weight="bold""#);
-                }
-                if m.contains(Modifier::ITALIC) {
-                    attrs.push_str(r#" font-style="italic""#);
-                }
-                if m.contains(Modifier::UNDERLINED) {
-                    attrs.push_str(r#" text-decoration="underline""#);
-                }
-                if m.contains(Modifier::DIM) {
-                    attrs.push_str(r#" opacity="0.6""#);
-                }
+                let attrs = text_attrs(cells[x].2);
                 let _ = writeln!(
                     s,
                     r#"<text x="{:.1}" y="{:.1}" fill="{}" xml:space="preserve" textLength="{:.1}" lengthAdjust="spacingAndGlyphs"{attrs}>{}</text>"#,

@@ -73,9 +73,26 @@ fn named_key(word: &str) -> Option<KeyCode> {
     })
 }
 
+/// Why a key script was refused.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum KeyError {
+    /// A `'` without its closing one (the whole script).
+    #[error("unclosed quote in '{0}': text to type goes between two ' marks")]
+    UnclosedQuote(String),
+    /// `C-` followed by other than one character (the word).
+    #[error("'{0}': write C- and one letter, e.g. C-r")]
+    Control(String),
+    /// A word that is no key name, no single character and not quoted.
+    #[error(
+        "unknown key '{0}': use one character, C-x, F1 to F12 or one of {names}; put text to type in quotes ('2.5 mM')",
+        names = KEY_NAMES.join(" ")
+    )]
+    Unknown(String),
+}
+
 /// Splits a script into words; text in single quotes is one word, kept
 /// with its quotes so that it is typed.
-fn words(script: &str) -> Result<Vec<String>, String> {
+fn words(script: &str) -> Result<Vec<String>, KeyError> {
     let mut out = Vec::new();
     let mut cur = String::new();
     let mut quoted = false;
@@ -94,9 +111,7 @@ fn words(script: &str) -> Result<Vec<String>, String> {
         }
     }
     if quoted {
-        return Err(format!(
-            "unclosed quote in '{script}': text to type goes between two ' marks"
-        ));
+        return Err(KeyError::UnclosedQuote(script.to_string()));
     }
     if !cur.is_empty() {
         out.push(cur);
@@ -109,7 +124,7 @@ fn words(script: &str) -> Result<Vec<String>, String> {
 /// `PageUp`, `F5`, …), `C-` and a letter for Ctrl, or a single character.
 /// Text of more than one character is typed only when quoted:
 /// `Enter '2.5 mM' Enter`. Any other word is refused, with the names listed.
-pub fn parse_keys(script: &str) -> Result<Vec<KeyEvent>, String> {
+pub fn parse_keys(script: &str) -> Result<Vec<KeyEvent>, KeyError> {
     let mut out = Vec::new();
     let key = |code| KeyEvent::new(code, KeyModifiers::NONE);
     for word in words(script)? {
@@ -121,15 +136,12 @@ pub fn parse_keys(script: &str) -> Result<Vec<KeyEvent>, String> {
             let mut cs = rest.chars();
             match (cs.next(), cs.next()) {
                 (Some(c), None) => out.push(KeyEvent::new(KeyCode::Char(c), KeyModifiers::CONTROL)),
-                _ => return Err(format!("'{word}': write C- and one letter, e.g. C-r")),
+                _ => return Err(KeyError::Control(word)),
             }
         } else if word.chars().count() == 1 && !word.contains('\'') {
             out.extend(word.chars().map(|c| key(KeyCode::Char(c))));
         } else {
-            return Err(format!(
-                "unknown key '{word}': use one character, C-x, F1 to F12 or one of {}; put text to type in quotes ('2.5 mM')",
-                KEY_NAMES.join(" ")
-            ));
+            return Err(KeyError::Unknown(word));
         }
     }
     Ok(out)
@@ -157,7 +169,7 @@ mod tests {
 
     #[test]
     fn an_unknown_key_name_is_refused_with_the_valid_ones() {
-        let e = parse_keys("Tab Frobnicate").unwrap_err();
+        let e = parse_keys("Tab Frobnicate").unwrap_err().to_string();
         assert!(e.contains("unknown key 'Frobnicate'"), "{e}");
         assert!(
             e.contains("Tab") && e.contains("PageDown") && e.contains("quotes"),
@@ -170,6 +182,7 @@ mod tests {
         assert!(
             parse_keys("Enter '2.5")
                 .unwrap_err()
+                .to_string()
                 .contains("unclosed quote")
         );
         assert!(parse_keys("F13").is_err());

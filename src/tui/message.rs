@@ -135,7 +135,7 @@ pub enum Message {
     /// Answer to the overwrite question.
     Overwrite(bool),
     /// The file on disk changed: its new text (or why it could not be read).
-    Reloaded(Result<String, String>),
+    Reloaded(Result<String, crate::scenario::session::ReadError>),
     /// F12 in a build with the `test-panic` feature.
     #[cfg(feature = "test-panic")]
     Panic,

@@ -131,19 +131,7 @@ pub(super) fn band_solve(
     mut b: Vec<f64>,
 ) -> Result<Option<Vec<f64>>, Failure> {
     let n = rows.len();
-    let (mut p, mut q) = (0usize, 0usize);
-    let mut win: Vec<(usize, Vec<f64>)> = Vec::with_capacity(n);
-    for (i, r) in rows.iter().enumerate() {
-        let lo = r.iter().map(|e| e.0).min().unwrap_or(i).min(i);
-        let hi = r.iter().map(|e| e.0).max().unwrap_or(i).max(i) + 1;
-        p = p.max(i - lo);
-        q = q.max(hi - 1 - i);
-        let mut v = vec![0.0; hi - lo];
-        for &(k, x) in r {
-            v[k - lo] += x;
-        }
-        win.push((lo, v));
-    }
+    let (mut win, p, q) = windows(&rows);
     if n.saturating_mul(p + 1).saturating_mul(2 * p + q + 1) > BAND_WORK_MAX {
         return Err(Failure::TooWide);
     }
@@ -208,6 +196,25 @@ pub(super) fn band_solve(
     }
     let xn = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
     Ok((x.iter().all(|v| v.is_finite()) && (xn * an <= 1e13 * bn || bn == 0.0)).then_some(x))
+}
+
+/// Each row as a dense window (first column, values) spanning its entries
+/// and the diagonal, with the lower and upper bandwidths.
+fn windows(rows: &[Vec<(usize, f64)>]) -> (Vec<(usize, Vec<f64>)>, usize, usize) {
+    let (mut p, mut q) = (0usize, 0usize);
+    let mut win: Vec<(usize, Vec<f64>)> = Vec::with_capacity(rows.len());
+    for (i, r) in rows.iter().enumerate() {
+        let lo = r.iter().map(|e| e.0).min().unwrap_or(i).min(i);
+        let hi = r.iter().map(|e| e.0).max().unwrap_or(i).max(i) + 1;
+        p = p.max(i - lo);
+        q = q.max(hi - 1 - i);
+        let mut v = vec![0.0; hi - lo];
+        for &(k, x) in r {
+            v[k - lo] += x;
+        }
+        win.push((lo, v));
+    }
+    (win, p, q)
 }
 
 /// LU with partial pivoting and the two triangular solves.

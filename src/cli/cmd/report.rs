@@ -92,57 +92,65 @@ pub fn run_samples_report(
             };
             emit(&text)
         }
-        Format::Csv | Format::Json => {
-            check_table(prep, &state, path)?;
-            let rows = SampleReader::open(path, &prep.pathway, &state.conc)?;
-            let mut out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-            let json = format == Format::Json;
-            let head = if json {
-                render::json_head(prep, &state, u)
+        Format::Csv | Format::Json => stream_samples(prep, &state, path, format == Format::Json, u),
+    }
+}
+
+/// `report --samples` as CSV or JSON: the rows written as each chunk is solved.
+fn stream_samples(
+    prep: &Prepared,
+    state: &State,
+    path: &Path,
+    json: bool,
+    u: dgpath::present::EnergyUnit,
+) -> Result<()> {
+    check_table(prep, state, path)?;
+    let rows = SampleReader::open(path, &prep.pathway, &state.conc)?;
+    let mut out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+    let head = if json {
+        render::json_head(prep, state, u)
+    } else {
+        render::csv_header()
+    };
+    if let Err(e) = out.write_all(head.as_bytes()) {
+        return if is_broken_pipe(&e) {
+            Ok(())
+        } else {
+            Err(e).context("writing to stdout")
+        };
+    }
+    let mut first = true;
+    let result = batch::run(
+        prep,
+        state,
+        rows,
+        |name, a| {
+            if json {
+                render::json_sample_line(prep, name, a, u, true)
             } else {
-                render::csv_header()
-            };
-            if let Err(e) = out.write_all(head.as_bytes()) {
-                return if is_broken_pipe(&e) {
-                    Ok(())
-                } else {
-                    Err(e).context("writing to stdout")
-                };
+                render::csv_rows(prep, name, a, u)
             }
-            let mut first = true;
-            let result = batch::run(
-                prep,
-                &state,
-                rows,
-                |name, a| {
-                    if json {
-                        render::json_sample_line(prep, name, a, u, true)
-                    } else {
-                        render::csv_rows(prep, name, a, u)
-                    }
-                },
-                |text| {
-                    if json && !first {
-                        out.write_all(b",\n")?;
-                    }
-                    first = false;
-                    out.write_all(text.as_bytes())
-                },
-            );
-            let sum = match result {
-                Ok(s) => s,
-                Err(BatchError::Write(e)) if is_broken_pipe(&e) => return Ok(()),
-                Err(e) => return Err(e.into()),
-            };
-            let tail = if json {
-                render::json_tail(prep, &sum, u)
-            } else {
-                String::new()
-            };
-            match out.write_all(tail.as_bytes()).and_then(|_| out.flush()) {
-                Err(e) if is_broken_pipe(&e) => Ok(()),
-                r => r.context("writing to stdout"),
+        },
+        |text| {
+            if json && !first {
+                out.write_all(b",\n")?;
             }
-        }
+            first = false;
+            out.write_all(text.as_bytes())
+        },
+    );
+    let sum = match result {
+        Ok(s) => s,
+        Err(BatchError::Write(e)) if is_broken_pipe(&e) => return Ok(()),
+        Err(e) => return Err(e.into()),
+    };
+    let tail = if json {
+        render::json_tail(prep, &sum, u)
+    } else {
+        String::new()
+    };
+    match out.write_all(tail.as_bytes()).and_then(|_| out.flush()) {
+        Err(e) if is_broken_pipe(&e) => Ok(()),
+        r => r.context("writing to stdout"),
     }
 }

@@ -3,7 +3,7 @@
 use crate::cli::args::Common;
 use crate::cli::output::emit;
 use crate::cli::request::{explorer_samples, load_source, state_from};
-use anyhow::{Context, Result, anyhow};
+use anyhow::{Context, Result};
 use dgpath::tui;
 use std::path::{Path, PathBuf};
 
@@ -16,7 +16,7 @@ pub fn screenshot(
     keys: &str,
     ascii: bool,
 ) -> Result<()> {
-    let (w, h) = tui::export::parse_size(size).map_err(|e| anyhow!("--size {e}"))?;
+    let (w, h) = tui::export::parse_size(size).with_context(|| format!("--size '{size}'"))?;
     let (prep, source) = load_source(file)?;
     let state = state_from(&prep, c)?;
     let samples = explorer_samples(&prep, &state, c)?;
@@ -29,9 +29,7 @@ pub fn screenshot(
     let mut app = tui::App::new(prep, state, source, opts)
         .and_then(|a| a.with_samples(samples))
         .map(|a| a.with_draws(c.draws()))?;
-    let (txt, svg) = tui::export::screenshot(&mut app, keys, w, h)
-        .map_err(anyhow::Error::msg)
-        .context("--keys")?;
+    let (txt, svg) = tui::export::screenshot(&mut app, keys, w, h).context("--keys")?;
     let with = |ext: &str| {
         let mut p = output.as_os_str().to_owned();
         p.push(ext);
