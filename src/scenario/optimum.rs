@@ -36,7 +36,7 @@ impl LiveMdf {
 }
 
 /// Where one free concentration lets the whole route run, or why not known.
-pub type FeasibleRange = Result<Option<(f64, f64)>, String>;
+pub type FeasibleRange = Result<Option<(f64, f64)>, mdf::MdfError>;
 
 /// Work for the background solver, tagged with the state's generation.
 enum Job {
@@ -178,8 +178,7 @@ fn serve(jobs: &Receiver<Job>, answers: &Sender<Answer>) {
                 } => Answer::Range {
                     id,
                     compound,
-                    range: mdf::feasible_range(&prep, &state, &mdf, compound)
-                        .map_err(|e| e.to_string()),
+                    range: mdf::feasible_range(&prep, &state, &mdf, compound),
                 },
             };
             if answers.send(answer).is_err() {

@@ -311,10 +311,12 @@ impl Session {
     /// (ask for it with `ask_range`).
     pub fn feasible_range(&self, m: &crate::analysis::mdf::Mdf, i: usize) -> Option<FeasibleRange> {
         if self.background.is_none() || self.analysis.steps.len() <= LIVE_MDF_SYNC_STEPS {
-            return Some(
-                crate::analysis::mdf::feasible_range(&self.prep, self.state(), m, i)
-                    .map_err(|e| e.to_string()),
-            );
+            return Some(crate::analysis::mdf::feasible_range(
+                &self.prep,
+                self.state(),
+                m,
+                i,
+            ));
         }
         match &self.range {
             Some((c, g, r)) if *c == i && *g == self.generation && self.optimum_current() => {
@@ -551,8 +553,7 @@ mod tests {
         s.ask_range(i);
         assert!(s.optimum_waiting());
         s.settle();
-        let direct = crate::analysis::mdf::feasible_range(&s.prep, s.state(), &m, i)
-            .map_err(|e| e.to_string());
+        let direct = crate::analysis::mdf::feasible_range(&s.prep, s.state(), &m, i);
         assert_eq!(s.feasible_range(&m, i), Some(direct));
         // An edit makes the range unknown again.
         let c3 = s.pathway().compound("c3").unwrap();
