@@ -402,16 +402,7 @@ fn check_couples_name_later_steps(p: &Pathway) -> Result<(), Problem> {
 }
 
 fn build_forward_first_times(p: &Pathway) -> Result<f64, Problem> {
-    let mut steps: Vec<RouteStep> = p
-        .route
-        .iter()
-        .map(|&s| RouteStep {
-            step: s,
-            sign: 1.0,
-            times: 1.0,
-            replaces: None,
-        })
-        .collect();
+    let mut steps = forward_steps(p);
     let roles = build_roles_quick(p, &steps);
     balance(p, &mut steps, &roles, Direction::Forward)?;
     Ok(steps[0].times)
