@@ -3,9 +3,6 @@
 
 use std::fmt;
 
-/// Highest temperature (K) a file or option may state (see `check`).
-pub const MAX_TEMPERATURE: f64 = super::check::MAX_TEMPERATURE;
-
 /// One mistake in an input, with where it is and how to fix it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Problem {
