@@ -941,3 +941,11 @@ fn one_key_writes_under_two_kilobytes_to_the_terminal() {
     assert!(second > 0 && second <= 2048, "{second} bytes for one '+'");
     assert!(first > 4 * second, "first frame {first}, one key {second}");
 }
+
+#[test]
+fn an_explorer_can_be_shared_between_threads() {
+    // Checked when compiling: the key fuzz target keeps an explorer in a
+    // static (Sync), and the solver thread's channel must not break that.
+    fn shareable<T: Send + Sync>() {}
+    shareable::<App>();
+}

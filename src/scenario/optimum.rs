@@ -6,6 +6,7 @@ use crate::analysis::mdf::{self, Mdf};
 use crate::model::units;
 use crate::scenario::State;
 use std::sync::Arc;
+use std::sync::Mutex;
 use std::sync::mpsc::{self, Receiver, Sender};
 
 /// Routes up to this long are optimised in the keystroke itself (a few
@@ -90,7 +91,9 @@ pub enum Answer {
 #[derive(Debug)]
 pub struct Background {
     jobs: Sender<Job>,
-    answers: Receiver<Answer>,
+    /// Behind a lock only so that a session can be shared between threads
+    /// (a receiver is not `Sync`); one thread reads it at a time anyway.
+    answers: Mutex<Receiver<Answer>>,
 }
 
 impl std::fmt::Debug for Job {
@@ -109,7 +112,10 @@ impl Background {
             .name("optimum".into())
             .spawn(move || serve(&job_rx, &answer_tx))
             .ok()?;
-        Some(Background { jobs, answers })
+        Some(Background {
+            jobs,
+            answers: Mutex::new(answers),
+        })
     }
 
     /// Asks for the optimum of `state` (generation `id`).
@@ -137,12 +143,15 @@ impl Background {
 
     /// The answers that have arrived, oldest first, without waiting.
     pub fn arrived(&self) -> Vec<Answer> {
-        self.answers.try_iter().collect()
+        match self.answers.lock() {
+            Ok(rx) => rx.try_iter().collect(),
+            Err(_) => Vec::new(),
+        }
     }
 
     /// Waits for the next answer; None when the solver has stopped.
     pub fn wait(&self) -> Option<Answer> {
-        self.answers.recv().ok()
+        self.answers.lock().ok()?.recv().ok()
     }
 }
 

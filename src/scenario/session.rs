@@ -500,6 +500,14 @@ mod tests {
         (dir, path, Session::new(prep, state, source).unwrap())
     }
 
+    #[test]
+    fn a_session_can_be_shared_between_threads() {
+        // Checked when compiling: the fuzz targets keep an explorer in a
+        // static, which needs Sync, and the solver thread must not break it.
+        fn shareable<T: Send + Sync>() {}
+        shareable::<Session>();
+    }
+
     /// A session on a generated route long enough to be optimised in the background.
     fn long_session(steps: usize) -> Session {
         assert!(steps > LIVE_MDF_SYNC_STEPS);
