@@ -13,11 +13,9 @@ impl Cx<'_> {
             return Vec::new();
         };
         let span = Self::value_span(t, "pka");
-        let values: Option<Vec<f64>> = item.as_array().and_then(|a| {
-            a.iter()
-                .map(|v| v.as_float().or_else(|| v.as_integer().map(|i| i as f64)))
-                .collect()
-        });
+        let values: Option<Vec<f64>> = item
+            .as_array()
+            .and_then(|a| a.iter().map(|v| v.as_number()).collect());
         let Some(values) = values.filter(|v| v.iter().all(|x| x.is_finite())) else {
             self.err(
                 span,

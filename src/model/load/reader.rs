@@ -24,6 +24,10 @@ pub(super) trait Read<'i> {
     fn as_integer(&self) -> Option<i64>;
     /// A number written with a point or exponent (not a whole number).
     fn as_float(&self) -> Option<f64>;
+    /// Any number, whole or not, as f64. A whole number beyond the 64-bit
+    /// range is kept (as the nearest f64) so that the plausibility check
+    /// names it, rather than being taken for text.
+    fn as_number(&self) -> Option<f64>;
     /// true or false.
     fn as_bool(&self) -> Option<bool>;
     /// A list, `[...]`.
@@ -44,6 +48,17 @@ impl<'i> Read<'i> for Item<'i> {
     }
     fn as_float(&self) -> Option<f64> {
         self.get_ref().as_float()?.as_str().parse().ok()
+    }
+    fn as_number(&self) -> Option<f64> {
+        if let Some(x) = self.as_float() {
+            return Some(x);
+        }
+        let i = self.get_ref().as_integer()?;
+        match i64::from_str_radix(i.as_str(), i.radix()) {
+            Ok(v) => Some(v as f64),
+            Err(_) if i.radix() == 10 => i.as_str().parse().ok(),
+            Err(_) => None,
+        }
     }
     fn as_bool(&self) -> Option<bool> {
         self.get_ref().as_bool()
@@ -206,10 +221,7 @@ impl Cx<'_> {
 
     pub(super) fn number(&mut self, t: &Table, k: &str, what: &str) -> Option<f64> {
         let item = t.get(k)?;
-        match item
-            .as_float()
-            .or_else(|| item.as_integer().map(|i| i as f64))
-        {
+        match item.as_number() {
             Some(v) if v.is_finite() => Some(v),
             _ => {
                 self.err(
@@ -244,7 +256,7 @@ impl Cx<'_> {
     ) -> Option<f64> {
         let r = if let Some(s) = v.as_str() {
             units::parse(s, kind).map_err(|e| e.to_string())
-        } else if let Some(x) = v.as_float().or_else(|| v.as_integer().map(|i| i as f64)) {
+        } else if let Some(x) = v.as_number() {
             units::from_number(x, kind).map_err(|e| e.to_string())
         } else {
             Err(format!("expected a value such as {}", kind.example()))
