@@ -50,15 +50,13 @@ impl<'i> Read<'i> for Item<'i> {
         self.get_ref().as_float()?.as_str().parse().ok()
     }
     fn as_number(&self) -> Option<f64> {
-        if let Some(x) = self.as_float() {
-            return Some(x);
-        }
-        let i = self.get_ref().as_integer()?;
-        match i64::from_str_radix(i.as_str(), i.radix()) {
-            Ok(v) => Some(v as f64),
-            Err(_) if i.radix() == 10 => i.as_str().parse().ok(),
-            Err(_) => None,
-        }
+        self.as_float()
+            .or_else(|| self.as_integer().map(|i| i as f64))
+            .or_else(|| {
+                // Beyond i64: a decimal whole number still reads as f64.
+                let i = self.get_ref().as_integer()?;
+                (i.radix() == 10).then(|| i.as_str().parse().ok())?
+            })
     }
     fn as_bool(&self) -> Option<bool> {
         self.get_ref().as_bool()
